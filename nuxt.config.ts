@@ -1,0 +1,51 @@
+// Nuxt configuration. Every endpoint comes from NUXT_* variables at run time
+// (runtimeConfig), so one build serves development, tests and production.
+export default defineNuxtConfig({
+  compatibilityDate: '2026-06-01',
+  devtools: { enabled: false },
+  telemetry: false,
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
+  css: ['~/assets/css/main.css'],
+  app: {
+    head: {
+      title: 'Decalwright',
+      htmlAttrs: { lang: 'en' },
+      meta: [
+        { name: 'viewport', content: 'width=device-width, initial-scale=1' },
+        { name: 'description', content: 'From a student drawing to an approved, cut-ready decal on the robot.' },
+      ],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
+    },
+  },
+  runtimeConfig: {
+    // NUXT_DATABASE_URL
+    databaseUrl: '',
+    // NUXT_S3_ENDPOINT, NUXT_S3_REGION, NUXT_S3_BUCKET, NUXT_S3_ACCESS_KEY_ID, NUXT_S3_SECRET_ACCESS_KEY
+    s3Endpoint: '',
+    s3Region: 'us-east-1',
+    s3Bucket: 'decalwright',
+    s3AccessKeyId: '',
+    s3SecretAccessKey: '',
+    s3ForcePathStyle: true,
+    // NUXT_SMTP_URL, NUXT_MAIL_FROM
+    smtpUrl: '',
+    mailFrom: 'Decalwright <decalwright@localhost>',
+    // NUXT_MAIL_OUTBOX_DIR: set only when the local SMTP fake is in use; enables the mail page.
+    mailOutboxDir: '',
+    // NUXT_PUBLIC_BASE_URL: used for links in e-mail.
+    public: {
+      baseUrl: 'http://localhost:3000',
+    },
+    // NUXT_SESSION_PASSWORD is read by nuxt-auth-utils.
+    session: {
+      name: 'decalwright-session',
+      maxAge: 60 * 60 * 24 * 14,
+      cookie: { sameSite: 'lax' },
+    },
+  },
+  nitro: {
+    // Native and CommonJS-heavy packages stay in node_modules rather than being bundled.
+    externals: { external: ['sharp', 'pg', 'potrace', 'svgo', 'nodemailer'] },
+  },
+  typescript: { strict: true },
+})

@@ -1,0 +1,5 @@
+export default defineEventHandler(async (event) => {
+  await clearUserSession(event)
+  setResponseStatus(event, 204)
+  return null
+})

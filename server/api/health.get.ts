@@ -1,0 +1,7 @@
+import { sql } from 'kysely'
+
+// Answers only when the database and the object store both answer.
+export default defineEventHandler(async () => {
+  await Promise.all([sql`select 1`.execute(useDb()), checkBucket()])
+  return { ok: true }
+})

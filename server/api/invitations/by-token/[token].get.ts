@@ -1,0 +1,1 @@
+export default defineEventHandler(async (event) => previewInvitation(getRouterParam(event, 'token') ?? ''))

@@ -1,0 +1,8 @@
+export default defineEventHandler(async (event) => {
+  await requireMentor(event)
+  const dir = outboxDir()
+  if (!dir) throw createError({ statusCode: 404, message: 'The local mail fake is not in use.' })
+  const message = await readOutboxMessage(dir, getRouterParam(event, 'id') ?? '')
+  if (!message) throw createError({ statusCode: 404, message: 'No such message.' })
+  return message
+})

@@ -1,0 +1,1 @@
+export default defineEventHandler(async (event) => previewReset(getRouterParam(event, 'token') ?? ''))

@@ -1,0 +1,5 @@
+export default defineEventHandler(async (event) => {
+  const teamId = idParam(event)
+  const actor = await requireRole(event, teamId, 'student')
+  return teamDetail(actor, teamId)
+})

@@ -1,0 +1,52 @@
+// A fictional program for the demo and the tests. Every name here is invented; team
+// numbers use our own "HL-" prefix so they cannot be mistaken for a real team's number.
+import type { Kysely } from 'kysely'
+import type { Database } from './schema'
+import { hashPasswordOutsideNuxt } from './passwords'
+
+export const DEMO_PASSWORD = 'workshop-demo-2026'
+
+export const DEMO_ACCOUNTS = {
+  mentor: { email: 'mentor@harbourline.example', name: 'Odile Marchetti' },
+  designer: { email: 'designer@harbourline.example', name: 'Kofi Lindqvist' },
+  student: { email: 'student@harbourline.example', name: 'Priya Castellanos' },
+  operator: { email: 'operator@harbourline.example', name: 'Bram Okonkwo-Hale' },
+} as const
+
+/** Loads the demo program into an empty database; does nothing when any program exists. */
+export async function loadDemo(db: Kysely<Database>): Promise<boolean> {
+  const any = await db.selectFrom('program').select('id').limit(1).executeTakeFirst()
+  if (any) return false
+  const passwordHash = await hashPasswordOutsideNuxt(DEMO_PASSWORD)
+  await db.transaction().execute(async (trx) => {
+    const program = await trx.insertInto('program')
+      .values({ name: 'Harbourline Robotics', school: 'Kestrel Bay Secondary School' })
+      .returning('id').executeTakeFirstOrThrow()
+    const teams = await trx.insertInto('team').values([
+      { program_id: program.id, name: 'Copper Wrens', number: 'HL-1', colour: '#b4532a' },
+      { program_id: program.id, name: 'Tidewater Sprockets', number: 'HL-2', colour: '#2a5fb4' },
+    ]).returning(['id', 'name']).execute()
+    const [wrens, sprockets] = teams as [{ id: number }, { id: number }]
+    const people = [
+      { ...DEMO_ACCOUNTS.mentor, mentor: true },
+      { ...DEMO_ACCOUNTS.designer, team: wrens.id, role: 'designer' as const },
+      { ...DEMO_ACCOUNTS.student, team: wrens.id, role: 'student' as const },
+      { ...DEMO_ACCOUNTS.operator, team: wrens.id, role: 'operator' as const },
+      { email: 'mentor2@harbourline.example', name: 'Hamish Delacroix-Ueda', mentor: true },
+      { email: 'juniper@harbourline.example', name: 'Juniper Ashgrove', team: sprockets.id, role: 'designer' as const },
+      { email: 'tomasz@harbourline.example', name: 'Tomasz Ferreira-Noor', team: sprockets.id, role: 'student' as const },
+      { email: 'wren.op@harbourline.example', name: 'Ilse Moreau-Tan', team: sprockets.id, role: 'operator' as const },
+    ]
+    for (const p of people) {
+      const user = await trx.insertInto('users')
+        .values({ program_id: program.id, email: p.email, name: p.name, password_hash: passwordHash })
+        .returning('id').executeTakeFirstOrThrow()
+      if ('mentor' in p) await trx.insertInto('mentorship').values({ user_id: user.id, program_id: program.id }).execute()
+      else await trx.insertInto('membership').values({ user_id: user.id, team_id: p.team, role: p.role }).execute()
+    }
+    await trx.insertInto('audit_event').values({
+      program_id: program.id, actor_id: null, action: 'load-demo', subject_type: 'program', subject_id: String(program.id), detail: JSON.stringify({}),
+    }).execute()
+  })
+  return true
+}

@@ -1,0 +1,103 @@
+import { sql, type Kysely } from 'kysely'
+
+// Programs, people, teams, roles, one-time links, sign-in attempts and the audit trail.
+export async function up(db: Kysely<any>): Promise<void> {
+  await db.schema.createTable('program')
+    .addColumn('id', 'serial', (c) => c.primaryKey())
+    .addColumn('name', 'text', (c) => c.notNull())
+    .addColumn('school', 'text', (c) => c.notNull().defaultTo(''))
+    .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
+    .execute()
+
+  await db.schema.createTable('users')
+    .addColumn('id', 'serial', (c) => c.primaryKey())
+    .addColumn('program_id', 'integer', (c) => c.notNull().references('program.id'))
+    .addColumn('email', 'text', (c) => c.notNull().check(sql`email = lower(email) and position('@' in email) > 1`))
+    .addColumn('name', 'text', (c) => c.notNull().check(sql`length(trim(name)) > 0`))
+    .addColumn('password_hash', 'text')
+    .addColumn('active', 'boolean', (c) => c.notNull().defaultTo(true))
+    .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
+    .addColumn('last_sign_in_at', 'timestamptz')
+    .execute()
+  await db.schema.createIndex('users_email_unique').on('users').column('email').unique().execute()
+
+  await db.schema.createTable('mentorship')
+    .addColumn('user_id', 'integer', (c) => c.notNull().references('users.id').onDelete('cascade'))
+    .addColumn('program_id', 'integer', (c) => c.notNull().references('program.id'))
+    .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
+    .addPrimaryKeyConstraint('mentorship_pk', ['user_id', 'program_id'])
+    .execute()
+
+  await db.schema.createTable('team')
+    .addColumn('id', 'serial', (c) => c.primaryKey())
+    .addColumn('program_id', 'integer', (c) => c.notNull().references('program.id'))
+    .addColumn('name', 'text', (c) => c.notNull().check(sql`length(trim(name)) > 0`))
+    .addColumn('number', 'text')
+    .addColumn('colour', 'text', (c) => c.notNull().defaultTo('#0f6e6a').check(sql`colour ~ '^#[0-9a-fA-F]{6}$'`))
+    .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
+    .addUniqueConstraint('team_name_unique', ['program_id', 'name'])
+    .execute()
+
+  await db.schema.createTable('membership')
+    .addColumn('user_id', 'integer', (c) => c.notNull().references('users.id').onDelete('cascade'))
+    .addColumn('team_id', 'integer', (c) => c.notNull().references('team.id').onDelete('cascade'))
+    .addColumn('role', 'text', (c) => c.notNull().check(sql`role in ('student', 'designer', 'operator')`))
+    .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
+    .addPrimaryKeyConstraint('membership_pk', ['user_id', 'team_id'])
+    .execute()
+
+  await db.schema.createTable('invitation')
+    .addColumn('id', 'serial', (c) => c.primaryKey())
+    .addColumn('program_id', 'integer', (c) => c.notNull().references('program.id'))
+    .addColumn('email', 'text', (c) => c.notNull())
+    .addColumn('name', 'text', (c) => c.notNull())
+    .addColumn('team_id', 'integer', (c) => c.references('team.id').onDelete('cascade'))
+    .addColumn('role', 'text', (c) => c.notNull().check(sql`role in ('student', 'designer', 'operator', 'mentor')`))
+    .addColumn('token_hash', 'text', (c) => c.notNull().unique())
+    .addColumn('invited_by', 'integer', (c) => c.references('users.id'))
+    .addColumn('expires_at', 'timestamptz', (c) => c.notNull())
+    .addColumn('used_at', 'timestamptz')
+    .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
+    // A team role needs a team; a mentor belongs to the whole program.
+    .addCheckConstraint('invitation_team_role', sql`(role = 'mentor') = (team_id is null)`)
+    .execute()
+
+  await db.schema.createTable('password_reset')
+    .addColumn('id', 'serial', (c) => c.primaryKey())
+    .addColumn('user_id', 'integer', (c) => c.notNull().references('users.id').onDelete('cascade'))
+    .addColumn('token_hash', 'text', (c) => c.notNull().unique())
+    .addColumn('purpose', 'text', (c) => c.notNull().check(sql`purpose in ('reset', 'welcome')`))
+    .addColumn('expires_at', 'timestamptz', (c) => c.notNull())
+    .addColumn('used_at', 'timestamptz')
+    .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
+    .execute()
+
+  await db.schema.createTable('audit_event')
+    .addColumn('id', 'bigserial', (c) => c.primaryKey())
+    .addColumn('program_id', 'integer', (c) => c.references('program.id'))
+    .addColumn('actor_id', 'integer', (c) => c.references('users.id'))
+    .addColumn('action', 'text', (c) => c.notNull())
+    .addColumn('subject_type', 'text', (c) => c.notNull())
+    .addColumn('subject_id', 'text')
+    .addColumn('detail', 'jsonb', (c) => c.notNull().defaultTo(sql`'{}'::jsonb`))
+    .addColumn('ip', 'text')
+    .addColumn('at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
+    .execute()
+  await db.schema.createIndex('audit_event_program_at').on('audit_event').columns(['program_id', 'at']).execute()
+
+  await db.schema.createTable('sign_in_attempt')
+    .addColumn('id', 'bigserial', (c) => c.primaryKey())
+    .addColumn('email', 'text', (c) => c.notNull())
+    .addColumn('ip', 'text', (c) => c.notNull())
+    .addColumn('succeeded', 'boolean', (c) => c.notNull())
+    .addColumn('at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
+    .execute()
+  await db.schema.createIndex('sign_in_attempt_email_at').on('sign_in_attempt').columns(['email', 'at']).execute()
+  await db.schema.createIndex('sign_in_attempt_ip_at').on('sign_in_attempt').columns(['ip', 'at']).execute()
+}
+
+export async function down(db: Kysely<any>): Promise<void> {
+  for (const t of ['sign_in_attempt', 'audit_event', 'password_reset', 'invitation', 'membership', 'team', 'mentorship', 'users', 'program']) {
+    await db.schema.dropTable(t).execute()
+  }
+}

@@ -1,0 +1,8 @@
+import type { Migration } from 'kysely'
+import * as m0001 from './0001_foundation'
+
+// A static list: a bundled server cannot read a folder of migration files.
+// Add new migrations here, in order, under a name that sorts after the last one.
+export const migrations: Record<string, Migration> = {
+  '0001_foundation': m0001,
+}

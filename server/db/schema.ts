@@ -1,0 +1,108 @@
+// The one typed description of the database, shared by the app, the scripts and the tests.
+import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely'
+import type { MemberRole } from '../../shared/types/roles'
+
+type CreatedAt = ColumnType<Date, Date | string | undefined, never>
+type Timestamp = ColumnType<Date, Date | string, Date | string>
+
+export interface ProgramTable {
+  id: Generated<number>
+  name: string
+  school: string
+  created_at: CreatedAt
+}
+
+export interface UsersTable {
+  id: Generated<number>
+  program_id: number
+  email: string
+  name: string
+  password_hash: string | null
+  active: Generated<boolean>
+  created_at: CreatedAt
+  last_sign_in_at: Timestamp | null
+}
+
+export interface MentorshipTable {
+  user_id: number
+  program_id: number
+  created_at: CreatedAt
+}
+
+export interface TeamTable {
+  id: Generated<number>
+  program_id: number
+  name: string
+  number: string | null
+  colour: string
+  created_at: CreatedAt
+}
+
+export interface MembershipTable {
+  user_id: number
+  team_id: number
+  role: MemberRole
+  created_at: CreatedAt
+}
+
+export interface InvitationTable {
+  id: Generated<number>
+  program_id: number
+  email: string
+  name: string
+  team_id: number | null
+  role: MemberRole | 'mentor'
+  token_hash: string
+  invited_by: number | null
+  expires_at: Timestamp
+  used_at: Timestamp | null
+  created_at: CreatedAt
+}
+
+export interface PasswordResetTable {
+  id: Generated<number>
+  user_id: number
+  token_hash: string
+  purpose: 'reset' | 'welcome'
+  expires_at: Timestamp
+  used_at: Timestamp | null
+  created_at: CreatedAt
+}
+
+export interface AuditEventTable {
+  id: Generated<number>
+  program_id: number | null
+  actor_id: number | null
+  action: string
+  subject_type: string
+  subject_id: string | null
+  detail: ColumnType<Record<string, unknown>, string | undefined, string>
+  ip: string | null
+  at: CreatedAt
+}
+
+export interface SignInAttemptTable {
+  id: Generated<number>
+  email: string
+  ip: string
+  succeeded: boolean
+  at: CreatedAt
+}
+
+export interface Database {
+  program: ProgramTable
+  users: UsersTable
+  mentorship: MentorshipTable
+  team: TeamTable
+  membership: MembershipTable
+  invitation: InvitationTable
+  password_reset: PasswordResetTable
+  audit_event: AuditEventTable
+  sign_in_attempt: SignInAttemptTable
+}
+
+export type User = Selectable<UsersTable>
+export type NewUser = Insertable<UsersTable>
+export type UserUpdate = Updateable<UsersTable>
+export type Team = Selectable<TeamTable>
+export type Program = Selectable<ProgramTable>

@@ -1,0 +1,55 @@
+// The words of every message we send: plain text and HTML, both from the same parts.
+import type { OutgoingMail } from '../utils/mail'
+
+function escapeHtml(s: string): string {
+  return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!)
+}
+
+interface Parts {
+  to: string
+  subject: string
+  greeting: string
+  lines: string[]
+  action?: { label: string; url: string }
+  after?: string[]
+}
+
+export function compose(p: Parts): OutgoingMail {
+  const text = [p.greeting, '', ...p.lines, ...(p.action ? ['', `${p.action.label}: ${p.action.url}`] : []), ...(p.after ? ['', ...p.after] : []), '', '— Decalwright'].join('\n')
+  const para = (s: string) => `<p style="margin:0 0 12px">${escapeHtml(s)}</p>`
+  const html = `<!doctype html><html><body style="font-family:system-ui,sans-serif;color:#23211d;background:#f6f4ef;padding:24px">
+<div style="max-width:560px;margin:auto;background:#fff;border:1px solid #d9d3c7;border-radius:8px;padding:24px">
+${para(p.greeting)}${p.lines.map(para).join('')}
+${p.action ? `<p style="margin:20px 0"><a href="${escapeHtml(p.action.url)}" style="background:#0f6e6a;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">${escapeHtml(p.action.label)}</a></p><p style="margin:0 0 12px;font-size:13px;color:#5b574f">Or open this address: ${escapeHtml(p.action.url)}</p>` : ''}
+${(p.after ?? []).map(para).join('')}
+<p style="margin:16px 0 0;color:#5b574f">— Decalwright</p></div></body></html>`
+  return { to: p.to, subject: p.subject, text, html }
+}
+
+const ROLE_WORDS: Record<string, string> = {
+  student: 'a student', designer: 'a designer', operator: 'a laser operator', mentor: 'a mentor',
+}
+
+export function invitationMail(o: { to: string; name: string; inviter: string; programName: string; role: string; teamName: string | null; url: string }): OutgoingMail {
+  const where = o.teamName ? ` on ${o.teamName}` : ''
+  return compose({
+    to: o.to,
+    subject: `You're invited to ${o.programName} on Decalwright`,
+    greeting: `Hello ${o.name},`,
+    lines: [`${o.inviter} invited you to join ${o.programName} as ${ROLE_WORDS[o.role] ?? o.role}${where}.`,
+      'Decalwright is where the program turns drawings into approved, cut-ready decals for its robots.'],
+    action: { label: 'Accept and set your password', url: o.url },
+    after: ['The link works once and expires in 7 days. If you did not expect this, ignore this message.'],
+  })
+}
+
+export function resetMail(o: { to: string; name: string; url: string }): OutgoingMail {
+  return compose({
+    to: o.to,
+    subject: 'Reset your Decalwright password',
+    greeting: `Hello ${o.name},`,
+    lines: ['Someone (we hope you) asked to reset the password of your Decalwright account.'],
+    action: { label: 'Choose a new password', url: o.url },
+    after: ['The link works once and expires in one hour. If you did not ask for this, ignore this message: your password stays as it is.'],
+  })
+}

@@ -1,0 +1,3 @@
+export default defineEventHandler(async (event) => {
+  if (event.path.startsWith('/api/')) await dbReady()
+})

@@ -1,0 +1,122 @@
+// Shapes of the JSON the API answers with. Client and server both use these.
+import type { MemberRole, Role } from './roles'
+
+export interface MeTeam {
+  id: number
+  name: string
+  number: string | null
+  colour: string
+  /** The user's role in this team; 'mentor' for a mentor who is not a member of it. */
+  role: MemberRole | 'mentor'
+}
+
+export interface Me {
+  user: { id: number; name: string; email: string }
+  program: { id: number; name: string; school: string }
+  isMentor: boolean
+  /** Every distinct role the user holds anywhere in the program. */
+  roles: Role[]
+  teams: MeTeam[]
+  /** The page this user's role starts on: '/program' (mentor), '/lab' (operator), '/studio' (student, designer). */
+  home: string
+  /** True when the local mail fake is in use, so the mentor's mail page exists. */
+  mailFake: boolean
+}
+
+export interface TeamSummary {
+  id: number
+  name: string
+  number: string | null
+  colour: string
+  memberCount: number
+  myRole: MemberRole | 'mentor' | null
+}
+
+export interface TeamMember {
+  userId: number
+  name: string
+  email: string
+  role: MemberRole
+  active: boolean
+}
+
+export interface PendingInvitation {
+  id: number
+  email: string
+  name: string
+  role: Role
+  teamId: number | null
+  teamName: string | null
+  expiresAt: string
+  invitedBy: string | null
+}
+
+export interface TeamDetail {
+  team: { id: number; name: string; number: string | null; colour: string }
+  members: TeamMember[]
+  mentors: { userId: number; name: string; email: string }[]
+  /** Only for mentors; empty for everyone else. */
+  invitations: PendingInvitation[]
+}
+
+export interface Person {
+  id: number
+  name: string
+  email: string
+  active: boolean
+  isMentor: boolean
+  lastSignInAt: string | null
+  memberships: { teamId: number; teamName: string; role: MemberRole }[]
+}
+
+export interface InvitationPreview {
+  email: string
+  name: string
+  role: Role
+  teamName: string | null
+  programName: string
+}
+
+export interface ResetPreview {
+  email: string
+  purpose: 'reset' | 'welcome'
+}
+
+export interface SignedIn {
+  /** Where to go next. */
+  home: string
+}
+
+export interface AuditEntry {
+  id: number
+  at: string
+  action: string
+  actor: { id: number; name: string } | null
+  subjectType: string
+  subjectId: string | null
+  detail: Record<string, unknown>
+}
+
+export interface MailSummary {
+  id: string
+  date: string
+  from: string
+  to: string
+  subject: string
+}
+
+export interface MailMessage extends MailSummary {
+  text: string
+  html: string | null
+}
+
+/**
+ * Error bodies: h3's createError JSON. For invalid input, statusCode 400 and
+ * data.fieldErrors maps a field name to its messages, so a form can show them inline.
+ */
+export interface ApiErrorBody {
+  statusCode: number
+  statusMessage?: string
+  message: string
+  data?: { fieldErrors?: Record<string, string[]> }
+}

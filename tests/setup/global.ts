@@ -1,0 +1,54 @@
+// Once per test run: real services on their own ports under storage/test (started afresh),
+// migrations, the demo program, one build of the app and one server for every e2e file.
+import { rmSync } from 'node:fs'
+import path from 'node:path'
+import type { TestProject } from 'vitest/node'
+import { startStack } from '../../scripts/lib/stack'
+import { buildApp } from '../../scripts/lib/build'
+import { startApp } from '../../scripts/lib/app-process'
+import { createDb, migrateToLatest } from '../../server/db/connect'
+import { loadDemo } from '../../server/db/demo'
+
+export const TEST_PORTS = { app: 3917, pg: 54339, s3: 4579, smtp: 2535 }
+
+declare module 'vitest' {
+  export interface ProvidedContext {
+    baseUrl: string
+    databaseUrl: string
+    mailDir: string
+    s3: { endpoint: string; bucket: string; accessKeyId: string; secretAccessKey: string }
+  }
+}
+
+export default async function setup(project: TestProject) {
+  const storageDir = path.resolve('storage/test')
+  rmSync(storageDir, { recursive: true, force: true })
+  // Local services only: a developer's own NUXT_* settings must not point tests at real ones.
+  const cleanEnv = Object.fromEntries(Object.entries(process.env).filter(([k]) => !k.startsWith('NUXT_')))
+  const stack = await startStack({ storageDir, pgPort: TEST_PORTS.pg, s3Port: TEST_PORTS.s3, smtpPort: TEST_PORTS.smtp, env: cleanEnv })
+  let app: Awaited<ReturnType<typeof startApp>> | undefined
+  try {
+    const db = createDb(stack.env.NUXT_DATABASE_URL!, 2)
+    await migrateToLatest(db)
+    await loadDemo(db)
+    await db.destroy()
+    buildApp()
+    const baseUrl = `http://127.0.0.1:${TEST_PORTS.app}`
+    app = await startApp({ port: TEST_PORTS.app, host: '127.0.0.1', env: { ...stack.env, NUXT_PUBLIC_BASE_URL: baseUrl }, quiet: !process.env.DECALWRIGHT_TEST_LOGS })
+    project.provide('baseUrl', baseUrl)
+    project.provide('databaseUrl', stack.env.NUXT_DATABASE_URL!)
+    project.provide('mailDir', stack.env.NUXT_MAIL_OUTBOX_DIR!)
+    project.provide('s3', {
+      endpoint: stack.env.NUXT_S3_ENDPOINT!, bucket: stack.env.NUXT_S3_BUCKET!,
+      accessKeyId: stack.env.NUXT_S3_ACCESS_KEY_ID!, secretAccessKey: stack.env.NUXT_S3_SECRET_ACCESS_KEY!,
+    })
+  } catch (err) {
+    await app?.stop()
+    await stack.stop()
+    throw err
+  }
+  return async () => {
+    await app?.stop()
+    await stack.stop()
+  }
+}

@@ -1,0 +1,56 @@
+// A small HTTP client for API tests that keeps the session cookie like a browser does.
+import { inject } from 'vitest'
+
+export interface Reply<T = any> { status: number; body: T; headers: Headers }
+
+export class ApiClient {
+  cookies = new Map<string, string>()
+  constructor(readonly baseUrl = inject('baseUrl')) {}
+
+  async request<T = any>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<Reply<T>> {
+    const h: Record<string, string> = { accept: 'application/json', ...headers }
+    if (this.cookies.size) h.cookie = [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+    let payload: string | undefined
+    if (body !== undefined) {
+      payload = typeof body === 'string' ? body : JSON.stringify(body)
+      h['content-type'] ??= 'application/json'
+    }
+    const r = await fetch(new URL(path, this.baseUrl), { method, headers: h, body: payload, redirect: 'manual' })
+    for (const c of r.headers.getSetCookie()) {
+      const [pair] = c.split(';')
+      const i = pair!.indexOf('=')
+      const name = pair!.slice(0, i)
+      const value = pair!.slice(i + 1)
+      if (!value || /max-age=0/i.test(c)) this.cookies.delete(name)
+      else this.cookies.set(name, value)
+    }
+    const text = await r.text()
+    let parsed: any = text
+    try { parsed = text ? JSON.parse(text) : null } catch { /* not JSON */ }
+    return { status: r.status, body: parsed, headers: r.headers }
+  }
+
+  get<T = any>(path: string) { return this.request<T>('GET', path) }
+  post<T = any>(path: string, body?: unknown, headers?: Record<string, string>) { return this.request<T>('POST', path, body ?? {}, headers) }
+  patch<T = any>(path: string, body: unknown) { return this.request<T>('PATCH', path, body) }
+  put<T = any>(path: string, body: unknown) { return this.request<T>('PUT', path, body) }
+  delete<T = any>(path: string) { return this.request<T>('DELETE', path) }
+
+  async signIn(email: string, password: string): Promise<Reply> {
+    const r = await this.post('/api/auth/sign-in', { email, password })
+    if (r.status !== 200) throw new Error(`sign-in as ${email} answered ${r.status}: ${JSON.stringify(r.body)}`)
+    return r
+  }
+}
+
+export async function signedIn(email: string, password: string): Promise<ApiClient> {
+  const c = new ApiClient()
+  await c.signIn(email, password)
+  return c
+}
+
+let counter = 0
+/** A fresh, unique address for a test, so files do not trip over each other's data. */
+export function uniqueEmail(tag: string): string {
+  return `${tag}.${process.pid}.${Date.now().toString(36)}.${counter++}@tests.example`
+}

@@ -1,0 +1,1 @@
+export { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/demo'

@@ -1,0 +1,30 @@
+import { defineConfig } from 'vitest/config'
+
+// Two projects: plain unit tests (no services), and end-to-end tests that share one build
+// of the app and one set of real services, started once per run in tests/setup/global.ts.
+export default defineConfig({
+  test: {
+    projects: [
+      {
+        test: {
+          name: 'unit',
+          include: ['tests/unit/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 60_000,
+        },
+      },
+      {
+        test: {
+          name: 'e2e',
+          include: ['tests/api/**/*.test.ts', 'tests/browser/**/*.test.ts'],
+          environment: 'node',
+          globalSetup: ['tests/setup/global.ts'],
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+          // Two cores: one test file at a time against the shared app keeps timings sane.
+          fileParallelism: false,
+        },
+      },
+    ],
+  },
+})
