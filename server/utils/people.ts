@@ -32,7 +32,9 @@ export async function createTeam(event: H3Event, actor: Actor, input: { name: st
   })
 }
 
-export async function updateTeam(event: H3Event, actor: Actor, teamId: number, patch: { name?: string; number?: string | null; colour?: string }): Promise<void> {
+export async function updateTeam(event: H3Event, actor: Actor, teamId: number, input: { name?: string; number?: string | null; colour?: string }): Promise<void> {
+  const patch = Object.fromEntries(Object.entries(input).filter(([, v]) => v !== undefined)) as typeof input
+  if (!Object.keys(patch).length) return
   await useDb().transaction().execute(async (trx) => {
     if (patch.name) {
       const clash = await trx.selectFrom('team').select('id').where('program_id', '=', actor.programId).where('id', '!=', teamId)

@@ -29,7 +29,7 @@ export async function signIn(event: H3Event, email: string, password: string): P
   const ip = getRequestIP(event, { xForwardedFor: true }) ?? 'unknown'
   const wait = await retryAfterSeconds(email, ip)
   if (wait > 0) {
-    setResponseHeader(event, 'Retry-After', String(wait))
+    setResponseHeader(event, 'Retry-After', wait)
     throw createError({ statusCode: 429, message: `Too many attempts. Try again in ${Math.ceil(wait / 60)} minute${wait > 60 ? 's' : ''}.` })
   }
   const db = useDb()

@@ -16,12 +16,18 @@ export const signInSchema = z.object({
   password: z.string().min(1, { message: 'Enter your password.' }).max(200),
 })
 
-export const teamSchema = z.object({
+const teamFields = {
   name: z.string().trim().min(1, { message: 'Enter a team name.' }).max(80),
   number: z.string().trim().max(12).optional().nullable().transform((v) => (v ? v : null)),
-  colour: z.string().regex(/^#[0-9a-fA-F]{6}$/, { message: 'Pick a colour.' }).default('#0f6e6a'),
+  colour: z.string().regex(/^#[0-9a-fA-F]{6}$/, { message: 'Pick a colour.' }),
+}
+export const teamSchema = z.object({ ...teamFields, colour: teamFields.colour.default('#0f6e6a') })
+// No defaults here: a field left out of a change stays as it is.
+export const teamPatchSchema = z.object({
+  name: teamFields.name.optional(),
+  number: z.string().trim().max(12).nullable().optional().transform((v) => (v === undefined ? undefined : v || null)),
+  colour: teamFields.colour.optional(),
 })
-export const teamPatchSchema = teamSchema.partial()
 
 export const invitationSchema = z.object({
   email: emailSchema,
@@ -46,4 +52,30 @@ export const personPatchSchema = z.object({
   name: personNameSchema.optional(),
   active: z.boolean().optional(),
   mentor: z.boolean().optional(),
+})
+
+/** Physical width of a decal: from a small label to the largest film sheet a lab laser takes. */
+export const WIDTH_MM_MIN = 5
+export const WIDTH_MM_MAX = 1000
+export const widthMmSchema = z.number({ message: 'Enter the width in millimetres.' })
+  .min(WIDTH_MM_MIN, { message: `At least ${WIDTH_MM_MIN} mm.` })
+  .max(WIDTH_MM_MAX, { message: `At most ${WIDTH_MM_MAX} mm.` })
+
+export const artworkFieldsSchema = z.object({
+  title: z.string().trim().min(1, { message: 'Give the artwork a title.' }).max(120, { message: 'Use at most 120 characters.' }),
+  teamId: z.coerce.number({ message: 'Choose a team.' }).int().positive({ message: 'Choose a team.' }),
+  widthMm: z.preprocess((v) => (v === '' || v == null ? undefined : Number(v)), widthMmSchema.default(150)),
+})
+
+export const artworkListQuerySchema = z.object({
+  teamId: z.coerce.number().int().positive().optional(),
+  q: z.string().trim().max(120).optional(),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(20),
+})
+
+export const revisionRequestSchema = z.object({
+  // Checked in full by the pipeline's own settings schema (server/pipeline/settings.ts).
+  settings: z.record(z.string(), z.unknown()).default({}),
+  widthMm: widthMmSchema,
 })

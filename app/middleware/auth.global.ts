@@ -1,0 +1,47 @@
+// One guard for every route: signed-out people reach only the public pages, and pages
+// that name roles in definePageMeta send everyone else to their own start page.
+export default defineNuxtRouteMiddleware(async (to) => {
+  const session = useSessionStore()
+  const open = isPublicPath(to.path)
+
+  if (!session.loaded) {
+    try {
+      await session.load()
+    } catch (err) {
+      // Public pages work without knowing who is signed in.
+      if (!open) {
+        const p = apiProblem(err)
+        return abortNavigation(createError({
+          statusCode: p.status >= 500 || p.status === 0 ? 503 : p.status,
+          statusMessage: 'Unavailable',
+          message: 'Decalwright could not check who is signed in. Try again in a moment.',
+          fatal: true,
+        }))
+      }
+    }
+  }
+
+  const me = session.me
+
+  if (open) {
+    // Someone already signed in has no use for the sign-in form.
+    if (to.path === '/sign-in' && me) return navigateTo(safeNext(to.query.next) ?? me.home, { replace: true })
+    return
+  }
+
+  if (!me) {
+    const query = to.fullPath === '/' ? {} : { next: to.fullPath }
+    return navigateTo({ path: '/sign-in', query }, { replace: true })
+  }
+
+  if (to.path === '/') return navigateTo(me.home, { replace: true })
+
+  if (to.meta.mailFake && !me.mailFake) {
+    return abortNavigation(createError({ statusCode: 404, statusMessage: 'Not found', message: 'This page exists only while the local mail fake is in use.' }))
+  }
+
+  // Never bounce someone away from their own start page, whatever it declares.
+  if (!session.mayOpen(to.meta.roles) && to.path !== me.home) {
+    return navigateTo(me.home, { replace: true })
+  }
+})

@@ -1,0 +1,129 @@
+import type { AuditEntry } from '#shared/types/api'
+import { roleLabel } from './format'
+
+/**
+ * Turns an audit entry into a sentence a mentor can read at a glance:
+ * "Sam Reyes invited Ana Ortiz as student to Copper Wrens".
+ *
+ * The server's action names are handled one by one; anything newer falls back to a
+ * reading of the action's words, so a new kind of entry still shows up sensibly.
+ */
+export interface AuditSentence {
+  /** Who did it, or null when nobody was signed in. */
+  actor: string | null
+  /** What happened, without the actor: "invited Ana Ortiz as student to Copper Wrens". */
+  phrase: string
+  /** The whole sentence. */
+  sentence: string
+}
+
+export interface AuditContext {
+  /** Looks up a team's current name by id, for entries that only carry the id. */
+  teamName?: (id: number) => string | undefined
+}
+
+type Detail = Record<string, unknown>
+
+function text(d: Detail, ...keys: string[]): string | null {
+  for (const k of keys) {
+    const v = d[k]
+    if (typeof v === 'string' && v.trim()) return v.trim()
+    if (typeof v === 'number') return String(v)
+  }
+  return null
+}
+
+const role = (r: unknown) => roleLabel(typeof r === 'string' ? r : '').toLowerCase()
+
+export function capitalise(s: string): string {
+  return s ? s.charAt(0).toUpperCase() + s.slice(1) : s
+}
+
+function known(e: AuditEntry, d: Detail, ctx: AuditContext): string | null {
+  const subject = e.subjectId ? `${e.subjectType} #${e.subjectId}` : e.subjectType
+  const name = text(d, 'name') ?? subject
+  switch (e.action) {
+    case 'sign-in':
+      return 'signed in'
+    case 'sign-in-failed': {
+      const reason = text(d, 'reason')
+      return reason ? `could not sign in (${reason})` : 'could not sign in'
+    }
+    case 'create-team':
+      return `created the team ${name}`
+    case 'update-team': {
+      const current = e.subjectId ? ctx.teamName?.(Number(e.subjectId)) : undefined
+      const renamed = text(d, 'name')
+      const others = ['number', 'colour'].filter((k) => k in d)
+      const rest = others.length ? ` and changed its ${others.join(' and ')}` : ''
+      if (renamed) return `renamed a team to ${renamed}${rest}`
+      return `changed the ${others.join(' and ') || 'details'} of ${current ?? subject}`
+    }
+    case 'rename-person':
+      return `renamed ${text(d, 'from') ?? subject} to ${text(d, 'to') ?? 'a new name'}`
+    case 'deactivate':
+      return `deactivated ${name}`
+    case 'reactivate':
+      return `reactivated ${name}`
+    case 'change-role': {
+      if (typeof d.mentor === 'boolean') return d.mentor ? `made ${name} a mentor` : `removed ${name} as a mentor`
+      const team = text(d, 'team') ?? 'a team'
+      const from = d.from ? role(d.from) : null
+      const to = d.to ? role(d.to) : null
+      if (!from && to) return `added ${name} to ${team} as ${to}`
+      if (from && !to) return `removed ${name} from ${team}`
+      return `changed the role of ${name} in ${team} from ${from ?? 'none'} to ${to ?? 'none'}`
+    }
+    case 'invite': {
+      const who = text(d, 'name', 'email') ?? subject
+      const as = d.role ? ` as ${role(d.role)}` : ''
+      const team = text(d, 'team')
+      return `invited ${who}${as}${team ? ` to ${team}` : ''}`
+    }
+    case 'withdraw-invitation':
+      return `withdrew the invitation for ${text(d, 'email', 'name') ?? subject}`
+    case 'accept-invitation':
+      return d.role ? `accepted the invitation and joined as ${role(d.role)}` : 'accepted the invitation'
+    case 'request-reset':
+      return 'asked for a password reset link'
+    case 'set-first-password':
+      return 'set a password for the first time'
+    case 'reset-password':
+      return 'chose a new password with a reset link'
+    default:
+      return null
+  }
+}
+
+/** For actions this screen does not know yet: "<who> <action words> (<subject>)". */
+function fallback(e: AuditEntry): string {
+  const words = e.action.replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase().split(/[^a-z0-9]+/).filter(Boolean)
+  const subject = e.subjectId ? ` (${e.subjectType} #${e.subjectId})` : ''
+  return `${words.join(' ') || 'did something'}${subject}`
+}
+
+export function describeAudit(entry: AuditEntry, ctx: AuditContext = {}): AuditSentence {
+  const d: Detail = entry.detail && typeof entry.detail === 'object' ? entry.detail : {}
+  const actor = entry.actor?.name ?? null
+  if (entry.action === 'load-demo') {
+    const s = 'The demo program was loaded'
+    return { actor, phrase: actor ? 'loaded the demo program' : s, sentence: actor ? `${actor} loaded the demo program` : s }
+  }
+  const phrase = known(entry, d, ctx) ?? fallback(entry)
+  return {
+    actor,
+    phrase: actor ? phrase : capitalise(phrase),
+    sentence: actor ? `${actor} ${phrase}` : `Someone ${phrase}`,
+  }
+}
+
+/** Detail values for the table's last column. */
+export function auditDetailPairs(entry: AuditEntry): [string, string][] {
+  const d = entry.detail && typeof entry.detail === 'object' ? entry.detail : {}
+  return Object.entries(d)
+    .filter(([, v]) => v !== null && v !== undefined && v !== '')
+    .map(([k, v]) => [
+      k.replace(/([a-z])([A-Z])/g, '$1 $2').replace(/[_-]+/g, ' ').toLowerCase(),
+      typeof v === 'object' ? JSON.stringify(v) : String(v),
+    ])
+}
