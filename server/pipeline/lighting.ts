@@ -17,6 +17,9 @@
 // 256 pixels on the short side (shrinking averages, which also calms noise before the
 // max-filter, which would otherwise pick the brightest noise) and enlarged back.
 //
+// The filters run on the image extended by one window on every side, repeating its edge
+// pixels, so a vignette's fall-off towards the border survives the closing.
+//
 // Sizes: the window side is windowFraction (default 0.5) of the image's short side, so a
 // solid ink area up to about half the short side across is bridged; the blur's standard
 // deviation is a quarter of the window side.
@@ -24,7 +27,7 @@
 // Sharp's dilate/erode are binary morphology (libvips morph with a 0/255 mask), so the
 // greyscale max and min filters are done here with the van Herk / Gil-Werman algorithm:
 // separable, rows then columns, three comparisons per pixel whatever the window.
-import sharp from 'sharp'
+import { blurGrey, resizeGrey } from './rawgrey'
 
 export interface EveningOptions {
   /** 0 = no evening, 1 = full evening; linear blend of the two results. Default 1. */
@@ -110,28 +113,26 @@ export function squareExtremumFilter(
   return out
 }
 
+/** The image extended by `pad` pixels on every side, repeating its edge pixels. */
+export function padByRepeating(img: Uint8Array, width: number, height: number, pad: number): Uint8Array {
+  const W = width + 2 * pad, H = height + 2 * pad
+  const out = new Uint8Array(W * H)
+  for (let y = 0; y < H; y++) {
+    const sy = Math.min(height - 1, Math.max(0, y - pad))
+    for (let x = 0; x < W; x++) out[y * W + x] = img[sy * width + Math.min(width - 1, Math.max(0, x - pad))]!
+  }
+  return out
+}
+
+function crop(img: Uint8Array, width: number, pad: number, w: number, h: number): Uint8Array {
+  const out = new Uint8Array(w * h)
+  for (let y = 0; y < h; y++) out.set(img.subarray((y + pad) * width + pad, (y + pad) * width + pad + w), y * w)
+  return out
+}
+
 function oddAtLeast1(v: number): number {
   const r = Math.max(1, Math.round(v))
   return r % 2 === 1 ? r : r + 1
-}
-
-async function resizeGrey(
-  grey: Uint8Array, width: number, height: number, toWidth: number, toHeight: number,
-): Promise<Uint8Array> {
-  if (toWidth === width && toHeight === height) return grey
-  const { data } = await sharp(grey, { raw: { width, height, channels: 1 } })
-    .resize(toWidth, toHeight, { fit: 'fill', kernel: toWidth < width ? 'lanczos3' : 'cubic' })
-    .raw()
-    .toBuffer({ resolveWithObject: true })
-  return new Uint8Array(data.buffer, data.byteOffset, data.length)
-}
-
-async function blurGrey(grey: Uint8Array, width: number, height: number, sigma: number): Promise<Uint8Array> {
-  const { data } = await sharp(grey, { raw: { width, height, channels: 1 } })
-    .blur(Math.max(0.3, sigma))
-    .raw()
-    .toBuffer({ resolveWithObject: true })
-  return new Uint8Array(data.buffer, data.byteOffset, data.length)
 }
 
 /** Estimate of the bare paper's brightness under the ink, same size as the input. */
@@ -148,8 +149,16 @@ export async function paperEstimate(
   const size = oddAtLeast1(windowFraction * Math.min(sw, sh))
   let est = small
   if (method !== 'blur') {
-    est = squareExtremumFilter(est, sw, sh, size, true)
-    if (method === 'closing') est = squareExtremumFilter(est, sw, sh, size, false)
+    // Filter the image extended by one window on each side (edge pixels repeated), so the
+    // min-filter near the border can use windows that reach outside the image: brightness
+    // that falls steadily towards an edge (a vignette) then comes through the closing as it
+    // is, instead of being replaced by the brighter paper further in.
+    const pad = size
+    const pw = sw + 2 * pad, ph = sh + 2 * pad
+    let padded = padByRepeating(est, sw, sh, pad)
+    padded = squareExtremumFilter(padded, pw, ph, size, true)
+    if (method === 'closing') padded = squareExtremumFilter(padded, pw, ph, size, false)
+    est = crop(padded, pw, pad, sw, sh)
   }
   est = await blurGrey(est, sw, sh, size / 4)
   return resizeGrey(est, sw, sh, width, height)

@@ -30,6 +30,18 @@ export function histogram(grey: Uint8Array): Uint32Array {
  * (returns v − 1) and as all ink otherwise (returns v).
  */
 export function otsuThreshold(hist: ArrayLike<number>): number {
+  return otsuDetails(hist).threshold
+}
+
+export interface OtsuDetails {
+  threshold: number
+  /** Smallest and largest k reaching the maximum (equal when the maximum is unique). */
+  kMin: number
+  kMax: number
+}
+
+/** otsuThreshold with the whole set of maximising k (kMin…kMax may include non-maximal k between). */
+export function otsuDetails(hist: ArrayLike<number>): OtsuDetails {
   if (hist.length !== 256) throw new RangeError('The histogram must have 256 bins.')
   let n = 0n
   let sT = 0n
@@ -42,8 +54,11 @@ export function otsuThreshold(hist: ArrayLike<number>): number {
     n += BigInt(c)
     sT += BigInt(i) * BigInt(c)
   }
-  if (n === 0n) return 127
-  if (first === last) return first > 127 ? first - 1 : first
+  if (n === 0n) return { threshold: 127, kMin: 127, kMax: 127 }
+  if (first === last) {
+    const t = first > 127 ? first - 1 : first
+    return { threshold: t, kMin: t, kMax: t }
+  }
 
   let bestNum = -1n // (S_T W − S N)²
   let bestDen = 1n // W (N − W)
@@ -68,7 +83,7 @@ export function otsuThreshold(hist: ArrayLike<number>): number {
       kMax = k
     }
   }
-  return Math.floor((kMin + kMax) / 2)
+  return { threshold: Math.floor((kMin + kMax) / 2), kMin, kMax }
 }
 
 /** Ink mask from a grey buffer: 1 where grey <= threshold. */

@@ -1,0 +1,120 @@
+import sharp from 'sharp'
+import { describe, expect, it } from 'vitest'
+import { PrepareError } from '../../../server/pipeline/errors'
+import { prepareBitmap } from '../../../server/pipeline/prepare'
+import { DEFAULT_SETTINGS, parseSettings } from '../../../server/pipeline/settings'
+
+/** 200 × 100 white image with a black 40 × 40 square at the top left (x 10…49, y 10…49). */
+async function marker(): Promise<Buffer> {
+  const raw = Buffer.alloc(200 * 100 * 3, 255)
+  for (let y = 10; y < 50; y++) for (let x = 10; x < 50; x++) raw.fill(0, (y * 200 + x) * 3, (y * 200 + x) * 3 + 3)
+  return sharp(raw, { raw: { width: 200, height: 100, channels: 3 } }).png().toBuffer()
+}
+
+function inkBox(bm: Uint8Array, w: number, h: number) {
+  let x0 = w, y0 = h, x1 = -1, y1 = -1
+  for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) if (bm[y * w + x]) { x0 = Math.min(x0, x); y0 = Math.min(y0, y); x1 = Math.max(x1, x); y1 = Math.max(y1, y) }
+  return { x0, y0, x1, y1 }
+}
+
+describe('settings', () => {
+  it('has the documented defaults and validates', () => {
+    expect(DEFAULT_SETTINGS).toEqual({
+      luma: 'bt709',
+      lightingEvening: { enabled: false, strength: 1 },
+      threshold: { mode: 'auto' },
+      swapInkAndPaper: false,
+      crop: null,
+      speckFilterMm2: 0.5,
+      cornerRounding: 1,
+      curveTolerance: 0.2,
+    })
+    expect(() => parseSettings({ threshold: { mode: 'manual', value: 300 } })).toThrow()
+    expect(() => parseSettings({ cornerRounding: 2 })).toThrow()
+    expect(parseSettings({ cornerRounding: 4 / 3 }).cornerRounding).toBeCloseTo(1.3333, 4)
+  })
+})
+
+describe('prepareBitmap', () => {
+  it('thresholds, keeps size at 10 px/mm and writes a black-on-white PNG', async () => {
+    const prep = await prepareBitmap(await marker(), {}, 20)
+    expect([prep.width, prep.height, prep.pxPerMm]).toEqual([200, 100, 10])
+    expect(prep.heightMm).toBe(10)
+    expect(inkBox(prep.bitmap, 200, 100)).toEqual({ x0: 10, y0: 10, x1: 49, y1: 49 })
+    expect(prep.histogram.reduce((a, b) => a + b, 0)).toBe(200 * 100)
+    expect(prep.threshold).toBeGreaterThanOrEqual(0)
+    expect(prep.threshold).toBeLessThan(255)
+    // PNG read back: black ink, white paper, same pixels
+    const { data, info } = await sharp(prep.png).greyscale().raw().toBuffer({ resolveWithObject: true })
+    expect([info.width, info.height]).toEqual([200, 100])
+    for (let i = 0; i < prep.bitmap.length; i++) if ((data[i * info.channels]! < 128 ? 1 : 0) !== prep.bitmap[i]) throw new Error(`PNG differs at ${i}`)
+    const meta = await sharp(prep.png).metadata()
+    expect(meta.format).toBe('png')
+    expect(meta.isPalette).toBe(true) // 2-colour palette
+  })
+
+  it('swaps ink and paper', async () => {
+    const prep = await prepareBitmap(await marker(), { swapInkAndPaper: true }, 20)
+    expect(prep.bitmap[0]).toBe(1)
+    expect(prep.bitmap[20 * 200 + 20]).toBe(0)
+  })
+
+  it('applies a manual threshold with ink = grey <= threshold', async () => {
+    const raw = Buffer.from([100, 100, 100, 101, 101, 101])
+    const png = await sharp(raw, { raw: { width: 2, height: 1, channels: 3 } }).png().toBuffer()
+    const prep = await prepareBitmap(png, { threshold: { mode: 'manual', value: 100 } }, 0.2)
+    expect([...prep.bitmap]).toEqual([1, 0])
+  })
+
+  it('resamples to the prepared size', async () => {
+    // 200 px across at 100 mm is 2 px/mm: enlarged 4× (the cap on enlargement) to 800 px
+    const prep = await prepareBitmap(await marker(), {}, 100)
+    expect([prep.width, prep.height]).toEqual([800, 400])
+    expect(prep.pxPerMm).toBe(8)
+    const box = inkBox(prep.bitmap, 800, 400)
+    expect(Math.abs(box.x0 - 40)).toBeLessThanOrEqual(1)
+    expect(Math.abs(box.x1 - 199)).toBeLessThanOrEqual(1)
+  })
+
+  it('turns the source upright by its orientation tag, then crops in upright pixels', async () => {
+    // Exif Orientation 6: the stored image must be turned 90° clockwise to be viewed
+    // (Exif 2.3, JEITA CP-3451, tag 0x0112 — from memory).
+    const jpeg = await sharp(await marker()).jpeg({ quality: 95 }).withMetadata({ orientation: 6 }).toBuffer()
+    const prep = await prepareBitmap(jpeg, {}, 10)
+    expect([prep.width, prep.height]).toEqual([100, 200])
+    // top-left square (x 10…49, y 10…49 stored) → after a quarter turn clockwise: x 50…89, y 10…49
+    const box = inkBox(prep.bitmap, 100, 200)
+    expect(Math.abs(box.x0 - 50)).toBeLessThanOrEqual(1)
+    expect(Math.abs(box.x1 - 89)).toBeLessThanOrEqual(1)
+    expect(Math.abs(box.y0 - 10)).toBeLessThanOrEqual(1)
+    expect(Math.abs(box.y1 - 49)).toBeLessThanOrEqual(1)
+    // crop in upright pixels: the right half of the upright image contains the square
+    const cropped = await prepareBitmap(jpeg, { crop: { x: 40, y: 0, width: 60, height: 80 } }, 6)
+    expect([cropped.width, cropped.height]).toEqual([60, 80])
+    const cb = inkBox(cropped.bitmap, 60, 80)
+    expect(Math.abs(cb.x0 - 10)).toBeLessThanOrEqual(1)
+    expect(Math.abs(cb.y0 - 10)).toBeLessThanOrEqual(1)
+    await expect(prepareBitmap(jpeg, { crop: { x: 50, y: 0, width: 60, height: 10 } }, 6)).rejects.toBeInstanceOf(PrepareError)
+  })
+
+  it('reads the first frame of an animated GIF', async () => {
+    // frame 1: square on the left; frame 2: square on the right
+    const w = 60, h = 60
+    const raw = Buffer.alloc(w * h * 2 * 3, 255)
+    for (let y = 10; y < 30; y++) {
+      for (let x = 5; x < 25; x++) raw.fill(0, (y * w + x) * 3, (y * w + x) * 3 + 3)
+      for (let x = 35; x < 55; x++) raw.fill(0, ((y + h) * w + x) * 3, ((y + h) * w + x) * 3 + 3)
+    }
+    const gif = await sharp(raw, { raw: { width: w, height: h * 2, channels: 3, pageHeight: h } }).gif().toBuffer()
+    expect((await sharp(gif).metadata()).pages).toBe(2)
+    const prep = await prepareBitmap(gif, {}, 6)
+    expect([prep.width, prep.height]).toEqual([60, 60])
+    const box = inkBox(prep.bitmap, 60, 60)
+    expect(box.x0).toBeLessThan(10)
+    expect(box.x1).toBeLessThan(30)
+  })
+
+  it('refuses what is not an image', async () => {
+    await expect(prepareBitmap(Buffer.from('not an image at all'), {}, 10)).rejects.toBeInstanceOf(PrepareError)
+  })
+})
