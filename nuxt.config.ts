@@ -1,3 +1,6 @@
+import { fileURLToPath } from 'node:url'
+import { buildPipelineWorker } from './scripts/lib/pipeline-worker-build'
+
 // Nuxt configuration. Every endpoint comes from NUXT_* variables at run time
 // (runtimeConfig), so one build serves development, tests and production.
 export default defineNuxtConfig({
@@ -6,6 +9,8 @@ export default defineNuxtConfig({
   telemetry: false,
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
   css: ['~/assets/css/main.css'],
+  // Our stylesheet carries the @tailwind directives; without this the module adds a second copy.
+  tailwindcss: { cssPath: '~/assets/css/main.css' },
   app: {
     head: {
       title: 'Decalwright',
@@ -44,8 +49,19 @@ export default defineNuxtConfig({
     },
   },
   nitro: {
-    // Native and CommonJS-heavy packages stay in node_modules rather than being bundled.
-    externals: { external: ['sharp', 'pg', 'potrace', 'svgo', 'nodemailer'] },
+    // Native and CommonJS-heavy packages stay in node_modules rather than being bundled;
+    // potrace and svgo are used only by the pipeline worker, so they are traced in by hand.
+    externals: {
+      external: ['sharp', 'pg', 'potrace', 'svgo', 'nodemailer'],
+      traceInclude: [
+        fileURLToPath(new URL('./node_modules/potrace/lib/index.js', import.meta.url)),
+        fileURLToPath(new URL('./node_modules/svgo/lib/svgo-node.js', import.meta.url)),
+      ],
+    },
+    hooks: {
+      // The pipeline runs in worker threads, which need a file of their own next to the server.
+      compiled: (nitro) => buildPipelineWorker(nitro.options.dev ? nitro.options.buildDir : nitro.options.output.serverDir),
+    },
   },
   typescript: { strict: true },
 })

@@ -1,6 +1,9 @@
 // The one typed description of the database, shared by the app, the scripts and the tests.
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely'
 import type { MemberRole } from '../../shared/types/roles'
+import type { ArtworkStatus } from '../../shared/types/artworks'
+import type { EngineVersions, Measurements, StageTimings } from '../../shared/types/pipeline'
+import type { PipelineSettings } from '../pipeline/settings'
 
 type CreatedAt = ColumnType<Date, Date | string | undefined, never>
 type Timestamp = ColumnType<Date, Date | string, Date | string>
@@ -89,6 +92,50 @@ export interface SignInAttemptTable {
   at: CreatedAt
 }
 
+export interface ArtworkTable {
+  id: Generated<number>
+  team_id: number
+  title: string
+  author_id: number
+  status: Generated<ArtworkStatus>
+  created_at: CreatedAt
+  updated_at: ColumnType<Date, Date | string | undefined, Date | string>
+}
+
+export interface SourceTable {
+  id: Generated<number>
+  artwork_id: number
+  object_key: string
+  content_hash: string
+  media_type: string
+  file_name: string
+  width_px: number
+  height_px: number
+  bytes: number
+  uploaded_by: number
+  created_at: CreatedAt
+}
+
+type Json<T> = ColumnType<T, string, never>
+
+export interface RevisionTable {
+  id: Generated<number>
+  artwork_id: number
+  number: number
+  source_id: number
+  settings: Json<PipelineSettings>
+  width_mm: number
+  height_mm: number
+  prepared_key: string
+  outline_key: string
+  vector_key: string
+  measurements: Json<Measurements>
+  timings: Json<StageTimings>
+  engine_versions: Json<EngineVersions>
+  author_id: number
+  created_at: CreatedAt
+}
+
 export interface Database {
   program: ProgramTable
   users: UsersTable
@@ -99,6 +146,9 @@ export interface Database {
   password_reset: PasswordResetTable
   audit_event: AuditEventTable
   sign_in_attempt: SignInAttemptTable
+  artwork: ArtworkTable
+  source: SourceTable
+  revision: RevisionTable
 }
 
 export type User = Selectable<UsersTable>

@@ -1,0 +1,78 @@
+// The whole pipeline for one source and one set of settings: prepared bitmap → outline →
+// clean vector → measurements. Pure (no Nuxt, no storage): the worker pool runs it, and so
+// do the tests.
+import sharp from 'sharp'
+import type { EngineVersions, Measurements, StageTimings } from '../../shared/types/pipeline'
+import { prepareBitmap, type PrepareOptions } from './prepare'
+import { traceBitmap, outlineToSvg } from './trace'
+import { cleanVector } from './clean'
+import { measureCurves, smallPieces, narrowestFeatureMm } from './geometry'
+import { fidelity } from './fidelity'
+import type { PipelineSettingsInput } from './settings'
+import { ENGINE_VERSIONS_BASE } from './versions'
+
+/** Below this area a piece of film is lost when weeding, unless the film says otherwise (common practice, a rule of thumb). */
+export const DEFAULT_SMALL_PIECE_MM2 = 1
+
+export interface RunRequest {
+  source: Uint8Array
+  settings: PipelineSettingsInput
+  widthMm: number
+  /** 'preview' works at screen resolution and skips nothing a designer reads. */
+  purpose: 'revision' | 'preview'
+  smallPieceMm2?: number
+}
+
+export interface RunResult {
+  preparedPng: Uint8Array
+  rawOutlineSvg: string
+  cleanSvg: string
+  measurements: Measurements
+  histogram: number[]
+  timings: StageTimings
+  engineVersions: EngineVersions
+}
+
+/** Preview resolution: enough for a screen, small enough to answer while a slider moves. */
+export const PREVIEW_OPTIONS: PrepareOptions = { minPxPerMm: 4, maxPxPerMm: 6, maxPixels: 1_000_000 }
+
+export async function runPipeline(req: RunRequest): Promise<RunResult> {
+  const t0 = performance.now()
+  const prepared = await prepareBitmap(req.source, req.settings, req.widthMm, req.purpose === 'preview' ? PREVIEW_OPTIONS : {})
+  const t1 = performance.now()
+  const outline = traceBitmap(prepared, prepared.settings)
+  const t2 = performance.now()
+  const clean = cleanVector(outline)
+  const t3 = performance.now()
+  const geometry = measureCurves(clean.curvesMm, 1)
+  const limit = req.smallPieceMm2 ?? DEFAULT_SMALL_PIECE_MM2
+  const fid = await fidelity(clean.svg, prepared)
+  // Measured on what will be cut: the clean vector rasterised back, so dropped specks do not count.
+  const narrowest = narrowestFeatureMm(fid.raster, prepared.width, prepared.height, prepared.pxPerMm)
+  const t4 = performance.now()
+  return {
+    preparedPng: new Uint8Array(prepared.png.buffer, prepared.png.byteOffset, prepared.png.byteLength),
+    rawOutlineSvg: outlineToSvg(outline),
+    cleanSvg: clean.svg,
+    histogram: Array.from(prepared.histogram),
+    measurements: {
+      widthMm: clean.widthMm,
+      heightMm: clean.heightMm,
+      inkAreaMm2: geometry.inkAreaMm2,
+      cutLengthMm: geometry.cutLengthMm,
+      pieces: geometry.pieces,
+      holes: geometry.holes,
+      nodes: geometry.nodeCount,
+      narrowestFeatureMm: narrowest,
+      smallPieces: smallPieces(clean.curvesMm, 1, limit).length,
+      smallPieceLimitMm2: limit,
+      fidelity: fid.iou,
+      threshold: prepared.threshold,
+      pxPerMm: prepared.pxPerMm,
+      preparedWidthPx: prepared.width,
+      preparedHeightPx: prepared.height,
+    },
+    timings: { prepareMs: t1 - t0, traceMs: t2 - t1, cleanMs: t3 - t2, measureMs: t4 - t3, totalMs: t4 - t0 },
+    engineVersions: { ...ENGINE_VERSIONS_BASE, sharp: sharp.versions.sharp ?? '', vips: sharp.versions.vips },
+  }
+}

@@ -1,0 +1,21 @@
+// Entry of the pipeline worker threads (piscina). Tracing is CPU-bound: it runs here so the
+// server's event loop keeps answering while a revision is made.
+import { runPipeline, type RunRequest, type RunResult } from './run'
+import { PrepareError, TooComplexError } from './errors'
+
+export type WorkerAnswer =
+  | { ok: true; result: RunResult }
+  | { ok: false; kind: 'prepare' | 'too-complex' | 'settings' | 'internal'; message: string }
+
+export default async function work(req: RunRequest): Promise<WorkerAnswer> {
+  try {
+    return { ok: true, result: await runPipeline(req) }
+  } catch (err) {
+    // Errors cross the thread boundary as plain data, with the kind the route maps to a status.
+    if (err instanceof TooComplexError) return { ok: false, kind: 'too-complex', message: err.message }
+    if (err instanceof PrepareError) return { ok: false, kind: 'prepare', message: err.message }
+    if (err instanceof RangeError) return { ok: false, kind: 'settings', message: err.message }
+    if ((err as { name?: string }).name === 'ZodError') return { ok: false, kind: 'settings', message: 'The settings are not valid.' }
+    return { ok: false, kind: 'internal', message: (err as Error).message ?? String(err) }
+  }
+}

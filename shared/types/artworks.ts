@@ -1,0 +1,76 @@
+import type { EngineVersions, Measurements, StageTimings } from './pipeline'
+
+export const ARTWORK_STATUSES = ['draft', 'in-review', 'approved', 'sent-back'] as const
+export type ArtworkStatus = (typeof ARTWORK_STATUSES)[number]
+export const ARTWORK_STATUS_LABELS: Record<ArtworkStatus, string> = {
+  'draft': 'Draft', 'in-review': 'In review', 'approved': 'Approved', 'sent-back': 'Sent back',
+}
+
+export interface RevisionSummary {
+  id: number
+  number: number
+  widthMm: number
+  heightMm: number
+  createdAt: string
+  author: string
+  measurements: Measurements
+}
+
+export interface RevisionDetail extends RevisionSummary {
+  artworkId: number
+  settings: Record<string, unknown>
+  timings: StageTimings
+  engineVersions: EngineVersions
+  source: SourceInfo
+  files: { vector: string; prepared: string; outline: string; source: string }
+}
+
+export interface SourceInfo {
+  id: number
+  mediaType: string
+  fileName: string
+  widthPx: number
+  heightPx: number
+  bytes: number
+  contentHash: string
+}
+
+export interface ArtworkListItem {
+  id: number
+  title: string
+  status: ArtworkStatus
+  team: { id: number; name: string; colour: string }
+  author: string
+  latestRevision: { id: number; number: number } | null
+  revisionCount: number
+  updatedAt: string
+}
+
+export interface ArtworkPage {
+  items: ArtworkListItem[]
+  total: number
+  page: number
+  pageSize: number
+}
+
+export interface ArtworkDetail {
+  artwork: ArtworkListItem & { createdAt: string }
+  revisions: RevisionSummary[]
+  /** What the viewer may do here. */
+  can: { revise: boolean }
+}
+
+export interface CreatedArtwork {
+  artwork: ArtworkListItem
+  revision: RevisionDetail
+}
+
+export interface Preview {
+  /** The clean vector (SVG text, in mm). */
+  svg: string
+  /** The prepared bitmap as a data: URL (PNG). */
+  preparedPng: string
+  histogram: number[]
+  measurements: Measurements
+  timings: StageTimings
+}

@@ -1,0 +1,21 @@
+import { inject } from 'vitest'
+import { ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3'
+
+let client: S3Client | undefined
+function s3() {
+  const c = inject('s3')
+  client ??= new S3Client({ endpoint: c.endpoint, region: 'us-east-1', forcePathStyle: true, credentials: { accessKeyId: c.accessKeyId, secretAccessKey: c.secretAccessKey } })
+  return client
+}
+
+/** Every key in the test bucket (straight from the object store, not through the app). */
+export async function allKeys(): Promise<string[]> {
+  const keys: string[] = []
+  let token: string | undefined
+  do {
+    const r = await s3().send(new ListObjectsV2Command({ Bucket: inject('s3').bucket, ContinuationToken: token }))
+    for (const o of r.Contents ?? []) keys.push(o.Key!)
+    token = r.IsTruncated ? r.NextContinuationToken : undefined
+  } while (token)
+  return keys.sort()
+}
