@@ -5,6 +5,8 @@ import { buildPipelineWorker } from './scripts/lib/pipeline-worker-build'
 // (runtimeConfig), so one build serves development, tests and production.
 export default defineNuxtConfig({
   compatibilityDate: '2026-06-01',
+  // Separate build folders let two checkouts' builds (or two developers' test runs) coexist.
+  ...(process.env.DECALWRIGHT_BUILD_DIR ? { buildDir: process.env.DECALWRIGHT_BUILD_DIR } : {}),
   devtools: { enabled: false },
   telemetry: false,
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
@@ -49,6 +51,7 @@ export default defineNuxtConfig({
     },
   },
   nitro: {
+    ...(process.env.DECALWRIGHT_OUTPUT_DIR ? { output: { dir: process.env.DECALWRIGHT_OUTPUT_DIR } } : {}),
     // Native and CommonJS-heavy packages stay in node_modules rather than being bundled;
     // potrace and svgo are used only by the pipeline worker, so they are traced in by hand.
     externals: {

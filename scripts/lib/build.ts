@@ -14,10 +14,12 @@ function newestMtime(p: string): number {
   return newest
 }
 
-export const SERVER_ENTRY = path.resolve('.output/server/index.mjs')
+/** Where the build goes: `.output`, or DECALWRIGHT_OUTPUT_DIR (see nuxt.config.ts). */
+export const OUTPUT_DIR = path.resolve(process.env.DECALWRIGHT_OUTPUT_DIR ?? '.output')
+export const SERVER_ENTRY = path.join(OUTPUT_DIR, 'server/index.mjs')
 
 export function buildIsCurrent(root = process.cwd()): boolean {
-  const stamp = path.join(root, '.output/nitro.json')
+  const stamp = path.join(OUTPUT_DIR, 'nitro.json')
   if (!existsSync(stamp)) return false
   const built = statSync(stamp).mtimeMs
   return SOURCES.every((s) => newestMtime(path.join(root, s)) <= built)

@@ -9,7 +9,9 @@ import { startApp } from '../../scripts/lib/app-process'
 import { createDb, migrateToLatest } from '../../server/db/connect'
 import { loadDemo } from '../../server/db/demo'
 
-export const TEST_PORTS = { app: 3917, pg: 54339, s3: 4579, smtp: 2535 }
+// DECALWRIGHT_TEST_PORT_OFFSET and DECALWRIGHT_TEST_STORAGE let two test runs share a machine.
+const offset = Number(process.env.DECALWRIGHT_TEST_PORT_OFFSET ?? 0)
+export const TEST_PORTS = { app: 3917 + offset, pg: 54339 + offset, s3: 4579 + offset, smtp: 2535 + offset }
 
 declare module 'vitest' {
   export interface ProvidedContext {
@@ -21,7 +23,7 @@ declare module 'vitest' {
 }
 
 export default async function setup(project: TestProject) {
-  const storageDir = path.resolve('storage/test')
+  const storageDir = path.resolve(process.env.DECALWRIGHT_TEST_STORAGE ?? 'storage/test')
   rmSync(storageDir, { recursive: true, force: true })
   // Local services only: a developer's own NUXT_* settings must not point tests at real ones.
   const cleanEnv = Object.fromEntries(Object.entries(process.env).filter(([k]) => !k.startsWith('NUXT_')))
