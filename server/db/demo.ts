@@ -13,6 +13,14 @@ export const DEMO_ACCOUNTS = {
   operator: { email: 'operator@harbourline.example', name: 'Bram Okonkwo-Hale' },
 } as const
 
+export const DEMO_FILMS = [
+  { name: 'Matte black polyester film', base_polymer: 'Polyester (PET) with acrylic adhesive', chlorine_free: true, colour: 'matte black', thickness_mm: 0.08, sheet_width_mm: 300, sheet_height_mm: 200, min_feature_mm: 0.8, laser_power_pct: 55, laser_speed_mm_s: 12, laser_passes: 1 },
+  { name: 'Deep blue polyester film', base_polymer: 'Polyester (PET) with acrylic adhesive', chlorine_free: true, colour: 'deep blue', thickness_mm: 0.08, sheet_width_mm: 300, sheet_height_mm: 200, min_feature_mm: 0.8, laser_power_pct: 65, laser_speed_mm_s: 10, laser_passes: 1 },
+  { name: 'Birch veneer sticker sheet', base_polymer: 'Wood veneer on paper backing', chlorine_free: true, colour: 'natural birch', thickness_mm: 0.6, sheet_width_mm: 280, sheet_height_mm: 190, min_feature_mm: 1.5, laser_power_pct: 100, laser_speed_mm_s: 4, laser_passes: 2 },
+  // In the stock so people see why it cannot be chosen: PVC gives off hydrogen chloride when lasered.
+  { name: 'Glossy white sign vinyl', base_polymer: 'PVC (polyvinyl chloride)', chlorine_free: false, colour: 'glossy white', thickness_mm: 0.1, sheet_width_mm: 300, sheet_height_mm: 300, min_feature_mm: 0.6, laser_power_pct: 1, laser_speed_mm_s: 1, laser_passes: 1 },
+]
+
 /** Loads the demo program into an empty database; does nothing when any program exists. */
 export async function loadDemo(db: Kysely<Database>): Promise<boolean> {
   const any = await db.selectFrom('program').select('id').limit(1).executeTakeFirst()
@@ -44,6 +52,8 @@ export async function loadDemo(db: Kysely<Database>): Promise<boolean> {
       if ('mentor' in p) await trx.insertInto('mentorship').values({ user_id: user.id, program_id: program.id }).execute()
       else await trx.insertInto('membership').values({ user_id: user.id, team_id: p.team, role: p.role }).execute()
     }
+    // Laser settings here are invented for the demo; a lab finds its own by test cuts.
+    await trx.insertInto('film').values(DEMO_FILMS.map((f) => ({ program_id: program.id, ...f }))).execute()
     await trx.insertInto('audit_event').values({
       program_id: program.id, actor_id: null, action: 'load-demo', subject_type: 'program', subject_id: String(program.id), detail: JSON.stringify({}),
     }).execute()

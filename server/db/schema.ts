@@ -136,6 +136,79 @@ export interface RevisionTable {
   created_at: CreatedAt
 }
 
+export interface RevisionStatusTable {
+  revision_id: number
+  status: ArtworkStatus
+  updated_at: ColumnType<Date, Date | string | undefined, Date | string>
+  updated_by: number | null
+}
+
+export interface ReviewEventTable {
+  id: Generated<number>
+  revision_id: number
+  actor_id: number
+  action: 'submit' | 'approve' | 'send-back'
+  comment: Generated<string>
+  at: CreatedAt
+}
+
+export interface FilmTable {
+  id: Generated<number>
+  program_id: number
+  name: string
+  base_polymer: string
+  chlorine_free: boolean
+  colour: string
+  thickness_mm: number
+  sheet_width_mm: number
+  sheet_height_mm: number
+  min_feature_mm: number
+  laser_power_pct: number
+  laser_speed_mm_s: number
+  laser_passes: number
+  retired: Generated<boolean>
+  created_at: CreatedAt
+}
+
+export interface RobotTable {
+  id: Generated<number>
+  team_id: number
+  name: string
+  season: string
+  created_at: CreatedAt
+}
+
+export interface PlacementTable {
+  id: Generated<number>
+  robot_id: number
+  revision_id: number
+  film_id: number
+  film_chlorine_free: Generated<boolean>
+  spot: string
+  width_mm: number
+  quantity: number
+  spares: Generated<number>
+  created_by: number
+  created_at: CreatedAt
+}
+
+export interface JobTable {
+  id: Generated<number>
+  placement_id: number
+  kind: 'initial' | 'reprint'
+  quantity: number
+  reason: Generated<string>
+  film_id: number
+  film_chlorine_free: Generated<boolean>
+  state: Generated<'queued' | 'cut' | 'applied'>
+  created_by: number
+  created_at: CreatedAt
+  cut_by: number | null
+  cut_at: Timestamp | null
+  applied_by: number | null
+  applied_at: Timestamp | null
+}
+
 export interface Database {
   program: ProgramTable
   users: UsersTable
@@ -149,6 +222,12 @@ export interface Database {
   artwork: ArtworkTable
   source: SourceTable
   revision: RevisionTable
+  revision_status: RevisionStatusTable
+  review_event: ReviewEventTable
+  film: FilmTable
+  robot: RobotTable
+  placement: PlacementTable
+  job: JobTable
 }
 
 export type User = Selectable<UsersTable>

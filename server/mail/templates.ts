@@ -53,3 +53,30 @@ export function resetMail(o: { to: string; name: string; url: string }): Outgoin
     after: ['The link works once and expires in one hour. If you did not ask for this, ignore this message: your password stays as it is.'],
   })
 }
+
+export function reviewRequestMail(o: { to: string[]; author: string; title: string; team: string; number: number; url: string }): OutgoingMail {
+  return compose({
+    to: o.to,
+    subject: `Review requested: ${o.title} (revision ${o.number})`,
+    greeting: 'Hello,',
+    lines: [`${o.author} of ${o.team} submitted revision ${o.number} of "${o.title}" for review.`,
+      'Approve it, or send it back with a comment saying what to change.'],
+    action: { label: 'Open the revision', url: o.url },
+  })
+}
+
+export function decisionMail(o: { to: string; name: string; title: string; number: number; decision: 'approve' | 'send-back'; reviewer: string; comment: string; url: string }): OutgoingMail {
+  const approved = o.decision === 'approve'
+  return compose({
+    to: o.to,
+    subject: `${approved ? 'Approved' : 'Sent back'}: ${o.title} (revision ${o.number})`,
+    greeting: `Hello ${o.name},`,
+    lines: [
+      approved
+        ? `${o.reviewer} approved revision ${o.number} of "${o.title}". It is locked now and can be placed on a robot.`
+        : `${o.reviewer} sent revision ${o.number} of "${o.title}" back.`,
+      ...(o.comment ? [`Comment: ${o.comment}`] : []),
+    ],
+    action: { label: 'Open the revision', url: o.url },
+  })
+}

@@ -65,15 +65,16 @@ export async function findArtwork(actor: Actor, id: number) {
   return row
 }
 
-function revisionSummary(r: { id: number; number: number; width_mm: number; height_mm: number; created_at: Date; author_name: string; measurements: RevisionSummary['measurements'] }): RevisionSummary {
-  return { id: r.id, number: r.number, widthMm: r.width_mm, heightMm: r.height_mm, createdAt: new Date(r.created_at).toISOString(), author: r.author_name, measurements: r.measurements }
+function revisionSummary(r: { id: number; number: number; width_mm: number; height_mm: number; created_at: Date; author_name: string; status: RevisionSummary['status']; measurements: RevisionSummary['measurements'] }): RevisionSummary {
+  return { id: r.id, number: r.number, status: r.status, widthMm: r.width_mm, heightMm: r.height_mm, createdAt: new Date(r.created_at).toISOString(), author: r.author_name, measurements: r.measurements }
 }
 
 export async function artworkDetail(actor: Actor, id: number): Promise<ArtworkDetail> {
   const row = await findArtwork(actor, id)
   const [item] = await withLatest([row])
   const revisions = await useDb().selectFrom('revision').innerJoin('users', 'users.id', 'revision.author_id')
-    .select(['revision.id', 'revision.number', 'revision.width_mm', 'revision.height_mm', 'revision.created_at', 'revision.measurements', 'users.name as author_name'])
+    .innerJoin('revision_status', 'revision_status.revision_id', 'revision.id')
+    .select(['revision.id', 'revision.number', 'revision.width_mm', 'revision.height_mm', 'revision.created_at', 'revision.measurements', 'users.name as author_name', 'revision_status.status'])
     .where('revision.artwork_id', '=', id).orderBy('revision.number', 'desc').execute()
   return {
     artwork: { ...item!, createdAt: new Date(row.created_at).toISOString() },
@@ -88,8 +89,9 @@ export async function findRevision(actor: Actor, revisionId: number) {
     .innerJoin('team', 'team.id', 'artwork.team_id')
     .innerJoin('source', 'source.id', 'revision.source_id')
     .innerJoin('users', 'users.id', 'revision.author_id')
+    .innerJoin('revision_status', 'revision_status.revision_id', 'revision.id')
     .selectAll('revision')
-    .select(['artwork.title', 'artwork.team_id', 'users.name as author_name',
+    .select(['revision_status.status', 'artwork.title', 'artwork.team_id', 'users.name as author_name',
       'source.object_key as source_key', 'source.media_type', 'source.file_name', 'source.width_px', 'source.height_px', 'source.bytes', 'source.content_hash'])
     .where('revision.id', '=', revisionId)
     .where('team.program_id', '=', actor.programId)
@@ -98,9 +100,10 @@ export async function findRevision(actor: Actor, revisionId: number) {
   return row
 }
 
-export function revisionDetail(row: Awaited<ReturnType<typeof findRevision>>): RevisionDetail {
+export async function revisionDetail(row: Awaited<ReturnType<typeof findRevision>>): Promise<RevisionDetail> {
   const base = `/api/revisions/${row.id}`
   return {
+    reviews: await reviewHistory(row.id),
     ...revisionSummary(row),
     artworkId: row.artwork_id,
     settings: row.settings as unknown as Record<string, unknown>,
@@ -192,7 +195,7 @@ export async function createArtwork(event: H3Event, actor: Actor, input: {
       return { artworkId: artwork.id, revisionId: rev.id }
     })
     const [artwork] = await withLatest([await findArtwork(actor, ids.artworkId)])
-    return { artwork: artwork!, revision: revisionDetail(await findRevision(actor, ids.revisionId)) }
+    return { artwork: artwork!, revision: await revisionDetail(await findRevision(actor, ids.revisionId)) }
   } catch (err) {
     await removeOrphans(created)
     throw err

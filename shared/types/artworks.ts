@@ -9,6 +9,7 @@ export const ARTWORK_STATUS_LABELS: Record<ArtworkStatus, string> = {
 export interface RevisionSummary {
   id: number
   number: number
+  status: ArtworkStatus
   widthMm: number
   heightMm: number
   createdAt: string
@@ -16,8 +17,17 @@ export interface RevisionSummary {
   measurements: Measurements
 }
 
+export interface ReviewEntry {
+  id: number
+  action: 'submit' | 'approve' | 'send-back'
+  comment: string
+  at: string
+  by: string
+}
+
 export interface RevisionDetail extends RevisionSummary {
   artworkId: number
+  reviews: ReviewEntry[]
   settings: Record<string, unknown>
   timings: StageTimings
   engineVersions: EngineVersions

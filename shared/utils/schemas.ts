@@ -79,3 +79,26 @@ export const revisionRequestSchema = z.object({
   settings: z.record(z.string(), z.unknown()).default({}),
   widthMm: widthMmSchema,
 })
+
+export const reviewSchema = z.object({
+  decision: z.enum(['approve', 'send-back'], { message: 'Choose approve or send back.' }),
+  comment: z.string().trim().max(2000).default(''),
+}).superRefine((v, ctx) => {
+  if (v.decision === 'send-back' && !v.comment) ctx.addIssue({ code: 'custom', path: ['comment'], message: 'Say what to change when sending it back.' })
+})
+
+export const filmSchema = z.object({
+  name: z.string().trim().min(1, { message: 'Name the film.' }).max(80),
+  basePolymer: z.string().trim().min(1, { message: 'Say what the film is made of, e.g. polyester (PET).' }).max(120),
+  chlorineFree: z.boolean({ message: 'Say whether the film is chlorine-free.' }),
+  colour: z.string().trim().min(1, { message: 'Name the colour.' }).max(40),
+  thicknessMm: z.number({ message: 'Enter the thickness in mm.' }).gt(0).lt(10),
+  sheetWidthMm: z.number({ message: 'Enter the sheet width in mm.' }).gt(0).max(2000),
+  sheetHeightMm: z.number({ message: 'Enter the sheet height in mm.' }).gt(0).max(2000),
+  minFeatureMm: z.number({ message: 'Enter the smallest weedable feature in mm.' }).gt(0).max(50),
+  laserPowerPct: z.number({ message: 'Enter the power in %.' }).gt(0).max(100),
+  laserSpeedMmS: z.number({ message: 'Enter the speed in mm/s.' }).gt(0).max(1000),
+  laserPasses: z.number({ message: 'Enter the number of passes.' }).int().min(1).max(20),
+  retired: z.boolean().default(false),
+})
+export const filmPatchSchema = filmSchema.partial().extend({ retired: z.boolean().optional() })

@@ -1,0 +1,1 @@
+export default defineEventHandler(async (event) => listFilms(await requireActor(event)))
