@@ -45,3 +45,9 @@ export const DEFAULT_SETTINGS: PipelineSettings = Object.freeze(pipelineSettings
 export function parseSettings(input: unknown): PipelineSettings {
   return pipelineSettingsSchema.parse(input ?? {})
 }
+
+/**
+ * Long side of the shrunk copy of a source that previews start from: comfortably more than
+ * the preview's own resolution needs (a 150 mm design at 6 px/mm is 900 px wide).
+ */
+export const PREVIEW_SOURCE_SIDE = 1280

@@ -1,28 +1,60 @@
+import sharp from 'sharp'
 import type { Preview } from '#shared/types/artworks'
+import { PREVIEW_SOURCE_SIDE, type PipelineSettings } from '../pipeline/settings'
 import type { Actor } from './actor'
 
-// Sources of recent previews, kept in memory so a slider's stream of previews does not fetch
-// the same bytes from object storage each time. Bounded by total size; oldest out first.
-const CACHE_LIMIT_BYTES = 256 * 1024 * 1024
-const cache = new Map<string, Uint8Array>()
+// The tuning bench asks for a preview each time a control settles. Decoding a 12 MP photo
+// every time would take most of the time budget, so each source is shrunk once to a
+// preview source (upright, long side PREVIEW_SOURCE_SIDE from server/pipeline/settings.ts, uncompressed PNG that decodes in
+// milliseconds) and kept in memory, bounded by total size, oldest out first.
+const CACHE_LIMIT_BYTES = 512 * 1024 * 1024
+
+interface PreviewSource { png: Uint8Array; scale: number; width: number; height: number }
+const cache = new Map<string, Promise<PreviewSource>>()
+const sizes = new Map<string, number>()
 let cached = 0
 
-async function sourceBytes(key: string): Promise<Uint8Array> {
+async function makePreviewSource(key: string): Promise<PreviewSource> {
+  const bytes = await getObject(key)
+  const meta = await sharp(bytes).metadata()
+  const uprightWidth = meta.autoOrient?.width ?? meta.width ?? 1
+  const { data, info } = await sharp(bytes, { failOn: 'error' }).autoOrient()
+    .resize({ width: PREVIEW_SOURCE_SIDE, height: PREVIEW_SOURCE_SIDE, fit: 'inside', withoutEnlargement: true })
+    .png({ compressionLevel: 0 }).toBuffer({ resolveWithObject: true })
+  return { png: new Uint8Array(data.buffer, data.byteOffset, data.byteLength), scale: info.width / uprightWidth, width: info.width, height: info.height }
+}
+
+function previewSource(key: string): Promise<PreviewSource> {
   const hit = cache.get(key)
   if (hit) {
     cache.delete(key)
     cache.set(key, hit)
     return hit
   }
-  const bytes = new Uint8Array(await getObject(key))
-  cache.set(key, bytes)
-  cached += bytes.byteLength
-  for (const [k, v] of cache) {
-    if (cached <= CACHE_LIMIT_BYTES) break
-    cache.delete(k)
-    cached -= v.byteLength
-  }
-  return bytes
+  const made = makePreviewSource(key)
+  cache.set(key, made)
+  made.then((s) => {
+    sizes.set(key, s.png.byteLength)
+    cached += s.png.byteLength
+    for (const k of cache.keys()) {
+      if (cached <= CACHE_LIMIT_BYTES) break
+      cache.delete(k)
+      cached -= sizes.get(k) ?? 0
+      sizes.delete(k)
+    }
+  }, () => cache.delete(key))
+  return made
+}
+
+/** The crop rectangle is in source pixels; the preview source is smaller by `scale`. */
+function scaleCrop(settings: PipelineSettings, s: PreviewSource): PipelineSettings {
+  if (!settings.crop || s.scale === 1) return settings
+  const c = settings.crop
+  const x = Math.min(s.width - 1, Math.floor(c.x * s.scale))
+  const y = Math.min(s.height - 1, Math.floor(c.y * s.scale))
+  const right = Math.min(s.width, Math.max(x + 1, Math.round((c.x + c.width) * s.scale)))
+  const bottom = Math.min(s.height, Math.max(y + 1, Math.round((c.y + c.height) * s.scale)))
+  return { ...settings, crop: { x, y, width: right - x, height: bottom - y } }
 }
 
 export async function previewArtwork(actor: Actor, artworkId: number, input: { settings: unknown; widthMm: number }): Promise<Preview> {
@@ -30,8 +62,13 @@ export async function previewArtwork(actor: Actor, artworkId: number, input: { s
   if (!canActInTeam(actor, artwork.team_id, 'designer')) throw createError({ statusCode: 403, message: 'Only a designer or a mentor may tune the outline.' })
   const settings = parseSettingsOr400(input.settings)
   const source = await latestSource(artworkId)
+  const c = settings.crop
+  if (c && (c.x + c.width > source.width_px || c.y + c.height > source.height_px)) {
+    throw createError({ statusCode: 422, message: `The crop rectangle lies outside the source of ${source.width_px} × ${source.height_px} pixels.` })
+  }
+  const small = await previewSource(source.object_key)
   // A copy crosses to the worker; the cached bytes stay here.
-  const result = await runInPool({ source: (await sourceBytes(source.object_key)).slice(), settings, widthMm: input.widthMm, purpose: 'preview' })
+  const result = await runInPool({ source: small.png.slice(), settings: scaleCrop(settings, small), widthMm: input.widthMm, purpose: 'preview' })
   return {
     svg: result.cleanSvg,
     preparedPng: `data:image/png;base64,${Buffer.from(result.preparedPng).toString('base64')}`,

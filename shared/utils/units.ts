@@ -41,10 +41,11 @@ export const DEFAULT_MAX_PIXELS = 16_000_000
 /** The design gets at least this many bitmap pixels per millimetre when the source allows. */
 export const DEFAULT_MIN_PX_PER_MM = 10
 /**
- * Finer than this brings no detail a laser can cut (0.05 mm pixels; a diode laser's kerf is
- * of the order of 0.1 mm — from memory) and only costs time, so a finer source is shrunk.
+ * Finer than this brings no detail a laser can cut (pixels of about 0.08 mm, below a diode
+ * laser's kerf of the order of 0.1 mm — from memory) and only costs time: every stage after
+ * decoding grows with the pixel count, so a finer source is shrunk to this.
  */
-export const DEFAULT_MAX_PX_PER_MM = 20
+export const DEFAULT_MAX_PX_PER_MM = 12
 /**
  * Never enlarge a source by more than this factor: interpolation invents no detail, a blurrier
  * edge beyond 4× only costs time, and the tracer already fits its curves between pixels.

@@ -51,10 +51,10 @@ describe('preparedSize', () => {
     expect(s.scale).toBe(4)
   })
 
-  it('shrinks a needlessly fine source to 20 px/mm', () => {
+  it('shrinks a needlessly fine source to 12 px/mm', () => {
     const s = preparedSize({ sourceWidthPx: 6000, sourceHeightPx: 4000, targetWidthMm: 50 })
-    expect(s.pxPerMm).toBe(20)
-    expect(s.widthPx).toBe(1000)
+    expect(s.pxPerMm).toBe(12)
+    expect(s.widthPx).toBe(600)
   })
 
   it('holds the pixel cap', () => {
