@@ -1,7 +1,13 @@
 // Entry of the pipeline worker threads (piscina). Tracing is CPU-bound: it runs here so the
 // server's event loop keeps answering while a revision is made.
+import sharp from 'sharp'
 import { runPipeline, type RunRequest, type RunResult } from './run'
 import { PrepareError, TooComplexError } from './errors'
+
+// Each worker thread is already one core's worth of work: libvips' own thread pool and its
+// operation cache would only add memory (peak memory with four revisions at once).
+sharp.concurrency(1)
+sharp.cache(false)
 
 export type WorkerAnswer =
   | { ok: true; result: RunResult }
