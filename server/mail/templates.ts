@@ -80,3 +80,17 @@ export function decisionMail(o: { to: string; name: string; title: string; numbe
     action: { label: 'Open the revision', url: o.url },
   })
 }
+
+export function newJobMail(o: { to: string[]; kind: 'initial' | 'reprint'; title: string; robot: string; spot: string; quantity: number; reason: string; by: string; url: string }): OutgoingMail {
+  return compose({
+    to: o.to,
+    subject: `${o.kind === 'reprint' ? 'Reprint' : 'New cut job'}: ${o.quantity} × ${o.title} for ${o.robot}`,
+    greeting: 'Hello,',
+    lines: [
+      `${o.by} queued ${o.quantity} ${o.quantity === 1 ? 'copy' : 'copies'} of "${o.title}" for the ${o.spot} of ${o.robot}.`,
+      ...(o.reason ? [`Reason: ${o.reason}`] : []),
+      'The cut sheet, the film and its laser settings are on the job page. Follow the lab\'s safety rules at the machine.',
+    ],
+    action: { label: 'Open the job', url: o.url },
+  })
+}

@@ -6,7 +6,7 @@ import type { Actor } from './actor'
 
 export const CHLORINE_REASON = 'Not chlorine-free: PVC ("vinyl") and other chlorinated plastics give off hydrogen chloride when lasered, which harms people and corrodes the machine. It can never be placed or cut.'
 
-function toFilm(r: Selectable<FilmTable>): Film {
+export function toFilm(r: Selectable<FilmTable>): Film {
   const notUsableBecause = !r.chlorine_free ? CHLORINE_REASON : r.retired ? 'Retired from the stock.' : null
   return {
     id: r.id, name: r.name, basePolymer: r.base_polymer, chlorineFree: r.chlorine_free, colour: r.colour,

@@ -102,3 +102,40 @@ export const filmSchema = z.object({
   retired: z.boolean().default(false),
 })
 export const filmPatchSchema = filmSchema.partial().extend({ retired: z.boolean().optional() })
+
+export const robotSchema = z.object({
+  teamId: z.number({ message: 'Choose a team.' }).int().positive(),
+  name: z.string().trim().min(1, { message: 'Name the robot.' }).max(80),
+  season: z.string().trim().min(1, { message: 'Say which season, e.g. 2026–27.' }).max(40),
+})
+
+export const placementSchema = z.object({
+  robotId: z.number({ message: 'Choose a robot.' }).int().positive(),
+  revisionId: z.number({ message: 'Choose an approved revision.' }).int().positive(),
+  filmId: z.number({ message: 'Choose a film.' }).int().positive(),
+  spot: z.string().trim().min(1, { message: 'Say where it goes, e.g. "left side panel".' }).max(120),
+  widthMm: widthMmSchema,
+  quantity: z.number({ message: 'How many go on the robot?' }).int().min(1).max(200),
+  spares: z.number({ message: 'How many spares?' }).int().min(0).max(200).default(0),
+})
+
+export const reprintSchema = z.object({
+  quantity: z.number({ message: 'How many to reprint?' }).int().min(1, { message: 'At least one.' }).max(200),
+  reason: z.string().trim().min(1, { message: 'Say what happened, e.g. "torn off in a match".' }).max(500),
+})
+
+export const jobStateSchema = z.object({ state: z.enum(['cut', 'applied'], { message: 'Choose cut or applied.' }) })
+
+export const cutSheetQuerySchema = z.object({
+  mirror: z.enum(['0', '1']).default('0').transform((v) => v === '1'),
+  frame: z.coerce.number().min(0).max(20).default(0),
+  gap: z.coerce.number().min(0).max(50).default(3),
+  margin: z.coerce.number().min(0).max(50).default(5),
+  sheet: z.coerce.number().int().min(1).optional(),
+})
+
+export const jobListQuerySchema = z.object({
+  filmId: z.coerce.number().int().positive().optional(),
+  teamId: z.coerce.number().int().positive().optional(),
+  state: z.enum(['queued', 'cut', 'applied']).optional(),
+})

@@ -13,6 +13,10 @@
 // surprises for the operator). Then as many sheets as the copies need, each filled row by
 // row from the top-left corner (the free film is left in one piece at the bottom and right).
 //
+// With a weeding frame (offset o around each copy's box), gap and margin are kept between the
+// frames and from the frames to the edge: the same rule with gap + 2o and margin + o, which is
+// the rule for a copy box enlarged by o on every side; placements stay the copy boxes' corners.
+//
 // Coordinates are sheet millimetres with y down, as in the SVG cut sheet.
 
 export interface SheetLayoutInput {
@@ -30,6 +34,13 @@ export interface SheetLayoutInput {
   marginMm: number
   /** May a copy be turned 90° when more then fit? Default true. */
   allowTurn?: boolean
+  /**
+   * A weeding frame this far (mm) around each copy's box, or null/0 for none. With a frame,
+   * gap and margin are the film kept between neighbouring frames and between a frame and the
+   * sheet's edge: the copies are laid out with gap + 2·frame between their boxes and
+   * margin + frame from the edges, so the frames never cross or leave the sheet.
+   */
+  weedingFrameMm?: number | null
 }
 
 export interface CopyPlacement {
@@ -102,8 +113,10 @@ export function layoutSheets(input: SheetLayoutInput): SheetLayout {
   const h = requirePositive('The copy height', input.copyHeightMm)
   const W = requirePositive('The sheet width', input.sheetWidthMm)
   const H = requirePositive('The sheet height', input.sheetHeightMm)
-  const gap = requireNonNegative('The gap', input.gapMm)
-  const margin = requireNonNegative('The margin', input.marginMm)
+  const frame = requireNonNegative("The weeding frame's offset", input.weedingFrameMm ?? 0)
+  // Between copy boxes and from the sheet's edges, measured from the copy boxes.
+  const gap = requireNonNegative('The gap', input.gapMm) + 2 * frame
+  const margin = requireNonNegative('The margin', input.marginMm) + frame
   const copies = input.copies
   if (typeof copies !== 'number' || !Number.isInteger(copies) || copies < 1) {
     throw new RangeError(`The number of copies must be a whole number of at least 1 (got ${String(copies)}).`)
@@ -125,7 +138,8 @@ export function layoutSheets(input: SheetLayoutInput): SheetLayout {
 
   if (perSheet === 0) {
     const usable = `${mm(Math.max(0, W - 2 * margin))} × ${mm(Math.max(0, H - 2 * margin))} mm`
-    const what = `A copy of ${mm(w)} × ${mm(h)} mm does not fit on a ${mm(W)} × ${mm(H)} mm sheet with a ${mm(margin)} mm margin (usable area ${usable})`
+    const framed = frame > 0 ? ` (with its ${mm(frame)} mm weeding frame)` : ''
+    const what = `A copy of ${mm(w)} × ${mm(h)} mm${framed} does not fit on a ${mm(W)} × ${mm(H)} mm sheet with a ${mm(input.marginMm)} mm margin (usable area ${usable})`
     const reason = turnedCount > 0 && !allowTurn
       ? `${what}; it would fit turned 90°, but turning is off.`
       : `${what}, ${allowTurn ? 'not even turned 90°' : 'and turning is off'}.`
