@@ -62,3 +62,22 @@ export async function reviewHistory(revisionId: number) {
     .where('review_event.revision_id', '=', revisionId).orderBy('review_event.id').execute()
   return rows.map((r) => ({ id: r.id, action: r.action, comment: r.comment, at: new Date(r.at).toISOString(), by: r.name }))
 }
+
+/** What waits for a mentor: every revision in review in the program, oldest first. */
+export async function reviewQueue(actor: Actor) {
+  const rows = await useDb().selectFrom('revision_status')
+    .innerJoin('revision', 'revision.id', 'revision_status.revision_id')
+    .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
+    .innerJoin('team', 'team.id', 'artwork.team_id')
+    .innerJoin('users', 'users.id', 'revision.author_id')
+    .select(['revision.id', 'revision.number', 'revision.measurements', 'revision.width_mm', 'revision.height_mm', 'artwork.id as artwork_id', 'artwork.title',
+      'team.id as team_id', 'team.name as team_name', 'team.colour as team_colour', 'users.name as author', 'revision_status.updated_at'])
+    .where('team.program_id', '=', actor.programId).where('revision_status.status', '=', 'in-review')
+    .orderBy('revision_status.updated_at').execute()
+  return rows.map((r) => ({
+    revisionId: r.id, number: r.number, artworkId: r.artwork_id, title: r.title, author: r.author,
+    team: { id: r.team_id, name: r.team_name, colour: r.team_colour },
+    widthMm: r.width_mm, heightMm: r.height_mm, submittedAt: new Date(r.updated_at).toISOString(),
+    vectorUrl: `/api/revisions/${r.id}/vector.svg`, measurements: r.measurements,
+  }))
+}

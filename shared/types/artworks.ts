@@ -84,3 +84,17 @@ export interface Preview {
   measurements: Measurements
   timings: StageTimings
 }
+
+export interface ReviewQueueItem {
+  revisionId: number
+  number: number
+  artworkId: number
+  title: string
+  author: string
+  team: { id: number; name: string; colour: string }
+  widthMm: number
+  heightMm: number
+  submittedAt: string
+  vectorUrl: string
+  measurements: Measurements
+}

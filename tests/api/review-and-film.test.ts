@@ -34,6 +34,9 @@ describe('review', () => {
       expect(mail.text).toContain(`/artworks/${rev.artworkId}?r=1`)
     }
     expect((await student.post(`/api/revisions/${rev.id}/submit`)).status).toBe(409)
+    const waiting = (await mentor.get('/api/reviews')).body
+    expect(waiting.find((w: any) => w.revisionId === rev.id)).toMatchObject({ number: 1, author: DEMO_ACCOUNTS.student.name })
+    expect((await student.get('/api/reviews')).status).toBe(403)
     expect((await student.post(`/api/revisions/${rev.id}/review`, { decision: 'approve' })).status).toBe(403)
 
     const approved = await mentor.post(`/api/revisions/${rev.id}/review`, { decision: 'approve', comment: 'Crisp edges, go ahead.' })

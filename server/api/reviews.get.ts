@@ -1,0 +1,1 @@
+export default defineEventHandler(async (event) => reviewQueue(await requireMentor(event)))
