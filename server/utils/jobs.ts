@@ -92,10 +92,16 @@ async function copyGeometry(r: JobRow): Promise<{ curves: CutCurve[]; widthMm: n
 export interface SheetOptions { mirror: boolean; frame: number; gap: number; margin: number }
 
 function layoutFor(r: JobRow, copy: { widthMm: number; heightMm: number }, o: SheetOptions) {
-  return layoutSheets({
-    copyWidthMm: copy.widthMm + 2 * o.frame, copyHeightMm: copy.heightMm + 2 * o.frame, copies: r.job_quantity,
-    sheetWidthMm: r.sheet_width_mm, sheetHeightMm: r.sheet_height_mm, gapMm: o.gap, marginMm: o.margin,
-  })
+  try {
+    return layoutSheets({
+      copyWidthMm: copy.widthMm, copyHeightMm: copy.heightMm, copies: r.job_quantity,
+      sheetWidthMm: r.sheet_width_mm, sheetHeightMm: r.sheet_height_mm, gapMm: o.gap, marginMm: o.margin,
+      weedingFrameMm: o.frame > 0 ? o.frame : undefined,
+    })
+  } catch (err) {
+    if (err instanceof RangeError) throw createError({ statusCode: 422, message: err.message })
+    throw err
+  }
 }
 
 export async function jobDetail(actor: Actor, id: number, o: SheetOptions = { mirror: false, frame: 0, gap: 3, margin: 5 }): Promise<JobDetail> {
@@ -150,7 +156,14 @@ export async function cutSheetFiles(actor: Actor, id: number, o: SheetOptions, f
     curves: copy.curves, copyWidthMm: copy.widthMm, copyHeightMm: copy.heightMm, layout,
     sheetWidthMm: r.sheet_width_mm, sheetHeightMm: r.sheet_height_mm, mirror: o.mirror, weedingFrameMm: o.frame > 0 ? o.frame : null,
   }
-  const files = format === 'svg' ? cutSheetSvg(input) : cutSheetDxf(input)
+  let files: string[]
+  try {
+    files = format === 'svg' ? cutSheetSvg(input) : cutSheetDxf(input)
+  } catch (err) {
+    // Frames that would leave the sheet or cross a neighbour, and the like: say what to change.
+    if (err instanceof RangeError) throw createError({ statusCode: 422, message: `${err.message} Change the gap, margin or weeding frame.` })
+    throw err
+  }
   const slug = r.title.normalize('NFKD').replace(/[^\w\s-]/g, '').trim().replace(/\s+/g, '-').toLowerCase().slice(0, 40) || 'decal'
   return { files, name: `job-${id}-${slug}-r${r.revision_number}` }
 }
