@@ -90,6 +90,15 @@ function known(e: AuditEntry, d: Detail, ctx: AuditContext): string | null {
       return 'set a password for the first time'
     case 'reset-password':
       return 'chose a new password with a reset link'
+    case 'upload': {
+      const title = text(d, 'title')
+      return title ? `uploaded the drawing “${title}”` : 'uploaded a drawing'
+    }
+    case 'revise': {
+      const title = text(d, 'title')
+      const n = text(d, 'revision')
+      return `made ${n ? `revision ${n}` : 'a new revision'}${title ? ` of “${title}”` : ''}`
+    }
     default:
       return null
   }
