@@ -34,7 +34,7 @@ export async function loadDemo(db: Kysely<Database>): Promise<boolean> {
       { program_id: program.id, name: 'Copper Wrens', number: 'HL-1', colour: '#b4532a' },
       { program_id: program.id, name: 'Tidewater Sprockets', number: 'HL-2', colour: '#2a5fb4' },
     ]).returning(['id', 'name']).execute()
-    const [wrens, sprockets] = teams as [{ id: number }, { id: number }]
+    const [wrens, sprockets] = teams as unknown as [{ id: number }, { id: number }]
     const people = [
       { ...DEMO_ACCOUNTS.mentor, mentor: true },
       { ...DEMO_ACCOUNTS.designer, team: wrens.id, role: 'designer' as const },

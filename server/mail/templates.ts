@@ -6,7 +6,7 @@ function escapeHtml(s: string): string {
 }
 
 interface Parts {
-  to: string
+  to: string | string[]
   subject: string
   greeting: string
   lines: string[]

@@ -1,4 +1,4 @@
-import sharp from 'sharp'
+import sharp, { type Metadata } from 'sharp'
 
 export const UPLOAD_LIMIT_BYTES = 25 * 1024 * 1024
 export const MAX_SOURCE_PIXELS = 60_000_000
@@ -18,7 +18,7 @@ const KINDS = 'JPEG, PNG, WebP, TIFF, GIF or AVIF'
 
 /** What the uploaded bytes are; 415 for anything we do not take, 422 for what we cannot use. */
 export async function inspectSource(bytes: Uint8Array): Promise<SourceFacts> {
-  let meta: sharp.Metadata
+  let meta: Metadata
   try {
     meta = await sharp(bytes, { limitInputPixels: false }).metadata()
   } catch {
