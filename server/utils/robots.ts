@@ -115,14 +115,13 @@ export async function createPlacement(event: H3Event, actor: Actor, input: { rob
   return (await findRobot(actor, robot.id)).placements.find((p) => p.id === placementId)!
 }
 
-/** Anyone on the team asks for more copies of exactly the placed revision. */
+/** Anyone on the team (any role) or a mentor asks for more copies of exactly the placed revision. */
 export async function requestReprint(event: H3Event, actor: Actor, placementId: number, input: { quantity: number; reason: string }) {
   const row = await useDb().selectFrom('placement').innerJoin('robot', 'robot.id', 'placement.robot_id').innerJoin('team', 'team.id', 'robot.team_id')
     .innerJoin('revision', 'revision.id', 'placement.revision_id').innerJoin('artwork', 'artwork.id', 'revision.artwork_id').innerJoin('film', 'film.id', 'placement.film_id')
     .select(['placement.id', 'placement.spot', 'placement.film_id', 'robot.id as robot_id', 'robot.name as robot_name', 'team.id as team_id', 'artwork.title', 'film.chlorine_free', 'film.retired'])
     .where('placement.id', '=', placementId).where('team.program_id', '=', actor.programId).executeTakeFirst()
   if (!row || (!actor.isMentor && !actor.memberships.has(row.team_id))) throw createError({ statusCode: 404, message: 'No such placement.' })
-  if (!canActInTeam(actor, row.team_id, 'student')) throw createError({ statusCode: 403, message: 'Only the team’s members may ask for a reprint.' })
   if (row.retired) throw createError({ statusCode: 422, message: 'The film of this placement is retired; a mentor can place the decal again in another film.' })
   const jobId = await useDb().transaction().execute((trx) => queueJob(trx, {
     event, actor, placementId: row.id, filmId: row.film_id, kind: 'reprint', quantity: input.quantity, reason: input.reason,

@@ -5,10 +5,10 @@ import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 await setupBrowser()
 
 const NAV: Record<keyof typeof DEMO_ACCOUNTS, { home: string; shows: string[]; hides: string[] }> = {
-  mentor: { home: '/program', shows: ['program', 'teams', 'people', 'activity', 'mail'], hides: [] },
-  designer: { home: '/studio', shows: ['studio', 'teams'], hides: ['people', 'activity', 'mail', 'program'] },
-  student: { home: '/studio', shows: ['studio', 'teams'], hides: ['people', 'activity', 'mail', 'program'] },
-  operator: { home: '/lab', shows: ['lab', 'teams'], hides: ['people', 'activity', 'mail', 'program'] },
+  mentor: { home: '/program', shows: ['program', 'reviews', 'artworks', 'robots', 'lab', 'films', 'teams', 'people', 'activity', 'mail', 'materials'], hides: ['studio'] },
+  designer: { home: '/studio', shows: ['studio', 'artworks', 'robots', 'films', 'teams', 'materials'], hides: ['people', 'activity', 'mail', 'program', 'reviews', 'lab'] },
+  student: { home: '/studio', shows: ['studio', 'artworks', 'robots', 'films', 'teams', 'materials'], hides: ['people', 'activity', 'mail', 'program', 'reviews', 'lab'] },
+  operator: { home: '/lab', shows: ['lab', 'robots', 'films', 'teams', 'materials'], hides: ['people', 'activity', 'mail', 'program', 'reviews', 'artworks', 'studio'] },
 }
 
 describe('signing in, per role', () => {
