@@ -1,0 +1,266 @@
+import { defineStore } from 'pinia'
+import type { ArtworkDetail, Preview, RevisionDetail, RevisionSummary } from '#shared/types/artworks'
+import type { Film } from '#shared/types/films'
+import { estimateCutSeconds } from '#shared/utils/cut-time'
+import { latestOnly, type LatestOnlyInfo } from '~/utils/latest-only'
+import { cloneSettings, followingHeightMm, normaliseSettings, sameSettings, settingsKey, SETTING_LIMITS, type BenchSettings } from '~/utils/bench-settings'
+import { benchWarnings } from '~/utils/bench-warnings'
+import { parseOutlineSvg } from '~/utils/outline-svg'
+import { apiProblem, type ApiProblem } from '~/utils/api'
+
+/** Quiet time after the last change before a preview is asked for, ms. */
+export const PREVIEW_DELAY_MS = 150
+/** How many round-trip figures the bench keeps (for its read-out and the browser tests). */
+const ROUND_TRIPS_KEPT = 200
+
+export interface RoundTrip {
+  /** From the request leaving the browser to the new outline drawn, ms. */
+  requestMs: number
+  /** From the last change of a setting to the new outline drawn, ms. */
+  sinceChangeMs: number
+  /** The server's own pipeline time, ms. */
+  serverMs: number
+}
+
+interface PreviewInput { artworkId: number, settings: BenchSettings, widthMm: number }
+
+const nextFrame = () => new Promise<void>((resolve) => {
+  if (typeof requestAnimationFrame === 'function') requestAnimationFrame(() => resolve())
+  else resolve()
+})
+
+/**
+ * The tuning bench: one artwork, the revision the designer started from, the settings being
+ * steered, and the newest preview of them. Previews are debounced and only the newest
+ * answer is shown (utils/latest-only.ts).
+ */
+export const useBenchStore = defineStore('bench', () => {
+  const artworkId = ref<number | null>(null)
+  const artwork = shallowRef<ArtworkDetail | null>(null)
+  /** The revision whose settings the bench started from (or last saved). */
+  const base = shallowRef<RevisionDetail | null>(null)
+  const settings = ref<BenchSettings>(normaliseSettings({}))
+  const widthMm = ref(150)
+
+  const preview = shallowRef<Preview | null>(null)
+  /** Settings and width the shown preview was made with. */
+  const previewOf = shallowRef<{ settings: BenchSettings, widthMm: number } | null>(null)
+  /** The starting revision's stored outline, for a viewer who may not ask for previews. */
+  const baseOutline = shallowRef<ReturnType<typeof parseOutlineSvg>>(null)
+  const pending = ref(false)
+  const error = shallowRef<ApiProblem | null>(null)
+  const loading = ref(false)
+  const loadError = shallowRef<unknown>(null)
+  const saving = ref(false)
+  const saveError = shallowRef<ApiProblem | null>(null)
+  const lastSaved = shallowRef<RevisionDetail | null>(null)
+  const roundTrips = ref<RoundTrip[]>([])
+  /** Film stock the design can be checked against (chlorine-free, not retired), and the choice. */
+  const films = shallowRef<Film[]>([])
+  const filmId = ref<number | null>(null)
+
+  let lastSentKey = ''
+  const previewer = latestOnly<PreviewInput, Preview>({
+    delayMs: PREVIEW_DELAY_MS,
+    run: (input, signal) => {
+      lastSentKey = settingsKey(input.settings, input.widthMm)
+      return $fetch<Preview>(`/api/artworks/${input.artworkId}/preview`, {
+        method: 'POST',
+        body: { settings: input.settings, widthMm: input.widthMm },
+        signal,
+      })
+    },
+    onResult: async (answer, input, info: LatestOnlyInfo) => {
+      preview.value = answer
+      previewOf.value = { settings: input.settings, widthMm: input.widthMm }
+      error.value = null
+      // Measured to the frame the new outline is drawn in.
+      await nextTick()
+      await nextFrame()
+      const drawn = performance.now()
+      roundTrips.value = [...roundTrips.value.slice(-(ROUND_TRIPS_KEPT - 1)), {
+        requestMs: Math.round(drawn - info.sentAt),
+        sinceChangeMs: Math.round(drawn - info.changedAt),
+        serverMs: Math.round(answer.timings.totalMs),
+      }]
+    },
+    onError: (err) => {
+      // The same settings may be asked for again (after a dropped connection, say).
+      lastSentKey = ''
+      error.value = apiProblem(err)
+    },
+    onPendingChange: (p) => { pending.value = p },
+  })
+
+  function snapshot(): PreviewInput | null {
+    if (artworkId.value === null) return null
+    const w = widthMm.value
+    if (!(w >= SETTING_LIMITS.widthMm.min && w <= SETTING_LIMITS.widthMm.max)) return null
+    return { artworkId: artworkId.value, settings: cloneSettings(settings.value), widthMm: w }
+  }
+
+  // Every change of a setting or the width asks for a preview after the quiet time.
+  let quiet = false
+  watch([settings, widthMm], () => {
+    if (quiet) return
+    const s = snapshot()
+    if (s) previewer.schedule(s)
+  }, { deep: true, flush: 'sync' })
+
+  /**
+   * Ask now rather than after the quiet time: a control was let go. After a tick, so a
+   * v-model listening to the same event has written its value first.
+   */
+  function commit() {
+    nextTick(() => {
+      const s = snapshot()
+      // Letting go without a change (a click on the marker where it already was) asks nothing.
+      if (s && (previewer.waiting || settingsKey(s.settings, s.widthMm) !== lastSentKey)) previewer.flush(s)
+    })
+  }
+
+  function applyBase(detail: RevisionDetail) {
+    quiet = true
+    base.value = detail
+    settings.value = normaliseSettings(detail.settings)
+    widthMm.value = detail.widthMm
+    quiet = false
+  }
+
+  async function open(id: number) {
+    previewer.cancel()
+    lastSentKey = ''
+    artworkId.value = id
+    artwork.value = null
+    base.value = null
+    preview.value = null
+    previewOf.value = null
+    baseOutline.value = null
+    error.value = null
+    saveError.value = null
+    lastSaved.value = null
+    roundTrips.value = []
+    loadError.value = null
+    loading.value = true
+    loadFilms()
+    try {
+      const detail = await $fetch<ArtworkDetail>(`/api/artworks/${id}`)
+      if (artworkId.value !== id) return
+      artwork.value = detail
+      const newest = detail.revisions[0]
+      if (newest) {
+        const rev = await $fetch<RevisionDetail>(`/api/revisions/${newest.id}`)
+        if (artworkId.value !== id) return
+        applyBase(rev)
+        if (detail.can.revise) commit()
+        else {
+          // No previews for someone who may not tune: show the stored outline instead.
+          const svg = await $fetch<string>(rev.files.vector, { responseType: 'text' })
+          if (artworkId.value === id) baseOutline.value = parseOutlineSvg(svg)
+        }
+      }
+    } catch (err) {
+      if (artworkId.value === id) loadError.value = err
+    } finally {
+      if (artworkId.value === id) loading.value = false
+    }
+  }
+
+  /** Take another revision's settings and size as the starting point. */
+  async function startFrom(revisionId: number) {
+    const rev = await $fetch<RevisionDetail>(`/api/revisions/${revisionId}`)
+    applyBase(rev)
+    commit()
+  }
+
+  /** Back to the settings of the revision the bench started from. */
+  function reset() {
+    if (!base.value) return
+    applyBase(base.value)
+    commit()
+  }
+
+  function close() {
+    previewer.cancel()
+    artworkId.value = null
+  }
+
+  const nextNumber = computed(() => (artwork.value?.revisions[0]?.number ?? 0) + 1)
+  const dirty = computed(() => !!base.value && !sameSettings(settings.value, widthMm.value, normaliseSettings(base.value.settings), base.value.widthMm))
+  const world = computed(() => base.value ? { width: base.value.source.widthPx, height: base.value.source.heightPx } : null)
+  const heightMm = computed(() => base.value ? followingHeightMm(widthMm.value, base.value.source, settings.value.crop) : 0)
+  const outline = computed(() => (preview.value ? parseOutlineSvg(preview.value.svg) : null))
+  const film = computed(() => films.value.find((f) => f.id === filmId.value) ?? null)
+  const warnings = computed(() => {
+    const m = preview.value?.measurements ?? (baseOutline.value ? base.value?.measurements : null)
+    if (!m) return []
+    const f = film.value
+    return benchWarnings(m, f
+      ? { sheetMm: { width: f.sheetWidthMm, height: f.sheetHeightMm }, minStrokeMm: f.minFeatureMm, filmName: f.name }
+      : {})
+  })
+  /** Estimated cut time on the chosen film, seconds (outlines = pieces and holes). */
+  const cutSeconds = computed(() => {
+    const f = film.value
+    const m = preview.value?.measurements
+    if (!f || !m || !(f.laserSpeedMmS > 0)) return null
+    return estimateCutSeconds({ cutLengthMm: m.cutLengthMm, pieces: m.pieces + m.holes, speedMmS: f.laserSpeedMmS, passes: f.laserPasses })
+  })
+
+  async function loadFilms() {
+    try {
+      const all = await $fetch<Film[]>('/api/films')
+      films.value = all.filter((f) => f.usable)
+      if (filmId.value !== null && !films.value.some((f) => f.id === filmId.value)) filmId.value = null
+    } catch {
+      // Without film stock the bench checks against its stated defaults.
+      films.value = []
+    }
+  }
+  /** The shown preview is of other settings than those on the controls (one is on its way). */
+  const stale = computed(() => !!previewOf.value && !sameSettings(previewOf.value.settings, previewOf.value.widthMm, settings.value, widthMm.value))
+
+  async function save(): Promise<RevisionDetail | null> {
+    if (artworkId.value === null || saving.value) return null
+    const s = snapshot()
+    if (!s) return null
+    saving.value = true
+    saveError.value = null
+    try {
+      const rev = await $fetch<RevisionDetail>(`/api/artworks/${s.artworkId}/revisions`, {
+        method: 'POST',
+        body: { settings: s.settings, widthMm: s.widthMm },
+      })
+      if (artwork.value && artwork.value.artwork.id === rev.artworkId) {
+        const summary: RevisionSummary = {
+          id: rev.id, number: rev.number, status: rev.status, widthMm: rev.widthMm, heightMm: rev.heightMm,
+          createdAt: rev.createdAt, author: rev.author, measurements: rev.measurements,
+        }
+        const revisions = [summary, ...artwork.value.revisions.filter((r) => r.id !== rev.id)].sort((a, b) => b.number - a.number)
+        artwork.value = {
+          ...artwork.value,
+          artwork: { ...artwork.value.artwork, revisionCount: revisions.length, latestRevision: { id: revisions[0]!.id, number: revisions[0]!.number } },
+          revisions,
+        }
+      }
+      lastSaved.value = rev
+      // The saved revision is the new starting point; the controls keep what they show.
+      quiet = true
+      base.value = rev
+      quiet = false
+      return rev
+    } catch (err) {
+      saveError.value = apiProblem(err)
+      return null
+    } finally {
+      saving.value = false
+    }
+  }
+
+  return {
+    artworkId, artwork, base, baseOutline, settings, widthMm, preview, previewOf, pending, error, loading, loadError,
+    saving, saveError, lastSaved, roundTrips, films, filmId,
+    nextNumber, dirty, world, heightMm, outline, warnings, stale, film, cutSeconds,
+    open, startFrom, reset, commit, save, close,
+  }
+})
