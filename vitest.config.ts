@@ -1,4 +1,8 @@
+import { fileURLToPath } from 'node:url'
 import { defineConfig } from 'vitest/config'
+
+// The same alias Nuxt gives app and server code, so their plain modules can be unit-tested.
+const alias = { '#shared': fileURLToPath(new URL('./shared', import.meta.url)) }
 
 // Two projects: plain unit tests (no services), and end-to-end tests that share one build
 // of the app and one set of real services, started once per run in tests/setup/global.ts.
@@ -6,6 +10,7 @@ export default defineConfig({
   test: {
     projects: [
       {
+        resolve: { alias },
         test: {
           name: 'unit',
           include: ['tests/unit/**/*.test.ts'],

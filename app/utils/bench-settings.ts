@@ -1,8 +1,9 @@
 // The settings a designer steers on the tuning bench, their defaults and limits.
 //
-// Copied from server/pipeline/settings.ts, which is the source of truth (the app may not
-// import server code); keep the two in step. The server checks every request in full, so a
-// mismatch shows up as a 400 with field errors rather than as a wrong outline.
+// Defaults and limits are the pipeline's own (shared/utils/settings.ts); the server checks
+// every request in full again.
+import { DEFAULT_SETTINGS, SETTING_LIMITS as PIPELINE_LIMITS } from '#shared/utils/settings'
+import { WIDTH_MM_MAX, WIDTH_MM_MIN } from '#shared/utils/schemas'
 
 export type Luma = 'bt601' | 'bt709'
 
@@ -28,26 +29,11 @@ export interface BenchSettings {
 }
 
 export const SETTING_LIMITS = {
-  threshold: { min: 0, max: 255 },
-  lightingStrength: { min: 0, max: 1 },
-  speckFilterMm2: { min: 0, max: 1000 },
-  /** 4/3: every corner becomes a curve. */
-  cornerRounding: { min: 0, max: 4 / 3 },
-  curveTolerance: { min: 0, max: 1 },
-  /** shared/utils/schemas.ts WIDTH_MM_MIN / WIDTH_MM_MAX. */
-  widthMm: { min: 5, max: 1000 },
+  ...PIPELINE_LIMITS,
+  widthMm: { min: WIDTH_MM_MIN, max: WIDTH_MM_MAX },
 } as const
 
-const DEFAULTS: BenchSettings = {
-  luma: 'bt709',
-  lightingEvening: { enabled: false, strength: 1 },
-  threshold: { mode: 'auto' },
-  swapInkAndPaper: false,
-  crop: null,
-  speckFilterMm2: 0.5,
-  cornerRounding: 1,
-  curveTolerance: 0.2,
-}
+const DEFAULTS: BenchSettings = DEFAULT_SETTINGS
 export const BENCH_DEFAULTS: Readonly<BenchSettings> = Object.freeze(DEFAULTS)
 
 export function clampNumber(v: unknown, min: number, max: number, fallback: number): number {

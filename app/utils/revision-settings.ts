@@ -1,15 +1,11 @@
 // The settings form of a new revision, in the form's own terms (strings as typed, plain
-// booleans). The limits repeat the pipeline's settings schema on the server, which stays
-// the authority: the early check here only saves a round trip.
+// booleans). The limits are the pipeline's own (shared/utils/settings.ts); the server checks
+// again, the early check here only saves a round trip.
 
 import { WIDTH_MM_MAX, WIDTH_MM_MIN } from '#shared/utils/schemas'
+import { SETTING_LIMITS } from '#shared/utils/settings'
 
-export const REVISE_LIMITS = {
-  threshold: { min: 0, max: 255 },
-  speckFilterMm2: { min: 0, max: 1000 },
-  cornerRounding: { min: 0, max: 4 / 3 },
-  curveTolerance: { min: 0, max: 1 },
-} as const
+export const REVISE_LIMITS = SETTING_LIMITS
 
 /** The pipeline's defaults, for a revision whose stored settings lack a field. */
 const DEFAULTS = {

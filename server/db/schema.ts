@@ -3,7 +3,7 @@ import type { ColumnType, Generated, Insertable, Selectable, Updateable } from '
 import type { MemberRole } from '../../shared/types/roles'
 import type { ArtworkStatus } from '../../shared/types/artworks'
 import type { EngineVersions, Measurements, StageTimings } from '../../shared/types/pipeline'
-import type { PipelineSettings } from '../pipeline/settings'
+import type { PipelineSettings } from '../../shared/utils/settings'
 
 type CreatedAt = ColumnType<Date, Date | string | undefined, never>
 type Timestamp = ColumnType<Date, Date | string, Date | string>

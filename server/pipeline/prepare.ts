@@ -17,7 +17,7 @@ import { evenLighting } from './lighting'
 import { toGrey } from './luma'
 import { resizeGrey } from './rawgrey'
 import { histogram as makeHistogram, otsuThreshold } from './otsu'
-import { parseSettings, type PipelineSettings, type PipelineSettingsInput } from './settings'
+import { parseSettings, type PipelineSettings, type PipelineSettingsInput } from '../../shared/utils/settings'
 
 export interface PrepareOptions {
   minPxPerMm?: number

@@ -8,8 +8,8 @@ import { traceBitmap, outlineToSvg } from './trace'
 import { cleanVector } from './clean'
 import { measureCurves, smallPieces, narrowestFeatureMm } from './geometry'
 import { fidelity } from './fidelity'
-import type { PipelineSettingsInput } from './settings'
-export { PREVIEW_SOURCE_SIDE } from './settings'
+import type { PipelineSettingsInput } from '../../shared/utils/settings'
+export { PREVIEW_SOURCE_SIDE } from '../../shared/utils/settings'
 import { ENGINE_VERSIONS_BASE } from './versions'
 
 /** Below this area a piece of film is lost when weeding, unless the film says otherwise (common practice, a rule of thumb). */

@@ -17,7 +17,7 @@
 // Synchronous and pure: safe to call from a worker thread.
 import { createRequire } from 'node:module'
 import { DEFAULT_NODE_CAP, TooComplexError } from './errors'
-import type { PipelineSettings } from './settings'
+import type { PipelineSettings } from '../../shared/utils/settings'
 
 const require = createRequire(import.meta.url)
 

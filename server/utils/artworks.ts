@@ -2,7 +2,7 @@ import type { H3Event } from 'h3'
 import { sql, type Transaction } from 'kysely'
 import type { Database } from '../db/schema'
 import type { ArtworkDetail, ArtworkListItem, ArtworkPage, CreatedArtwork, RevisionDetail, RevisionSummary } from '#shared/types/artworks'
-import { parseSettings, type PipelineSettings } from '../pipeline/settings'
+import { parseSettings, type PipelineSettings } from '#shared/utils/settings'
 import type { RunResult } from '../pipeline/run'
 import type { Actor } from './actor'
 

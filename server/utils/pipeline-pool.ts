@@ -34,11 +34,12 @@ export function usePipelinePool(): Piscina {
 }
 
 /** Runs the pipeline off the request thread; pipeline errors become clear 4xx answers. */
-export async function runInPool(req: RunRequest): Promise<RunResult> {
+export async function runInPool(req: RunRequest, signal?: AbortSignal): Promise<RunResult> {
   let answer: WorkerAnswer
   try {
-    answer = await usePipelinePool().run(req)
+    answer = await usePipelinePool().run(req, signal ? { signal } : undefined)
   } catch (err) {
+    if (signal?.aborted) throw createError({ statusCode: 499, message: 'The request was withdrawn.' })
     if ((err as Error).message?.includes('Task queue is at limit')) {
       throw createError({ statusCode: 503, message: 'The outline workers are busy. Try again in a moment.' })
     }

@@ -1,11 +1,11 @@
 import sharp from 'sharp'
 import type { Preview } from '#shared/types/artworks'
-import { PREVIEW_SOURCE_SIDE, type PipelineSettings } from '../pipeline/settings'
+import { PREVIEW_SOURCE_SIDE, type PipelineSettings } from '#shared/utils/settings'
 import type { Actor } from './actor'
 
 // The tuning bench asks for a preview each time a control settles. Decoding a 12 MP photo
 // every time would take most of the time budget, so each source is shrunk once to a
-// preview source (upright, long side PREVIEW_SOURCE_SIDE from server/pipeline/settings.ts, uncompressed PNG that decodes in
+// preview source (upright, long side PREVIEW_SOURCE_SIDE from shared/utils/settings.ts, uncompressed PNG that decodes in
 // milliseconds) and kept in memory, bounded by total size, oldest out first.
 const CACHE_LIMIT_BYTES = 512 * 1024 * 1024
 
@@ -57,7 +57,12 @@ function scaleCrop(settings: PipelineSettings, s: PreviewSource): PipelineSettin
   return { ...settings, crop: { x, y, width: right - x, height: bottom - y } }
 }
 
-export async function previewArtwork(actor: Actor, artworkId: number, input: { settings: unknown; widthMm: number }): Promise<Preview> {
+/**
+ * A preview whose request was withdrawn (the bench moved on and aborted it) leaves the queue
+ * instead of being computed for nobody; one already running finishes, as a thread cannot be
+ * stopped half-way without losing it.
+ */
+export async function previewArtwork(actor: Actor, artworkId: number, input: { settings: unknown; widthMm: number }, signal?: AbortSignal): Promise<Preview> {
   const artwork = await findArtwork(actor, artworkId)
   if (!canActInTeam(actor, artwork.team_id, 'designer')) throw createError({ statusCode: 403, message: 'Only a designer or a mentor may tune the outline.' })
   const settings = parseSettingsOr400(input.settings)
@@ -68,7 +73,7 @@ export async function previewArtwork(actor: Actor, artworkId: number, input: { s
   }
   const small = await previewSource(source.object_key)
   // A copy crosses to the worker; the cached bytes stay here.
-  const result = await runInPool({ source: small.png.slice(), settings: scaleCrop(settings, small), widthMm: input.widthMm, purpose: 'preview' })
+  const result = await runInPool({ source: small.png.slice(), settings: scaleCrop(settings, small), widthMm: input.widthMm, purpose: 'preview' }, signal)
   return {
     svg: result.cleanSvg,
     preparedPng: `data:image/png;base64,${Buffer.from(result.preparedPng).toString('base64')}`,

@@ -75,7 +75,7 @@ export const artworkListQuerySchema = z.object({
 })
 
 export const revisionRequestSchema = z.object({
-  // Checked in full by the pipeline's own settings schema (server/pipeline/settings.ts).
+  // Checked in full by the pipeline's own settings schema (shared/utils/settings.ts).
   settings: z.record(z.string(), z.unknown()).default({}),
   widthMm: widthMmSchema,
 })

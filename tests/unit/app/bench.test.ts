@@ -16,7 +16,7 @@ const measurements = (over: Partial<Measurements> = {}): Measurements => ({
 })
 
 describe('bench settings', () => {
-  it('fills the server\'s defaults (server/pipeline/settings.ts) for anything missing', () => {
+  it('fills the server\'s defaults (shared/utils/settings.ts) for anything missing', () => {
     expect(normaliseSettings({})).toEqual(BENCH_DEFAULTS)
     expect(BENCH_DEFAULTS).toMatchObject({ speckFilterMm2: 0.5, cornerRounding: 1, curveTolerance: 0.2, luma: 'bt709', threshold: { mode: 'auto' } })
   })

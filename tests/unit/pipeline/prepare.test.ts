@@ -2,7 +2,7 @@ import sharp from 'sharp'
 import { describe, expect, it } from 'vitest'
 import { PrepareError } from '../../../server/pipeline/errors'
 import { prepareBitmap } from '../../../server/pipeline/prepare'
-import { DEFAULT_SETTINGS, parseSettings } from '../../../server/pipeline/settings'
+import { DEFAULT_SETTINGS, parseSettings } from '../../../shared/utils/settings'
 
 /** 200 × 100 white image with a black 40 × 40 square at the top left (x 10…49, y 10…49). */
 async function marker(): Promise<Buffer> {
