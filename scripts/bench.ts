@@ -14,6 +14,7 @@ import { prepareBitmap } from '../server/pipeline/prepare'
 import { traceBitmap } from '../server/pipeline/trace'
 import { buildPipelineWorker, PIPELINE_WORKER_FILE } from './lib/pipeline-worker-build'
 import type { WorkerAnswer } from '../server/pipeline/worker'
+import { benchBrowserRoundTrip } from './lib/bench-browser'
 
 const RUNS = Number(process.env.BENCH_RUNS ?? 5)
 const WIDTH_MM = 150
@@ -160,6 +161,19 @@ async function main() {
   console.log(`  longest event-loop pause: ${(delay.max / 1e6).toFixed(1)} ms (histogram), ${longest.toFixed(1)} ms (timer gap) (target ≤ 50 ms)`)
   console.log(`  peak memory (RSS, this process and its worker threads): ${(peak / 1024 / 1024).toFixed(0)} MB (target ≤ 700 MB); ${(baseline / 1024 / 1024).toFixed(0)} MB of it was there before (the benchmark's own photos and earlier runs)`)
   await pool.destroy()
+
+  // The tuning bench, end to end in a real browser (skip with BENCH_BROWSER=0).
+  if (process.env.BENCH_BROWSER !== '0') {
+    console.log('\nTuning bench preview round trip in Chromium (12 MP photo, 150 mm, the app on its own services):')
+    const trips = await benchBrowserRoundTrip(twelve, Math.max(8, RUNS * 3))
+    if (typeof trips === 'string') console.log(`  ${trips}`)
+    else {
+      const p95 = (xs: number[]) => { const s = [...xs].sort((a, b) => a - b); return s[Math.min(s.length - 1, Math.ceil(0.95 * s.length) - 1)]! }
+      console.log(`  request → outline drawn: median ${ms(median(trips.requestMs))}, 95th percentile ${ms(p95(trips.requestMs))} (n = ${trips.requestMs.length})`)
+      console.log(`  let go of the control → outline drawn: median ${ms(median(trips.sinceChangeMs))}, 95th percentile ${ms(p95(trips.sinceChangeMs))}`)
+      console.log(`  of which the server's pipeline: median ${ms(median(trips.serverMs))}`)
+    }
+  }
 }
 
 main().catch((err) => {
