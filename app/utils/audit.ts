@@ -28,6 +28,7 @@ function text(d: Detail, ...keys: string[]): string | null {
   for (const k of keys) {
     const v = d[k]
     if (typeof v === 'string' && v.trim()) return v.trim()
+    if (typeof v === 'number' && Number.isFinite(v)) return String(v)
     if (typeof v === 'number') return String(v)
   }
   return null
@@ -99,6 +100,32 @@ function known(e: AuditEntry, d: Detail, ctx: AuditContext): string | null {
       const n = text(d, 'revision')
       return `made ${n ? `revision ${n}` : 'a new revision'}${title ? ` of “${title}”` : ''}`
     }
+    case 'submit':
+      return `submitted revision ${text(d, 'revision') ?? ''} of “${text(d, 'title') ?? subject}” for review`
+    case 'approve':
+      return `approved revision ${text(d, 'revision') ?? ''} of “${text(d, 'title') ?? subject}”${text(d, 'comment') ? `: “${text(d, 'comment')}”` : ''}`
+    case 'send-back':
+      return `sent revision ${text(d, 'revision') ?? ''} of “${text(d, 'title') ?? subject}” back: “${text(d, 'comment') ?? ''}”`
+    case 'place':
+      return `placed “${text(d, 'title') ?? 'a decal'}” r${text(d, 'revision') ?? '?'} on the ${text(d, 'spot') ?? 'robot'} in ${text(d, 'film') ?? 'film'} (${text(d, 'quantity') ?? '?'} + ${text(d, 'spares') ?? '0'} spare)`
+    case 'queue-job':
+      return `queued ${text(d, 'quantity') ?? ''} × “${text(d, 'title') ?? 'a decal'}” for ${text(d, 'robot') ?? 'a robot'} (job ${e.subjectId})`
+    case 'reprint':
+      return `asked for a reprint of ${text(d, 'quantity') ?? ''} × “${text(d, 'title') ?? 'a decal'}” for ${text(d, 'robot') ?? 'a robot'}${text(d, 'reason') ? `: ${text(d, 'reason')}` : ''} (job ${e.subjectId})`
+    case 'mark-cut':
+      return `cut job ${e.subjectId} (“${text(d, 'title') ?? ''}”)`
+    case 'mark-applied':
+      return `applied job ${e.subjectId} (“${text(d, 'title') ?? ''}”) to ${text(d, 'robot') ?? 'the robot'}, ${text(d, 'spot') ?? ''}`
+    case 'add-robot':
+      return `added the robot ${name} (${text(d, 'season') ?? ''})`
+    case 'add-film':
+      return `added ${name} to the film stock`
+    case 'update-film':
+      return `changed ${name} in the film stock`
+    case 'create-mentor':
+      return `was made a mentor with the set-up command`
+    case 'load-demo':
+      return 'loaded the demo program'
     default:
       return null
   }

@@ -120,3 +120,14 @@ export interface ApiErrorBody {
   message: string
   data?: { fieldErrors?: Record<string, string[]> }
 }
+
+/** One line of the history of an artwork, a robot or a job. */
+export interface HistoryEntry {
+  id: number
+  at: string
+  action: string
+  by: string | null
+  subjectType: string
+  subjectId: string | null
+  detail: Record<string, unknown>
+}

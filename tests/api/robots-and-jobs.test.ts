@@ -138,6 +138,17 @@ describe('robots, placements, the cut queue and cut sheets', () => {
     expect((await other.post(`/api/placements/${placementId}/reprints`, { quantity: 1, reason: 'x' })).status).toBe(404)
   })
 
+  it('keeps the history of the robot and of the artwork', async () => {
+    const robot = (await student.get(`/api/robots/${robotId}/history`)).body
+    expect(robot.map((h: any) => h.action)).toEqual(['add-robot', 'place', 'queue-job', 'mark-cut', 'mark-applied', 'reprint'])
+    expect(robot.find((h: any) => h.action === 'reprint')).toMatchObject({ by: DEMO_ACCOUNTS.student.name, detail: { reason: 'Torn off in the quarter-final' } })
+    const artwork = (await student.get(`/api/artworks/${approvedRevision.artworkId}/history`)).body
+    expect(artwork.map((h: any) => h.action)).toEqual(['upload', 'submit', 'approve', 'place'])
+    const other = await signedIn('tomasz@harbourline.example', DEMO_PASSWORD)
+    expect((await other.get(`/api/robots/${robotId}/history`)).status).toBe(404)
+    expect((await other.get(`/api/artworks/${approvedRevision.artworkId}/history`)).status).toBe(404)
+  })
+
   it('hides a job from an operator of another program (404)', async () => {
     const db = testDb()
     const program = await db.insertInto('program').values({ name: `Far program ${Date.now()}`, school: 'Elsewhere' }).returning('id').executeTakeFirstOrThrow()

@@ -1,0 +1,1 @@
+export default defineEventHandler(async (event) => artworkHistory(await requireActor(event), idParam(event)))

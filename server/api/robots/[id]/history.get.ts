@@ -1,0 +1,1 @@
+export default defineEventHandler(async (event) => robotHistory(await requireActor(event), idParam(event)))
