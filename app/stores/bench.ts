@@ -195,9 +195,11 @@ export const useBenchStore = defineStore('bench', () => {
     const m = preview.value?.measurements ?? (baseOutline.value ? base.value?.measurements : null)
     if (!m) return []
     const f = film.value
+    const area = useSessionStore().me?.program.laserWorkArea
+    const workAreaMm = area ? { width: area.widthMm, height: area.heightMm } : null
     return benchWarnings(m, f
-      ? { sheetMm: { width: f.sheetWidthMm, height: f.sheetHeightMm }, minStrokeMm: f.minFeatureMm, filmName: f.name }
-      : {})
+      ? { sheetMm: { width: f.sheetWidthMm, height: f.sheetHeightMm }, minStrokeMm: f.minFeatureMm, filmName: f.name, workAreaMm }
+      : { workAreaMm })
   })
   /** Estimated cut time on the chosen film, seconds (outlines = pieces and holes). */
   const cutSeconds = computed(() => {

@@ -126,6 +126,10 @@ function known(e: AuditEntry, d: Detail, ctx: AuditContext): string | null {
       return `was made a mentor with the set-up command`
     case 'load-demo':
       return 'loaded the demo program'
+    case 'set-work-area': {
+      const a = d.laserWorkArea as { widthMm?: number; heightMm?: number } | null | undefined
+      return a?.widthMm ? `set the laser's work area to ${a.widthMm} × ${a.heightMm} mm` : 'cleared the laser\'s work area'
+    }
     default:
       return null
   }

@@ -42,6 +42,8 @@ export interface WarningContext {
   minStrokeMm?: number
   /** The film the design is checked against; its name replaces "thin film" and "a sheet". */
   filmName?: string
+  /** The lab laser's work area, when the program has recorded it. */
+  workAreaMm?: { width: number, height: number } | null
 }
 
 const FIX_LABELS: Record<WarningFix, string> = {
@@ -91,6 +93,11 @@ export function benchWarnings(m: Measurements, ctx: WarningContext = {}): BenchW
   }
   if (m.heightMm > sheet.height) {
     add('too-tall', `The design is ${formatMmValue(m.heightMm)} mm tall, taller than ${aSheet(sheet.height)} — reduce the width (the height follows it)`, 'widthMm')
+  }
+  const area = ctx.workAreaMm
+  // The design may lie either way round on the machine's bed.
+  if (area && !((m.widthMm <= area.width && m.heightMm <= area.height) || (m.widthMm <= area.height && m.heightMm <= area.width))) {
+    add('beyond-work-area', `The design (${formatMmValue(m.widthMm)} × ${formatMmValue(m.heightMm)} mm) does not fit the laser's ${formatMmValue(area.width)} × ${formatMmValue(area.height)} mm work area, either way round — reduce the width`, 'widthMm')
   }
   if (m.fidelity < LOW_FIDELITY) {
     add('low-fidelity', `The outline matches the prepared bitmap only ${(m.fidelity * 100).toFixed(1)} % — lower the curve tolerance or the corner rounding`, 'curveTolerance')

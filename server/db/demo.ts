@@ -28,7 +28,7 @@ export async function loadDemo(db: Kysely<Database>): Promise<boolean> {
   const passwordHash = await hashPasswordOutsideNuxt(DEMO_PASSWORD)
   await db.transaction().execute(async (trx) => {
     const program = await trx.insertInto('program')
-      .values({ name: 'Harbourline Robotics', school: 'Kestrel Bay Secondary School' })
+      .values({ name: 'Harbourline Robotics', school: 'Kestrel Bay Secondary School', laser_work_width_mm: 400, laser_work_height_mm: 400 })
       .returning('id').executeTakeFirstOrThrow()
     const teams = await trx.insertInto('team').values([
       { program_id: program.id, name: 'Copper Wrens', number: 'HL-1', colour: '#b4532a' },

@@ -13,6 +13,8 @@ export interface ProgramTable {
   name: string
   school: string
   created_at: CreatedAt
+  laser_work_width_mm: ColumnType<number | null, number | null | undefined, number | null>
+  laser_work_height_mm: ColumnType<number | null, number | null | undefined, number | null>
 }
 
 export interface UsersTable {

@@ -12,7 +12,7 @@ export interface MeTeam {
 
 export interface Me {
   user: { id: number; name: string; email: string }
-  program: { id: number; name: string; school: string }
+  program: { id: number; name: string; school: string; laserWorkArea: { widthMm: number; heightMm: number } | null }
   isMentor: boolean
   /** Every distinct role the user holds anywhere in the program. */
   roles: Role[]

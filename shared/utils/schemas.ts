@@ -139,3 +139,10 @@ export const jobListQuerySchema = z.object({
   teamId: z.coerce.number().int().positive().optional(),
   state: z.enum(['queued', 'cut', 'applied']).optional(),
 })
+
+export const laserWorkAreaSchema = z.object({
+  widthMm: z.number({ message: 'Enter the width of the work area in mm.' }).gt(0).max(5000),
+  heightMm: z.number({ message: 'Enter the height of the work area in mm.' }).gt(0).max(5000),
+}).nullable()
+
+export const programPatchSchema = z.object({ laserWorkArea: laserWorkAreaSchema })

@@ -137,3 +137,15 @@ describe('film stock and the chlorine rule', () => {
       values (${robot.id}, ${draft.id}, ${pet.id}, 'front', 60, 1, ${userId})`.execute(db)).rejects.toThrow(/not approved/)
   })
 })
+
+describe('the laser work area', () => {
+  it('a mentor records it and everyone reads it from /api/me; others may not change it', async () => {
+    expect((await student.get('/api/me')).body.program.laserWorkArea).toEqual({ widthMm: 400, heightMm: 400 })
+    expect((await student.patch('/api/program', { laserWorkArea: { widthMm: 300, heightMm: 200 } })).status).toBe(403)
+    const bad = await mentor.patch('/api/program', { laserWorkArea: { widthMm: -1, heightMm: 200 } })
+    expect(bad.status).toBe(400)
+    expect((await mentor.patch('/api/program', { laserWorkArea: { widthMm: 500, heightMm: 300 } })).status).toBe(200)
+    expect((await student.get('/api/me')).body.program.laserWorkArea).toEqual({ widthMm: 500, heightMm: 300 })
+    expect((await mentor.patch('/api/program', { laserWorkArea: { widthMm: 400, heightMm: 400 } })).status).toBe(200)
+  })
+})
