@@ -26,6 +26,8 @@ export interface PrepareOptions {
   maxPixels?: number
   /** Largest source accepted, in pixels (decoded size). Default 100 million. */
   maxSourcePixels?: number
+  /** Encode the PNG for speed rather than size (a preview that is shown once and dropped). */
+  fastPng?: boolean
 }
 
 export interface PrepareTimings {
@@ -64,13 +66,12 @@ function asU8(b: Buffer): Uint8Array {
 }
 
 /** 1-bit ink/paper bitmap (1 = ink) as a black-on-white 2-colour PNG. */
-export async function bitmapToPng(bitmap: Uint8Array, width: number, height: number): Promise<Buffer> {
+export async function bitmapToPng(bitmap: Uint8Array, width: number, height: number, fast = false): Promise<Buffer> {
   const grey = new Uint8Array(bitmap.length)
   for (let i = 0; i < bitmap.length; i++) grey[i] = bitmap[i] ? 0 : 255
-  return sharp(grey, { raw: { width, height, channels: 1 } })
-    .toColourspace('b-w')
-    .png({ palette: true, colours: 2, dither: 0, compressionLevel: 9 })
-    .toBuffer()
+  const img = sharp(grey, { raw: { width, height, channels: 1 } }).toColourspace('b-w')
+  // Stored bitmaps: a 2-colour palette, packed small. Previews: plain grey, quick to write.
+  return (fast ? img.png({ compressionLevel: 1, adaptiveFiltering: false }) : img.png({ palette: true, colours: 2, dither: 0, compressionLevel: 9 })).toBuffer()
 }
 
 export async function prepareBitmap(
@@ -146,7 +147,7 @@ export async function prepareBitmap(
   for (let i = 0; i < bitmap.length; i++) bitmap[i] = grey[i]! <= threshold ? inkValue : 1 - inkValue
   const t5 = performance.now()
 
-  const png = await bitmapToPng(bitmap, width, height)
+  const png = await bitmapToPng(bitmap, width, height, options.fastPng)
   const t6 = performance.now()
 
   return {

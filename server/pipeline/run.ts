@@ -35,7 +35,7 @@ export interface RunResult {
 }
 
 /** Preview resolution: enough for a screen, small enough to answer while a slider moves. */
-export const PREVIEW_OPTIONS: PrepareOptions = { minPxPerMm: 4, maxPxPerMm: 6, maxPixels: 1_000_000 }
+export const PREVIEW_OPTIONS: PrepareOptions = { minPxPerMm: 4, maxPxPerMm: 6, maxPixels: 1_000_000, fastPng: true }
 
 export async function runPipeline(req: RunRequest): Promise<RunResult> {
   const t0 = performance.now()
