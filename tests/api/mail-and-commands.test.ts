@@ -10,7 +10,6 @@ const run = promisify(execFile)
 
 describe('the mail fake page', () => {
   it('lists and shows the messages the fake received', async () => {
-    const email = uniqueEmail('outbox')
     await new ApiClient().post('/api/password-resets', { email: DEMO_ACCOUNTS.operator.email })
     await waitForMail(DEMO_ACCOUNTS.operator.email, /Reset/)
     const mentor = await signedIn(DEMO_ACCOUNTS.mentor.email, DEMO_PASSWORD)
@@ -22,7 +21,6 @@ describe('the mail fake page', () => {
     expect(one.body.text).toContain('/reset/')
     expect(one.body.html).toContain('Choose a new password')
     expect((await mentor.get('/api/mail/..%2F..%2Fetc%2Fpasswd')).status).toBe(404)
-    expect(email).toBeTruthy()
   })
 })
 
