@@ -2,7 +2,7 @@
 // root), then run every test project once: unit tests, and API and browser tests against one
 // build of the app with real PostgreSQL, object storage and mail fake.
 import { spawnSync } from 'node:child_process'
-import { existsSync } from 'node:fs'
+import { existsSync, readFileSync, rmSync } from 'node:fs'
 import { ensureDebianPackages, findPostgresBin, ServiceError } from './lib/services'
 
 try {
@@ -16,5 +16,14 @@ try {
   process.exit(1)
 }
 
-const r = spawnSync(process.execPath, ['node_modules/vitest/vitest.mjs', 'run', ...process.argv.slice(2)], { stdio: 'inherit' })
+const summaryFile = 'test-results/vitest.json'
+rmSync(summaryFile, { force: true })
+const r = spawnSync(process.execPath, [
+  'node_modules/vitest/vitest.mjs', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${summaryFile}`, ...process.argv.slice(2),
+], { stdio: 'inherit' })
+// One plain closing line, the same for every runner that reads it.
+if (existsSync(summaryFile)) {
+  const s = JSON.parse(readFileSync(summaryFile, 'utf8')) as { numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number }
+  console.log(`\nSummary: ${s.numPassedTests} passed, ${s.numFailedTests} failed, ${s.numPendingTests + s.numTodoTests} skipped`)
+}
 process.exit(r.status ?? 1)
