@@ -5,7 +5,8 @@ import { runPipeline, type RunRequest, type RunResult } from './run'
 import { PrepareError, TooComplexError } from './errors'
 
 // Each worker thread is already one core's worth of work: libvips' own thread pool and its
-// operation cache would only add memory (peak memory with four revisions at once).
+// operation cache would only add memory (peak memory with four revisions at once). Both
+// settings are process-wide, so the server's own small sharp jobs run single-threaded too.
 sharp.concurrency(1)
 sharp.cache(false)
 
