@@ -7,6 +7,7 @@ import type { Selectable } from 'kysely'
 import type { FilmTable } from '../db/schema'
 import type { Actor } from './actor'
 import { toFilm } from './films'
+import { fileSlug } from './file-names'
 import { readCleanVector, type CutCurve } from '../cutsheet/path'
 import { cutSheetSvg } from '../cutsheet/svg'
 import { cutSheetDxf } from '../cutsheet/dxf'
@@ -164,8 +165,7 @@ export async function cutSheetFiles(actor: Actor, id: number, o: SheetOptions, f
     if (err instanceof RangeError) throw createError({ statusCode: 422, message: `${err.message} Change the gap, margin or weeding frame.` })
     throw err
   }
-  const slug = r.title.normalize('NFKD').replace(/[^\w\s-]/g, '').trim().replace(/\s+/g, '-').toLowerCase().slice(0, 40) || 'decal'
-  return { files, name: `job-${id}-${slug}-r${r.revision_number}` }
+  return { files, name: `job-${id}-${fileSlug(r.title, 40, 'decal')}-r${r.revision_number}` }
 }
 
 function filmFromRow(r: JobRow) {

@@ -1,17 +1,14 @@
 import type { H3Event } from 'h3'
 import type { findRevision } from './artworks'
+import { fileSlug } from './file-names'
 
 type RevisionRow = Awaited<ReturnType<typeof findRevision>>
-
-function slug(s: string): string {
-  return s.normalize('NFKD').replace(/[^\w\s-]/g, '').trim().replace(/\s+/g, '-').toLowerCase().slice(0, 60) || 'artwork'
-}
 
 const EXTENSIONS: Record<string, string> = { 'image/jpeg': 'jpg', 'image/png': 'png', 'image/webp': 'webp', 'image/tiff': 'tif', 'image/gif': 'gif', 'image/avif': 'avif' }
 
 /** One stored file of a revision with its content type and a file name people can recognise. */
 export async function sendRevisionFile(event: H3Event, row: RevisionRow, kind: 'vector' | 'prepared' | 'outline' | 'source'): Promise<Buffer> {
-  const base = `${slug(row.title)}-r${row.number}`
+  const base = `${fileSlug(row.title, 60, 'artwork')}-r${row.number}`
   const file = {
     vector: { key: row.vector_key, type: 'image/svg+xml', name: `${base}.svg` },
     outline: { key: row.outline_key, type: 'image/svg+xml', name: `${base}-outline-px.svg` },

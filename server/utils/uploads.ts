@@ -1,5 +1,5 @@
 import type { H3Event } from 'h3'
-import type { z } from 'zod'
+import { z } from 'zod'
 import { formatBytes } from './body'
 
 export interface Upload<T> { fields: T; fileName: string; bytes: Uint8Array }
@@ -20,7 +20,7 @@ export async function readUpload<S extends z.ZodType>(event: H3Event, schema: S)
     else if (p.name) fields[p.name] = p.data.toString('utf8')
   }
   const parsed = schema.safeParse(fields)
-  const fieldErrors: Record<string, string[]> = parsed.success ? {} : { ...(invalidInput(parsed.error) as { data?: { fieldErrors?: Record<string, string[]> } }).data?.fieldErrors }
+  const fieldErrors: Record<string, string[]> = parsed.success ? {} : { ...(z.flattenError(parsed.error).fieldErrors as Record<string, string[]>) }
   if (!file || file.data.byteLength === 0) fieldErrors.file = ['Choose a picture to upload.']
   if (Object.keys(fieldErrors).length) {
     throw createError({ statusCode: 400, message: `Please check the form: ${Object.values(fieldErrors)[0]![0]}`, data: { fieldErrors } })
