@@ -9,7 +9,42 @@ export default defineNuxtConfig({
   ...(process.env.DECALWRIGHT_BUILD_DIR ? { buildDir: process.env.DECALWRIGHT_BUILD_DIR } : {}),
   devtools: { enabled: false },
   telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', 'nuxt-security'],
+  // Page headers: a content security policy with a nonce per response (no page may be framed,
+  // nothing loads from elsewhere), nosniff and a referrer policy. The module's in-memory rate
+  // limiter, size limiter, CORS and XSS filters are off: limits live in PostgreSQL so they
+  // hold across app processes, bodies are limited while they are read (server/utils/body.ts),
+  // and cross-site writes are refused by server/middleware/02.request-guard.ts.
+  security: {
+    nonce: true,
+    headers: {
+      contentSecurityPolicy: {
+        'default-src': ["'self'"],
+        'script-src': ["'self'", "'nonce-{{nonce}}'", "'strict-dynamic'"],
+        'style-src': ["'self'", "'unsafe-inline'"],
+        'img-src': ["'self'", 'data:', 'blob:'],
+        'font-src': ["'self'"],
+        'connect-src': ["'self'"],
+        'object-src': ["'none'"],
+        'base-uri': ["'none'"],
+        'form-action': ["'self'"],
+        'frame-ancestors': ["'none'"],
+        'upgrade-insecure-requests': false,
+      },
+      crossOriginEmbedderPolicy: false,
+      referrerPolicy: 'same-origin',
+      xContentTypeOptions: 'nosniff',
+      xFrameOptions: 'DENY',
+      // Only meaningful over HTTPS; set at the TLS-terminating proxy in production.
+      strictTransportSecurity: false,
+    },
+    rateLimiter: false,
+    requestSizeLimiter: false,
+    xssValidator: false,
+    corsHandler: false,
+    allowedMethodsRestricter: false,
+    removeLoggers: false,
+  },
   css: ['~/assets/css/main.css'],
   // Our stylesheet carries the @tailwind directives; without this the module adds a second copy.
   tailwindcss: { cssPath: '~/assets/css/main.css' },

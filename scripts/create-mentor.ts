@@ -1,19 +1,38 @@
-// `npm run create-mentor -- --email a@b.org --name "A Person" [--program "Name"] [--school "Name"]`
-// Makes the first mentor of a new installation and prints a one-time link to set a password.
+// `npm run create-mentor -- --email a@b.org --name "A Person" [--program "Name" [--school "Name"] [--join]]`
+// Makes a mentor and prints a one-time link to set a password. With --program, a new program
+// of that name is made (refused when the name is taken, unless --join asks to join it);
+// without it, the installation's only program is joined (or a first one made).
 // Reads NUXT_DATABASE_URL; without it, uses the local cluster that `npm start` keeps in storage/.
 import { parseArgs } from 'node:util'
 import { existsSync, readFileSync } from 'node:fs'
 import path from 'node:path'
+import type { Transaction } from 'kysely'
 import { createDb, migrateToLatest } from '../server/db/connect'
+import type { Database } from '../server/db/schema'
 import { newToken, WELCOME_TTL_MS } from '../server/utils/tokens'
 
 const { values } = parseArgs({
-  options: { email: { type: 'string' }, name: { type: 'string' }, program: { type: 'string' }, school: { type: 'string' } },
+  options: { email: { type: 'string' }, name: { type: 'string' }, program: { type: 'string' }, school: { type: 'string' }, join: { type: 'boolean' } },
 })
 
 function fail(message: string): never {
   console.error(message)
   process.exit(1)
+}
+
+/** The program the new mentor belongs to, made or found as the options say. */
+async function chooseProgram(trx: Transaction<Database>): Promise<{ id: number }> {
+  const wanted = values.program?.trim()
+  if (wanted) {
+    const existing = await trx.selectFrom('program').select('id').where('name', '=', wanted).executeTakeFirst()
+    if (existing && values.join) return existing
+    if (existing) fail(`A program named "${wanted}" exists already. Add --join to make this person a mentor of it, or choose another name.`)
+    return trx.insertInto('program').values({ name: wanted, school: values.school?.trim() ?? '' }).returning('id').executeTakeFirstOrThrow()
+  }
+  if (values.join) fail('--join needs --program "Name" of the program to join.')
+  const programs = await trx.selectFrom('program').select(['id', 'name']).orderBy('id').limit(2).execute()
+  if (programs.length > 1) fail('This installation has several programs: say which with --program "Name" --join, or make a new one with --program "Name".')
+  return programs[0] ?? trx.insertInto('program').values({ name: 'Robotics program', school: values.school?.trim() ?? '' }).returning('id').executeTakeFirstOrThrow()
 }
 
 async function main() {
@@ -33,8 +52,7 @@ async function main() {
     const { token, hash } = newToken()
     await db.transaction().execute(async (trx) => {
       if (await trx.selectFrom('users').select('id').where('email', '=', email).executeTakeFirst()) fail(`There is an account for ${email} already.`)
-      let program = await trx.selectFrom('program').select('id').orderBy('id').limit(1).executeTakeFirst()
-      program ??= await trx.insertInto('program').values({ name: values.program ?? 'Robotics program', school: values.school ?? '' }).returning('id').executeTakeFirstOrThrow()
+      const program = await chooseProgram(trx)
       const user = await trx.insertInto('users').values({ program_id: program.id, email, name }).returning('id').executeTakeFirstOrThrow()
       await trx.insertInto('mentorship').values({ user_id: user.id, program_id: program.id }).execute()
       await trx.insertInto('password_reset').values({

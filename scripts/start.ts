@@ -33,8 +33,7 @@ async function main() {
     console.log('Stopped. Your data is kept in storage/.')
     process.exit(code)
   }
-  process.on('SIGINT', () => void shutdown())
-  process.on('SIGTERM', () => void shutdown())
+  for (const signal of ['SIGINT', 'SIGTERM', 'SIGHUP'] as const) process.on(signal, () => void shutdown())
 
   try {
     const env = { ...stack.env, NUXT_PUBLIC_BASE_URL: process.env.NUXT_PUBLIC_BASE_URL ?? `http://localhost:${port}` }
@@ -54,9 +53,7 @@ async function main() {
       url = `http://localhost:${port}`
     } else {
       buildApp()
-      const app = await startApp({ port, host, env })
-      stops.push(app.stop)
-      app.child.once('exit', (code) => { if (!stopping) { console.error('The app stopped unexpectedly.'); void shutdown(code ?? 1) } })
+      await superviseApp({ port, host, env, isStopping: () => stopping, onStop: (stop) => stops.push(stop) })
       url = `http://localhost:${port}`
     }
     console.log('')
@@ -70,6 +67,37 @@ async function main() {
     console.error(err instanceof Error ? err.message : err)
     await shutdown(1)
   }
+}
+
+/**
+ * Runs the app and starts it again when it dies (a crash, the kernel's out-of-memory killer),
+ * waiting longer after each quick failure; the database, object store and mail fake stay up.
+ */
+async function superviseApp(o: { port: number; host: string; env: Record<string, string>; isStopping: () => boolean; onStop: (stop: () => Promise<void>) => void }) {
+  let current = await startApp({ port: o.port, host: o.host, env: o.env })
+  let delayMs = 1000
+  o.onStop(() => current.stop())
+  const watch = (app: typeof current, startedAt: number) => {
+    app.child.once('exit', (code, signal) => {
+      if (o.isStopping()) return
+      // A run that lasted a while was healthy: start again quickly.
+      if (Date.now() - startedAt > 60_000) delayMs = 1000
+      console.error(`The app stopped unexpectedly (${signal ?? `exit code ${code}`}); starting it again in ${delayMs / 1000} s. The database and files are untouched.`)
+      setTimeout(async function again() {
+        if (o.isStopping()) return
+        try {
+          current = await startApp({ port: o.port, host: o.host, env: o.env })
+          console.log('The app is running again.')
+          watch(current, Date.now())
+        } catch (err) {
+          console.error(`The app did not start: ${err instanceof Error ? err.message : err}`)
+          setTimeout(again, delayMs)
+        }
+        delayMs = Math.min(delayMs * 2, 30_000)
+      }, delayMs)
+    })
+  }
+  watch(current, Date.now())
 }
 
 main().catch((err) => {

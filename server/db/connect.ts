@@ -7,10 +7,33 @@ import { migrations } from './migrations'
 // Return bigint counts and ids as numbers (our counts stay far below 2^53).
 pg.types.setTypeParser(20, (v) => Number(v))
 
-export function createDb(connectionString: string, max = 10): Kysely<Database> {
-  return new Kysely<Database>({
-    dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString, max }) }),
+export interface DbOptions {
+  /** Connections in the pool. */
+  max?: number
+  /** How long a request waits for a free connection before it is answered 503. */
+  connectTimeoutMs?: number
+  /** How long one query may take, counted by the client, so a stalled server cannot hang a request. */
+  queryTimeoutMs?: number
+}
+
+export const DB_DEFAULTS = { max: 10, connectTimeoutMs: 5000, queryTimeoutMs: 15_000 } as const
+
+export function createDb(connectionString: string, options: DbOptions | number = {}): Kysely<Database> {
+  const o = { ...DB_DEFAULTS, ...(typeof options === 'number' ? { max: options } : options) }
+  const pool = new pg.Pool({
+    connectionString,
+    max: o.max,
+    connectionTimeoutMillis: o.connectTimeoutMs,
+    query_timeout: o.queryTimeoutMs,
+    // The server gives up too, and ends a transaction left open by a request that died.
+    statement_timeout: o.queryTimeoutMs,
+    idle_in_transaction_session_timeout: o.queryTimeoutMs * 2,
+    // Dead connections (a restarted or stalled server) are noticed instead of waited on.
+    keepAlive: true,
   })
+  // An idle connection that breaks must not take the process down with it.
+  pool.on('error', (err) => console.error('[decalwright] database connection lost:', err.message))
+  return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) })
 }
 
 const provider: MigrationProvider = { getMigrations: async () => migrations }

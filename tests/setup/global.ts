@@ -11,7 +11,7 @@ import { loadDemo } from '../../server/db/demo'
 
 // DECALWRIGHT_TEST_PORT_OFFSET and DECALWRIGHT_TEST_STORAGE let two test runs share a machine.
 const offset = Number(process.env.DECALWRIGHT_TEST_PORT_OFFSET ?? 0)
-export const TEST_PORTS = { app: 3917 + offset, pg: 54339 + offset, s3: 4579 + offset, smtp: 2535 + offset }
+export const TEST_PORTS = { app: 3917 + offset, pg: 54339 + offset, s3: 4579 + offset, smtp: 2535 + offset, spare: 3940 + offset }
 
 declare module 'vitest' {
   export interface ProvidedContext {
@@ -19,6 +19,10 @@ declare module 'vitest' {
     databaseUrl: string
     mailDir: string
     s3: { endpoint: string; bucket: string; accessKeyId: string; secretAccessKey: string }
+    /** The environment the app was started with, for tests that start another app beside it. */
+    appEnv: Record<string, string>
+    /** The first port a test may use for an app or a service of its own. */
+    spareTestPort: number
   }
 }
 
@@ -36,7 +40,10 @@ export default async function setup(project: TestProject) {
     await db.destroy()
     buildApp()
     const baseUrl = `http://127.0.0.1:${TEST_PORTS.app}`
-    app = await startApp({ port: TEST_PORTS.app, host: '127.0.0.1', env: { ...stack.env, NUXT_PUBLIC_BASE_URL: baseUrl }, quiet: !process.env.DECALWRIGHT_TEST_LOGS })
+    const appEnv = { ...stack.env, NUXT_PUBLIC_BASE_URL: baseUrl }
+    app = await startApp({ port: TEST_PORTS.app, host: '127.0.0.1', env: appEnv, quiet: !process.env.DECALWRIGHT_TEST_LOGS })
+    project.provide('appEnv', appEnv)
+    project.provide('spareTestPort', TEST_PORTS.spare)
     project.provide('baseUrl', baseUrl)
     project.provide('databaseUrl', stack.env.NUXT_DATABASE_URL!)
     project.provide('mailDir', stack.env.NUXT_MAIL_OUTBOX_DIR!)

@@ -1,11 +1,35 @@
 // A small HTTP client for API tests that keeps the session cookie like a browser does.
+import http from 'node:http'
 import { inject } from 'vitest'
 
 export interface Reply<T = any> { status: number; body: T; headers: Headers }
 
+export interface ClientOptions {
+  /** A loopback address to send from (127.0.0.2, 127.0.0.3 …), so the app sees another client. */
+  source?: string
+}
+
+/** One request over node:http, bound to a local address; fetch cannot choose its source. */
+function sendFrom(source: string, url: URL, method: string, headers: Record<string, string>, body?: string): Promise<Response> {
+  return new Promise((resolve, reject) => {
+    const req = http.request(url, { method, headers, localAddress: source }, (res) => {
+      const chunks: Buffer[] = []
+      res.on('data', (c: Buffer) => chunks.push(c))
+      res.on('end', () => {
+        const h = new Headers()
+        for (const [k, v] of Object.entries(res.headers)) for (const one of [v].flat()) if (one !== undefined) h.append(k, one)
+        resolve(new Response([204, 304].includes(res.statusCode!) ? null : Buffer.concat(chunks), { status: res.statusCode, headers: h }))
+      })
+      res.on('error', reject)
+    })
+    req.on('error', reject)
+    req.end(body)
+  })
+}
+
 export class ApiClient {
   cookies = new Map<string, string>()
-  constructor(readonly baseUrl = inject('baseUrl')) {}
+  constructor(readonly baseUrl = inject('baseUrl'), readonly options: ClientOptions = {}) {}
 
   async request<T = any>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<Reply<T>> {
     const h: Record<string, string> = { accept: 'application/json', ...headers }
@@ -15,7 +39,10 @@ export class ApiClient {
       payload = typeof body === 'string' ? body : JSON.stringify(body)
       h['content-type'] ??= 'application/json'
     }
-    const r = await fetch(new URL(path, this.baseUrl), { method, headers: h, body: payload, redirect: 'manual' })
+    const url = new URL(path, this.baseUrl)
+    const r = this.options.source
+      ? await sendFrom(this.options.source, url, method, h, payload)
+      : await fetch(url, { method, headers: h, body: payload, redirect: 'manual' })
     for (const c of r.headers.getSetCookie()) {
       const [pair] = c.split(';')
       const i = pair!.indexOf('=')
@@ -43,8 +70,8 @@ export class ApiClient {
   }
 }
 
-export async function signedIn(email: string, password: string): Promise<ApiClient> {
-  const c = new ApiClient()
+export async function signedIn(email: string, password: string, options: ClientOptions & { baseUrl?: string } = {}): Promise<ApiClient> {
+  const c = new ApiClient(options.baseUrl ?? inject('baseUrl'), options)
   await c.signIn(email, password)
   return c
 }
