@@ -1,0 +1,83 @@
+// Polygon offsetting and clipping for cut sheets, through clipper-lib (a JavaScript port of
+// Angus Johnson's Clipper 6). Everything that needs an offset or a clip goes through here, so
+// one library and one integer grid decide every distance on the sheet.
+//
+// Clipper works on integers: millimetres are scaled by CLIPPER_SCALE (0.1 µm units). Sheets up
+// to about 100 m stay inside Clipper's fast 30-bit range, far beyond any film.
+import * as ClipperNs from 'clipper-lib'
+import type { Point } from './path'
+
+// The package is CommonJS: under Node's ESM loader the namespace holds only `default`,
+// under a bundler it may hold the names themselves.
+const ClipperLib: typeof ClipperNs = (ClipperNs as unknown as { default?: typeof ClipperNs }).default ?? ClipperNs
+
+/** Clipper units per millimetre. */
+export const CLIPPER_SCALE = 10_000
+
+type IntPath = ClipperNs.Path
+
+function toInt(poly: Point[]): IntPath {
+  return poly.map((p) => ({ X: Math.round(p.x * CLIPPER_SCALE), Y: Math.round(p.y * CLIPPER_SCALE) }))
+}
+
+function toMm(path: IntPath): Point[] {
+  return path.map((p) => ({ x: p.X / CLIPPER_SCALE, y: p.Y / CLIPPER_SCALE }))
+}
+
+/** Signed area in mm² (shoelace formula); its sign tells the direction of travel. */
+export function signedArea(poly: Point[]): number {
+  let a = 0
+  for (let i = 0, j = poly.length - 1; i < poly.length; j = i++) a += (poly[j]!.x - poly[i]!.x) * (poly[j]!.y + poly[i]!.y)
+  return a / 2
+}
+
+/** The region inside an odd number of the closed polygons (SVG's even-odd fill), as outer boundaries and holes. */
+function evenOddRegion(polygons: Point[][]): IntPath[] {
+  const c = new ClipperLib.Clipper()
+  c.AddPaths(polygons.map(toInt), ClipperLib.PolyType.ptSubject, true)
+  const out: IntPath[] = []
+  c.Execute(ClipperLib.ClipType.ctUnion, out, ClipperLib.PolyFillType.pftEvenOdd, ClipperLib.PolyFillType.pftEvenOdd)
+  return out
+}
+
+function offsetPaths(paths: IntPath[], deltaMm: number, arcToleranceMm: number): Point[][] {
+  const o = new ClipperLib.ClipperOffset(2, arcToleranceMm * CLIPPER_SCALE)
+  o.AddPaths(paths, ClipperLib.JoinType.jtRound, ClipperLib.EndType.etClosedPolygon)
+  const out: IntPath[] = []
+  o.Execute(out, deltaMm * CLIPPER_SCALE)
+  return out.map(toMm)
+}
+
+/**
+ * Every boundary of the even-odd region of `polygons`, moved outwards by `deltaMm` (into the
+ * film around a piece, and into each hole), with round joins: the set of points within
+ * `deltaMm` of the region, which is the path a beam's centre must follow for its edge to
+ * trace the region. Round corners are chords whose vertices lie on the true arc, at most
+ * `arcToleranceMm` inside it. Outer boundaries and holes come back with opposite orientation.
+ */
+export function offsetRegion(polygons: Point[][], deltaMm: number, arcToleranceMm: number): Point[][] {
+  return offsetPaths(evenOddRegion(polygons), deltaMm, arcToleranceMm)
+}
+
+/**
+ * The region's outer boundaries with their holes filled in (what a piece covers on the film),
+ * grown by `deltaMm` with round joins: a keep-out zone around the piece.
+ */
+export function grownOutline(polygons: Point[][], deltaMm: number, arcToleranceMm: number): Point[][] {
+  const outers = evenOddRegion(polygons).filter((p) => ClipperLib.Clipper.Orientation(p))
+  const c = new ClipperLib.Clipper()
+  c.AddPaths(outers, ClipperLib.PolyType.ptSubject, true)
+  const filled: IntPath[] = []
+  c.Execute(ClipperLib.ClipType.ctUnion, filled, ClipperLib.PolyFillType.pftNonZero, ClipperLib.PolyFillType.pftNonZero)
+  return offsetPaths(filled, deltaMm, arcToleranceMm)
+}
+
+/** The parts of the open polylines `lines` outside every closed polygon of `keepOut` (non-zero fill). */
+export function clipLinesOutside(lines: Point[][], keepOut: Point[][]): Point[][] {
+  const c = new ClipperLib.Clipper()
+  for (const l of lines) c.AddPath(toInt(l), ClipperLib.PolyType.ptSubject, false)
+  c.AddPaths(keepOut.map(toInt), ClipperLib.PolyType.ptClip, true)
+  const tree = new ClipperLib.PolyTree()
+  c.Execute(ClipperLib.ClipType.ctDifference, tree, ClipperLib.PolyFillType.pftNonZero, ClipperLib.PolyFillType.pftNonZero)
+  return ClipperLib.Clipper.OpenPathsFromPolyTree(tree).map(toMm)
+}
