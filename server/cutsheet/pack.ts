@@ -19,7 +19,8 @@
 //   box    o … o + bw   ×  o … o + bh             (bw × bh: the design's box)
 //   label  0 … labelWidth × bh + 2o + labelGap … + labelHeight   (text labels only)
 // A turned slot is the same turned 90° clockwise, as a turned copy is (see place.ts).
-import { MaxRectsPacker, PACKING_LOGIC } from 'maxrects-packer'
+// The ESM build itself (see maxrects-packer.d.ts beside this file for why).
+import { MaxRectsPacker, PACKING_LOGIC } from 'maxrects-packer/dist/maxrects-packer.mjs'
 import { layoutSheets } from '../../shared/utils/sheet-layout'
 import { checkDesignId, checkKerf, positiveMm } from './design'
 import type { Rect } from './place'
