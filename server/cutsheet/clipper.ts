@@ -14,6 +14,16 @@ const ClipperLib: typeof ClipperNs = (ClipperNs as unknown as { default?: typeof
 /** Clipper units per millimetre. */
 export const CLIPPER_SCALE = 10_000
 
+/**
+ * How far a round join's chords may stray inside the true arc, as a multiple of the arc
+ * tolerance given to Clipper. Clipper spaces the arc's vertices by the angle whose chord has
+ * that tolerance as its sagitta, but rounds the number of steps to the nearest whole number
+ * and ends on the arc's true end, so the last chord may span up to 1.5 steps: its sagitta is
+ * then at most 1.5² = 2.25 times the tolerance (read in clipper-lib's ClipperOffset.DoRound;
+ * measured in the tests).
+ */
+export const ARC_CHORD_FACTOR = 2.25
+
 type IntPath = ClipperNs.Path
 
 function toInt(poly: Point[]): IntPath {
@@ -53,7 +63,7 @@ function offsetPaths(paths: IntPath[], deltaMm: number, arcToleranceMm: number):
  * film around a piece, and into each hole), with round joins: the set of points within
  * `deltaMm` of the region, which is the path a beam's centre must follow for its edge to
  * trace the region. Round corners are chords whose vertices lie on the true arc, at most
- * `arcToleranceMm` inside it. Outer boundaries and holes come back with opposite orientation.
+ * ARC_CHORD_FACTOR × `arcToleranceMm` inside it. Outer boundaries and holes come back with opposite orientation.
  */
 export function offsetRegion(polygons: Point[][], deltaMm: number, arcToleranceMm: number): Point[][] {
   return offsetPaths(evenOddRegion(polygons), deltaMm, arcToleranceMm)

@@ -8,7 +8,8 @@
 // by half the kerf around pieces and inwards into holes: the set of points within kerf / 2 of
 // the inked region (a polygon offset with round joins, the shape a round beam spot sweeps).
 // The offset is made on the outline flattened within the file tolerance (0.05 mm) and its
-// round corners are chords within KERF_ARC_TOLERANCE_MM of the true arc. Kerf 0 leaves the
+// round corners are chords whose vertices lie on the true arc and whose middles stray at most
+// ARC_CHORD_FACTOR × KERF_ARC_TOLERANCE_MM (0.011 mm) inside it (see clipper.ts). Kerf 0 leaves the
 // drawn curves exactly as they are (the SVG keeps its Bézier curves).
 //
 // Consequences worth knowing: a hole narrower than the kerf closes (the beam takes it out
@@ -24,7 +25,7 @@
 import { offsetRegion, signedArea } from './clipper'
 import { FLATTEN_TOLERANCE_MM, flattenCurve, formatMm, round2, type CutCurve, type Point } from './path'
 
-/** Largest chord error of the kerf offset's round corners, mm. */
+/** Arc tolerance given to Clipper for the kerf offset's round corners, mm. */
 export const KERF_ARC_TOLERANCE_MM = 0.005
 /** Widest kerf accepted, mm (diode lasers cut about 0.1–0.3 mm wide: common practice). */
 export const MAX_KERF_MM = 2

@@ -108,6 +108,10 @@ export const ADVANCE_EM = 0.6
 /** Room kept below the baseline for descenders, in cap heights (about 0.2 em: from memory). */
 export const DESCENT_CAPS = 0.3
 
+/** Millimetres to whole hundredths, rounded up (sizes, gaps, margins) or down (the sheet). */
+const up = (v: number) => Math.ceil(v * 100 - 1e-6)
+const down = (v: number) => Math.floor(v * 100 + 1e-6)
+
 const LABEL_PATTERN = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,23}$/
 const MAX_BATCH_COPIES = 10_000
 
@@ -153,8 +157,9 @@ function settingsOf(input: PackInput): Settings {
     if (typeof v !== 'number' || !Number.isFinite(v) || v < 0) throw new RangeError(`${name} must be zero or a positive number of millimetres (got ${String(v)}).`)
     return v
   }
-  const gap = nonNegative('The gap', input.gapMm)
-  const margin = nonNegative('The margin', input.marginMm)
+  // On the 0.01 mm grid of the files, rounded up so that neither ever shrinks.
+  const gap = up(nonNegative('The gap', input.gapMm)) / 100
+  const margin = up(nonNegative('The margin', input.marginMm)) / 100
   const frame = nonNegative("The weeding frame's offset", input.weedingFrameMm ?? 0)
   const allowTurn = input.allowTurn ?? true
   if (typeof allowTurn !== 'boolean') throw new RangeError('allowTurn must be true or false.')
@@ -194,10 +199,12 @@ function slotSpecs(input: PackInput, s: Settings): SlotSpec[] {
     const boxH = positiveMm(`Design ${id}'s height`, d.heightMm) + s.kerf
     const text = s.labelMode === 'text'
     const labelWidth = text ? Math.max(...labels.map((l) => labelWidthMm(l, s.labelHeight))) : 0
+    // Slots are whole hundredths of a millimetre (rounded up), so every placement, and every
+    // copy's transform, lands on the 0.01 mm grid of the files without moving.
     return {
       designId: id, boxW, boxH, frame: s.frame, labels, labelWidth,
-      width: Math.max(boxW + 2 * s.frame, labelWidth),
-      height: boxH + 2 * s.frame + (text ? s.labelGap + s.labelHeight * (1 + DESCENT_CAPS) : 0),
+      width: up(Math.max(boxW + 2 * s.frame, labelWidth)) / 100,
+      height: up(boxH + 2 * s.frame + (text ? s.labelGap + s.labelHeight * (1 + DESCENT_CAPS) : 0)) / 100,
     }
   })
 }
@@ -234,11 +241,9 @@ function gridPlacements(spec: SlotSpec, s: Settings): SlotPlacement[] | null {
     sheetWidthMm: s.W, sheetHeightMm: s.H, gapMm: s.gap, marginMm: s.margin, allowTurn: s.allowTurn,
   })
   if (!layout.fits) return null
-  return layout.placements.map((p, index) => ({ spec, index, sheet: p.sheet, x: p.x, y: p.y, turned: p.turned }))
+  // Sums of hundredths: round away the floating-point dust.
+  return layout.placements.map((p, index) => ({ spec, index, sheet: p.sheet, x: Math.round(p.x * 100) / 100, y: Math.round(p.y * 100) / 100, turned: p.turned }))
 }
-
-const up = (v: number) => Math.ceil(v * 100 - 1e-6)
-const down = (v: number) => Math.floor(v * 100 + 1e-6)
 
 interface PackerItem { spec: SlotSpec, index: number }
 

@@ -9,10 +9,11 @@
 // rectangle. Clearance is measured between centre lines of the cuts, as the files draw them.
 //
 // Guarantee: each keep-out zone is the outline grown by clearance + KEEP_OUT_SLACK_MM with
-// round joins whose chords stray at most WEEDING_ARC_TOLERANCE_MM inside the true arc, and the
-// files round vertices to the 0.01 mm grid (≤ 0.005 mm along a straight line's own direction),
-// so every point of every weeding line is at least `clearanceMm` from every cut of a copy.
-import { clipLinesOutside, grownOutline } from './clipper'
+// round joins whose chords stray at most ARC_CHORD_FACTOR × WEEDING_ARC_TOLERANCE_MM inside
+// the true arc (see clipper.ts), and the files round vertices to the 0.01 mm grid (≤ 0.005 mm
+// along a straight line's own direction), so every point of every weeding line is at least
+// `clearanceMm` from every cut of a copy.
+import { ARC_CHORD_FACTOR, clipLinesOutside, grownOutline } from './clipper'
 import type { PreparedDesign } from './design'
 import { positiveMm } from './design'
 import type { Point } from './path'
@@ -27,9 +28,9 @@ export interface WeedingLineOptions {
   minLengthMm?: number
 }
 
-export const WEEDING_ARC_TOLERANCE_MM = 0.02
+export const WEEDING_ARC_TOLERANCE_MM = 0.01
 /** Covers the arc chords and the 0.01 mm grid of the files. */
-export const KEEP_OUT_SLACK_MM = WEEDING_ARC_TOLERANCE_MM + 0.01
+export const KEEP_OUT_SLACK_MM = ARC_CHORD_FACTOR * WEEDING_ARC_TOLERANCE_MM + 0.01
 export const DEFAULT_MIN_WEEDING_LENGTH_MM = 2
 
 export function checkWeedingOptions(o: WeedingLineOptions): Required<WeedingLineOptions> {
