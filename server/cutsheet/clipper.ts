@@ -81,13 +81,3 @@ export function grownOutline(polygons: Point[][], deltaMm: number, arcToleranceM
   c.Execute(ClipperLib.ClipType.ctUnion, filled, ClipperLib.PolyFillType.pftNonZero, ClipperLib.PolyFillType.pftNonZero)
   return offsetPaths(filled, deltaMm, arcToleranceMm)
 }
-
-/** The parts of the open polylines `lines` outside every closed polygon of `keepOut` (non-zero fill). */
-export function clipLinesOutside(lines: Point[][], keepOut: Point[][]): Point[][] {
-  const c = new ClipperLib.Clipper()
-  for (const l of lines) c.AddPath(toInt(l), ClipperLib.PolyType.ptSubject, false)
-  c.AddPaths(keepOut.map(toInt), ClipperLib.PolyType.ptClip, true)
-  const tree = new ClipperLib.PolyTree()
-  c.Execute(ClipperLib.ClipType.ctDifference, tree, ClipperLib.PolyFillType.pftNonZero, ClipperLib.PolyFillType.pftNonZero)
-  return ClipperLib.Clipper.OpenPathsFromPolyTree(tree).map(toMm)
-}

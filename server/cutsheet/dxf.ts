@@ -46,27 +46,102 @@ export interface CutSheetDxfInput extends CutSheetInput {
 
 const EOL = '\r\n'
 
-/** A whole number of hundredths of a millimetre as a decimal, without trailing zeros. */
-function hundredths(v: number): string {
-  if (v < 0) return '-' + hundredths(-v)
-  const i = Math.floor(v / 100), r = v - i * 100
-  if (r === 0) return String(i)
-  return r % 10 === 0 ? `${i}.${r / 10}` : `${i}.${r < 10 ? '0' : ''}${r}`
+const toH = (mm: number) => Math.round(mm * 100)
+
+/**
+ * The file is ASCII, written byte by byte into a growing buffer: a 200-copy sheet of a
+ * detailed drawing has hundreds of thousands of vertices, and joining that many short strings
+ * costs far more than writing their bytes.
+ */
+class AsciiWriter {
+  private buf: Uint8Array
+  private pos = 0
+
+  constructor(expectedBytes: number) {
+    this.buf = new Uint8Array(Math.max(1 << 16, expectedBytes))
+  }
+
+  /** Makes room for n more bytes and hands out the buffer and position, for a caller that writes them itself. */
+  reserve(n: number): { buf: Uint8Array, pos: number } {
+    this.room(n)
+    return { buf: this.buf, pos: this.pos }
+  }
+
+  /** Moves past bytes a caller wrote after reserve(). */
+  advance(to: number): void {
+    this.pos = to
+  }
+
+  private room(n: number): void {
+    if (this.pos + n <= this.buf.length) return
+    let size = this.buf.length * 2
+    while (size < this.pos + n) size *= 2
+    const next = new Uint8Array(size)
+    next.set(this.buf.subarray(0, this.pos))
+    this.buf = next
+  }
+
+  /** ASCII text only (our entity names, layers and numbers; labels are letters, digits, '.', '-', '_'). */
+  text(s: string): void {
+    this.room(s.length)
+    for (let i = 0; i < s.length; i++) this.buf[this.pos++] = s.charCodeAt(i) & 0x7f
+  }
+
+  bytes(): Uint8Array {
+    return this.buf.subarray(0, this.pos)
+  }
 }
 
-const toH = (mm: number) => Math.round(mm * 100)
+/** Writes a whole number of hundredths as a decimal without trailing zeros, then CR LF; returns the new position. */
+function putHundredths(buf: Uint8Array, p: number, v: number): number {
+  if (v < 0) { buf[p++] = 45; v = -v } // '-'
+  let whole = Math.floor(v / 100)
+  const frac = v - whole * 100
+  if (whole === 0) buf[p++] = 48
+  else {
+    // Digits from the last backwards, into the places the number will take.
+    const n = whole < 10 ? 1 : whole < 100 ? 2 : whole < 1000 ? 3 : whole < 10_000 ? 4 : whole < 100_000 ? 5 : whole < 1_000_000 ? 6 : 7
+    for (let q = p + n - 1; whole > 0; q--) {
+      const tenth = Math.floor(whole / 10)
+      buf[q] = 48 + whole - tenth * 10
+      whole = tenth
+    }
+    p += n
+  }
+  if (frac !== 0) {
+    const tens = Math.floor(frac / 10), units = frac - tens * 10
+    buf[p++] = 46 // '.'
+    buf[p++] = 48 + tens
+    if (units !== 0) buf[p++] = 48 + units
+  }
+  buf[p++] = 13
+  buf[p++] = 10
+  return p
+}
+
+function put(buf: Uint8Array, p: number, b: Uint8Array): number {
+  // A loop beats TypedArray.set for the short pieces written per vertex.
+  for (let i = 0; i < b.length; i++) buf[p++] = b[i]!
+  return p
+}
+
+const ascii = (s: string) => Uint8Array.from(s, (c) => c.charCodeAt(0))
 
 function unitEntry(v: number): number {
   if (v !== 0 && v !== 1 && v !== -1) throw new RangeError('Copies must be placed by quarter turns, mirror and translation only.')
   return v
 }
 
-/** One sheet's DXF document from its plan. */
-export function writeSheetDxf(plan: SheetPlan): string {
+/** One sheet's DXF document from its plan, as ASCII bytes. */
+export function writeSheetDxfBytes(plan: SheetPlan): Uint8Array {
   const H = toH(plan.heightMm)
-  const y = (mm: number) => hundredths(H - toH(mm))
-  let out = ''
-  const g = (code: number, value: string | number) => { out += `${code}${EOL}${value}${EOL}` }
+  const y = (mm: number) => formatMm((H - toH(mm)) / 100)
+  // Sized once for the most a vertex can take (see below), so the buffer never has to grow.
+  const vertexCount = new Map(plan.designs.map((d) => [d.id, d.polygons.reduce((n, p) => n + p.length / 2, 0)]))
+  const polygonCount = new Map(plan.designs.map((d) => [d.id, d.polygons.length]))
+  const w = new AsciiWriter(4096 + 200 * plan.texts.length + 120 * plan.weedingLines.length + 300 * plan.frames.length
+    + plan.copies.reduce((n, c) => n + 64 * (vertexCount.get(c.designId) ?? 0) + 128 * (polygonCount.get(c.designId) ?? 0), 0))
+  const g = (code: number, value: string | number) => { w.text(`${code}${EOL}${value}${EOL}`) }
   g(0, 'SECTION'); g(2, 'HEADER')
   g(9, '$ACADVER'); g(1, 'AC1009')
   g(9, '$INSUNITS'); g(70, 4)
@@ -95,9 +170,11 @@ export function writeSheetDxf(plan: SheetPlan): string {
   }
 
   const designs = new Map(plan.designs.map((d) => [d.id, d]))
-  const head = `0${EOL}POLYLINE${EOL}8${EOL}${DXF_CUT_LAYER}${EOL}66${EOL}1${EOL}10${EOL}0${EOL}20${EOL}0${EOL}30${EOL}0${EOL}70${EOL}1${EOL}`
-  const vertex = `0${EOL}VERTEX${EOL}8${EOL}${DXF_CUT_LAYER}${EOL}10${EOL}`
-  const seqend = `0${EOL}SEQEND${EOL}8${EOL}${DXF_CUT_LAYER}${EOL}`
+  const head = ascii(`0${EOL}POLYLINE${EOL}8${EOL}${DXF_CUT_LAYER}${EOL}66${EOL}1${EOL}10${EOL}0${EOL}20${EOL}0${EOL}30${EOL}0${EOL}70${EOL}1${EOL}`)
+  const vertex = ascii(`0${EOL}VERTEX${EOL}8${EOL}${DXF_CUT_LAYER}${EOL}10${EOL}`)
+  const code20 = ascii(`20${EOL}`)
+  const z = ascii(`30${EOL}0${EOL}`)
+  const seqend = ascii(`0${EOL}SEQEND${EOL}8${EOL}${DXF_CUT_LAYER}${EOL}`)
   for (const copy of plan.copies) {
     const design = designs.get(copy.designId)
     if (!design) throw new RangeError(`Copy ${copy.id} names design ${copy.designId}, which is not on the sheet.`)
@@ -105,19 +182,32 @@ export function writeSheetDxf(plan: SheetPlan): string {
     const a = unitEntry(t.a), b = unitEntry(t.b), c = unitEntry(t.c), d = unitEntry(t.d)
     const e = toH(t.e), f = H - toH(t.f)
     for (const poly of design.polygons) {
-      out += head
+      // Each vertex takes at most 24 + 2 × 12 + 10 bytes; reserve the polyline's worth at once.
+      const r = w.reserve(head.length + seqend.length + (poly.length / 2) * 64)
+      const buf = r.buf
+      let p = put(buf, r.pos, head)
       for (let i = 0; i < poly.length; i += 2) {
         const px = poly[i]!, py = poly[i + 1]!
-        out += `${vertex}${hundredths(a * px + c * py + e)}${EOL}20${EOL}${hundredths(f - (b * px + d * py))}${EOL}30${EOL}0${EOL}`
+        p = put(buf, p, vertex)
+        p = putHundredths(buf, p, a * px + c * py + e)
+        p = put(buf, p, code20)
+        p = putHundredths(buf, p, f - (b * px + d * py))
+        p = put(buf, p, z)
       }
-      out += seqend
+      w.advance(put(buf, p, seqend))
     }
   }
 
   for (const fr of plan.frames) closedPolyline(g, DXF_FRAME_LAYER, rectPoints(fr.rect), y)
   g(0, 'ENDSEC')
   g(0, 'EOF')
-  return out
+  return w.bytes()
+}
+
+/** One sheet's DXF document from its plan. */
+export function writeSheetDxf(plan: SheetPlan): string {
+  const b = writeSheetDxfBytes(plan)
+  return Buffer.from(b.buffer, b.byteOffset, b.length).toString('latin1')
 }
 
 function closedPolyline(g: (code: number, value: string | number) => void, layer: string, points: Point[], y: (mm: number) => string): void {

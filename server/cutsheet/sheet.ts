@@ -58,6 +58,9 @@ export interface BatchSheets {
   kerfMm: number
 }
 
+export type PlannedSheet = Omit<BuiltSheet, 'svg' | 'dxf'> & { plan: SheetPlan }
+export type PlannedSheets = Omit<BatchSheets, 'sheets'> & { sheets: PlannedSheet[] }
+
 /** The transform taking design coordinates onto its box on the sheet (see place.ts for the order). */
 export function boxTransform(design: PreparedDesign, box: Rect, turned: boolean, mirror: boolean): Affine {
   const { x0, y0, x1, y1 } = design.box
@@ -97,10 +100,10 @@ function sheetNotes(n: number, of: number, copies: number, designs: number, inpu
 }
 
 /**
- * Packs and writes a batch's cut sheets. Throws RangeError for input that would give a wrong
- * file or for copies that do not fit, with the reason.
+ * Packs a batch and works out every sheet's plan (what its files will say). Throws RangeError
+ * for input that would give a wrong file or for copies that do not fit, with the reason.
  */
-export function buildCutSheets(input: BatchSheetInput): BatchSheets {
+export function planCutSheets(input: BatchSheetInput): PlannedSheets {
   const packed = packBatch(input)
   if (!packed.fits) throw new RangeError(packed.reason ?? 'The batch does not fit on the sheet.')
   const kerf = input.kerfMm ?? 0
@@ -114,9 +117,8 @@ export function buildCutSheets(input: BatchSheetInput): BatchSheets {
   const keepOuts = new Map<string, Point[][]>()
   if (weeding) for (const [id, d] of prepared) keepOuts.set(id, designKeepOut(d, weeding.clearanceMm))
   const capHeight = input.labels?.heightMm ?? LABEL_DEFAULT_HEIGHT_MM
-  const formats = { svg: input.formats?.svg ?? true, dxf: input.formats?.dxf ?? true }
 
-  const sheets: BuiltSheet[] = packed.perSheet.map((usage) => {
+  const sheets: PlannedSheet[] = packed.perSheet.map((usage) => {
     const on = packed.copies.filter((c) => c.sheet === usage.sheet)
     const copies: PlanCopy[] = on.map((c) => ({ id: c.label, designId: c.designId, transform: boxTransform(prepared.get(c.designId)!, c.box, c.turned, mirror) }))
     const frames = on.flatMap((c) => (c.frame ? [{ id: c.label, rect: c.frame }] : []))
@@ -143,9 +145,22 @@ export function buildCutSheets(input: BatchSheetInput): BatchSheets {
       copiesOnSheet: on.map((c) => ({ label: c.label, designId: c.designId, turned: c.turned, box: c.box })),
       weedingLineCount: lines.length,
       weedingLengthMm: lines.reduce((s, l) => s + Math.hypot(l[1]!.x - l[0]!.x, l[1]!.y - l[0]!.y), 0),
-      ...(formats.svg ? { svg: writeSheetSvg(plan) } : {}),
-      ...(formats.dxf ? { dxf: writeSheetDxf(plan) } : {}),
+      plan,
     }
   })
   return { method: packed.method, sheets, usagePercent: packed.usagePercent, kerfMm: kerf }
+}
+
+/** Packs and writes a batch's cut sheets, SVG and DXF as text (see planCutSheets for what it refuses). */
+export function buildCutSheets(input: BatchSheetInput): BatchSheets {
+  const planned = planCutSheets(input)
+  const formats = { svg: input.formats?.svg ?? true, dxf: input.formats?.dxf ?? true }
+  return {
+    ...planned,
+    sheets: planned.sheets.map(({ plan, ...sheet }) => ({
+      ...sheet,
+      ...(formats.svg ? { svg: writeSheetSvg(plan) } : {}),
+      ...(formats.dxf ? { dxf: writeSheetDxf(plan) } : {}),
+    })),
+  }
 }

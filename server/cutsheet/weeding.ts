@@ -3,6 +3,10 @@
 //
 // The lines are a grid across the usable part of the sheet (inside the margin), no more than
 // `spacingMm` apart, with every part that comes within `clearanceMm` of a copy removed. The
+// keep-out zones are grown with Clipper (clipper.ts), once per design; each grid line is then
+// cut where it crosses a zone's rings, an exact scanline intersection that stays quick for
+// hundreds of copies of a detailed drawing. Every ring's inside is kept out, a hole in a zone
+// (waste enclosed by the zone) too: that only ever errs on the safe side. The
 // keep-out zone around a copy follows its outline (holes filled in: a hole's waste comes out
 // with the piece's weeding), so lines also run into the large waste areas of a concave design
 // and over the unused part of a sheet; around a weeding frame or a label it is their
@@ -13,7 +17,7 @@
 // the true arc (see clipper.ts), and the files round vertices to the 0.01 mm grid (≤ 0.005 mm
 // along a straight line's own direction), so every point of every weeding line is at least
 // `clearanceMm` from every cut of a copy.
-import { ARC_CHORD_FACTOR, clipLinesOutside, grownOutline } from './clipper'
+import { ARC_CHORD_FACTOR, grownOutline } from './clipper'
 import type { PreparedDesign } from './design'
 import { positiveMm } from './design'
 import type { Point } from './path'
@@ -62,27 +66,75 @@ function linePositions(a: number, b: number, spacing: number): number[] {
   return out
 }
 
+interface Ring { pts: Point[], x0: number, y0: number, x1: number, y1: number }
+
+function ringOf(pts: Point[]): Ring {
+  let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity
+  for (const p of pts) {
+    if (p.x < x0) x0 = p.x
+    if (p.x > x1) x1 = p.x
+    if (p.y < y0) y0 = p.y
+    if (p.y > y1) y1 = p.y
+  }
+  return { pts, x0, y0, x1, y1 }
+}
+
 /**
- * The weeding lines of one sheet: straight pieces of the grid outside every keep-out zone,
- * each at least `minLengthMm` long, as two-point polylines in sheet mm (y down).
+ * Where the line u = c (u the x or the y coordinate) crosses the ring, as the other
+ * coordinate; an edge counts when its ends lie on opposite sides, one end on the line counting
+ * as above it (so a vertex on the line is counted once).
+ */
+function crossings(ring: Point[], c: number, vertical: boolean, out: number[]): void {
+  const n = ring.length
+  for (let i = 0, j = n - 1; i < n; j = i++) {
+    const a = ring[j]!, b = ring[i]!
+    const au = vertical ? a.x : a.y, bu = vertical ? b.x : b.y
+    if ((au <= c) === (bu <= c)) continue
+    const av = vertical ? a.y : a.x, bv = vertical ? b.y : b.x
+    out.push(av + ((c - au) * (bv - av)) / (bu - au))
+  }
+}
+
+/** The pieces of the segment from..to on the line u = c outside every zone, as [start, end] pairs. */
+function freePieces(rings: Ring[], c: number, vertical: boolean, from: number, to: number): [number, number][] {
+  const blocked: [number, number][] = []
+  const xs: number[] = []
+  for (const r of rings) {
+    if (vertical ? c < r.x0 || c > r.x1 : c < r.y0 || c > r.y1) continue
+    xs.length = 0
+    crossings(r.pts, c, vertical, xs)
+    xs.sort((p, q) => p - q)
+    for (let i = 0; i + 1 < xs.length; i += 2) blocked.push([xs[i]!, xs[i + 1]!])
+  }
+  blocked.sort((p, q) => p[0] - q[0])
+  const free: [number, number][] = []
+  let at = from
+  for (const [s, e] of blocked) {
+    if (s > at) free.push([at, Math.min(s, to)])
+    at = Math.max(at, e)
+    if (at >= to) break
+  }
+  if (at < to) free.push([at, to])
+  return free.filter(([s, e]) => e > s)
+}
+
+/**
+ * The weeding lines of one sheet: straight pieces of the grid outside every keep-out ring
+ * (closed rings in sheet mm, which may overlap), each at least `minLengthMm` long, as two-point polylines in sheet mm (y down),
+ * top to bottom, then left to right.
  */
 export function weedingLines(sheet: { widthMm: number, heightMm: number, marginMm: number }, keepOut: Point[][], options: WeedingLineOptions): Point[][] {
   const o = checkWeedingOptions(options)
   const { widthMm: W, heightMm: H, marginMm: m } = sheet
   const x0 = m, x1 = W - m, y0 = m, y1 = H - m
   if (!(x1 > x0 && y1 > y0)) return []
-  const lines: Point[][] = [
-    ...linePositions(x0, x1, o.spacingMm).map((x) => [{ x, y: y0 }, { x, y: y1 }]),
-    ...linePositions(y0, y1, o.spacingMm).map((y) => [{ x: x0, y }, { x: x1, y }]),
-  ]
-  if (lines.length === 0) return []
-  const pieces = keepOut.length ? clipLinesOutside(lines, keepOut) : lines
-  return pieces
-    .filter((p) => p.length >= 2 && Math.hypot(p[p.length - 1]!.x - p[0]!.x, p[p.length - 1]!.y - p[0]!.y) >= o.minLengthMm)
-    .map((p) => {
-      // Straight pieces of axis-parallel lines: keep the ends, ordered left to right / top to bottom.
-      const a = p[0]!, b = p[p.length - 1]!
-      return a.x < b.x || (a.x === b.x && a.y < b.y) ? [a, b] : [b, a]
-    })
-    .sort((p, q) => p[0]!.y - q[0]!.y || p[0]!.x - q[0]!.x || p[1]!.y - q[1]!.y)
+  const rings = keepOut.filter((r) => r.length >= 3).map(ringOf)
+  const out: Point[][] = []
+  for (const x of linePositions(x0, x1, o.spacingMm)) {
+    for (const [a, b] of freePieces(rings, x, true, y0, y1)) if (b - a >= o.minLengthMm) out.push([{ x, y: a }, { x, y: b }])
+  }
+  for (const y of linePositions(y0, y1, o.spacingMm)) {
+    for (const [a, b] of freePieces(rings, y, false, x0, x1)) if (b - a >= o.minLengthMm) out.push([{ x: a, y }, { x: b, y }])
+  }
+  return out.sort((p, q) => p[0]!.y - q[0]!.y || p[0]!.x - q[0]!.x || p[1]!.y - q[1]!.y)
 }
