@@ -20,8 +20,9 @@
 // around it is still held (common practice: inner cuts first).
 //
 // The design's box: its drawn box (0…width × 0…height, in its own coordinates) grown by half
-// the kerf on every side, which holds the compensated cut path. Packing, gaps, margins,
-// weeding frames and labels are all measured from this box.
+// the kerf on every side, which holds the compensated cut path (grown further in the rare case
+// of an outline reaching past the drawn box). Packing, gaps, margins, weeding frames and
+// labels are all measured from this box.
 import { offsetRegion, signedArea } from './clipper'
 import { FLATTEN_TOLERANCE_MM, flattenCurve, formatMm, round2, type CutCurve, type Point } from './path'
 
@@ -46,7 +47,7 @@ export interface PreparedDesign {
   widthMm: number
   heightMm: number
   kerfMm: number
-  /** The drawn box grown by kerf / 2, in the design's own coordinates. */
+  /** The drawn box grown by kerf / 2 (and to hold the whole cut path), in the design's own coordinates. */
   box: Box
   /** Path data of the cut path in the design's own coordinates (0.01 mm grid), cut order. */
   pathData: string
@@ -162,18 +163,25 @@ export function prepareDesign(source: DesignSource, kerfMm: number, toleranceMm 
     pathData = polygons.map(polygonPathData).join('')
   }
   if (polygons.length === 0) throw new RangeError(`Design ${id} has nothing left to cut.`)
+  // The box holds the drawn box grown by half the kerf and, should the outline reach past the
+  // drawn box (a curve bulging over the bitmap's edge), the outline too; without kerf the SVG
+  // keeps the curves, which may stray up to the chord tolerance beyond their flattened points.
   const half = kerf / 2
-  const box: Box = { x0: -half, y0: -half, x1: w + half, y1: h + half }
-  // The cut path must lie in the box, or gaps and margins measured from the box would lie.
-  // A flattened curve stays within the drawn box when the curve does; allow the file grid.
-  const slack = 0.011
+  const pad = kerf === 0 ? toleranceMm : 0
+  let bx0 = Infinity, by0 = Infinity, bx1 = -Infinity, by1 = -Infinity
   for (const p of polygons) {
     for (let i = 0; i < p.length; i += 2) {
       const x = p[i]! / 100, y = p[i + 1]! / 100
-      if (x < box.x0 - slack || x > box.x1 + slack || y < box.y0 - slack || y > box.y1 + slack) {
-        throw new RangeError(`Design ${id}'s outline reaches outside its ${formatMm(w)} × ${formatMm(h)} mm box (at ${formatMm(x)}, ${formatMm(y)}).`)
-      }
+      if (x < bx0) bx0 = x
+      if (x > bx1) bx1 = x
+      if (y < by0) by0 = y
+      if (y > by1) by1 = y
     }
+  }
+  const low = half === 0 ? 0 : -half // not −0
+  const box: Box = {
+    x0: bx0 < low ? bx0 - pad : low, y0: by0 < low ? by0 - pad : low,
+    x1: bx1 > w + half ? bx1 + pad : w + half, y1: by1 > h + half ? by1 + pad : h + half,
   }
   return { id, widthMm: w, heightMm: h, kerfMm: kerf, box, pathData, polygons, polygonsMm: polygons.map(hundredthsToMm) }
 }

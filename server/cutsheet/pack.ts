@@ -46,6 +46,11 @@ export interface PackDesign {
   count: number
   /** One label per copy (e.g. "J12-3"), unique over the batch; default `${id}-${n}`. */
   labels?: string[]
+  /**
+   * The design's box in its own coordinates, when its cut path reaches past the drawn box
+   * grown by half the kerf (prepareDesign works it out); default −kerf/2 … size + kerf/2.
+   */
+  extentMm?: { x0: number, y0: number, x1: number, y1: number }
 }
 
 export interface PackInput {
@@ -128,6 +133,8 @@ export function checkLabel(label: unknown): string {
 
 interface SlotSpec {
   designId: string
+  /** Width × height as drawn, for film usage. */
+  drawnArea: number
   boxW: number
   boxH: number
   frame: number
@@ -195,14 +202,16 @@ function slotSpecs(input: PackInput, s: Settings): SlotSpec[] {
       if (seen.has(l)) throw new RangeError(`The label ${l} is given to two copies; labels must tell copies apart.`)
       seen.add(l)
     }
-    const boxW = positiveMm(`Design ${id}'s width`, d.widthMm) + s.kerf
-    const boxH = positiveMm(`Design ${id}'s height`, d.heightMm) + s.kerf
+    const w = positiveMm(`Design ${id}'s width`, d.widthMm), h = positiveMm(`Design ${id}'s height`, d.heightMm)
+    const e = d.extentMm
+    const boxW = e ? Math.max(e.x1 - e.x0, w + s.kerf) : w + s.kerf
+    const boxH = e ? Math.max(e.y1 - e.y0, h + s.kerf) : h + s.kerf
     const text = s.labelMode === 'text'
     const labelWidth = text ? Math.max(...labels.map((l) => labelWidthMm(l, s.labelHeight))) : 0
     // Slots are whole hundredths of a millimetre (rounded up), so every placement, and every
     // copy's transform, lands on the 0.01 mm grid of the files without moving.
     return {
-      designId: id, boxW, boxH, frame: s.frame, labels, labelWidth,
+      designId: id, drawnArea: w * h, boxW, boxH, frame: s.frame, labels, labelWidth,
       width: up(Math.max(boxW + 2 * s.frame, labelWidth)) / 100,
       height: up(boxH + 2 * s.frame + (text ? s.labelGap + s.labelHeight * (1 + DESCENT_CAPS) : 0)) / 100,
     }
@@ -311,12 +320,12 @@ export function packBatch(input: PackInput): PackResult {
   const placements = [...best.placements].sort((a, b) => a.sheet - b.sheet || a.y - b.y || a.x - b.x)
   const copies = placements.map((p) => describe(p, s))
   const sheets = counts(placements).length
-  const drawnArea = (c: PackedCopy) => (c.box.width - s.kerf) * (c.box.height - s.kerf)
+  const area = (ps: SlotPlacement[]) => ps.reduce((a, p) => a + p.spec.drawnArea, 0)
   const perSheet: SheetUsage[] = []
   for (let n = 1; n <= sheets; n++) {
-    const on = copies.filter((c) => c.sheet === n)
-    perSheet.push({ sheet: n, copies: on.length, usagePercent: on.reduce((a, c) => a + drawnArea(c), 0) / (s.W * s.H) * 100 })
+    const on = placements.filter((p) => p.sheet === n)
+    perSheet.push({ sheet: n, copies: on.length, usagePercent: area(on) / (s.W * s.H) * 100 })
   }
-  const usagePercent = copies.reduce((a, c) => a + drawnArea(c), 0) / (sheets * s.W * s.H) * 100
+  const usagePercent = area(placements) / (sheets * s.W * s.H) * 100
   return { fits: true, method: best.method, sheets, copies, perSheet, usagePercent }
 }

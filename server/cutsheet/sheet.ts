@@ -4,7 +4,7 @@
 //
 // Plain data in, plain data out (strings and numbers, no class instances or functions), so
 // buildCutSheets can run unchanged in a worker thread.
-import { prepareDesign, type PreparedDesign } from './design'
+import { checkKerf, prepareDesign, type PreparedDesign } from './design'
 import { writeSheetDxf } from './dxf'
 import type { PlanText, PlanCopy, SheetPlan } from './plan'
 import { packBatch, DESCENT_CAPS, LABEL_DEFAULT_HEIGHT_MM, type PackDesign, type PackInput, type PackedCopy, type SheetUsage } from './pack'
@@ -104,15 +104,17 @@ function sheetNotes(n: number, of: number, copies: number, designs: number, inpu
  * for input that would give a wrong file or for copies that do not fit, with the reason.
  */
 export function planCutSheets(input: BatchSheetInput): PlannedSheets {
-  const packed = packBatch(input)
-  if (!packed.fits) throw new RangeError(packed.reason ?? 'The batch does not fit on the sheet.')
-  const kerf = input.kerfMm ?? 0
+  const kerf = checkKerf(input.kerfMm ?? 0)
   const mirror = input.mirror ?? false
   if (typeof mirror !== 'boolean') throw new RangeError('mirror must be true or false.')
   const stroke = input.strokeMm ?? HAIRLINE_MM
   if (typeof stroke !== 'number' || !Number.isFinite(stroke) || stroke <= 0) throw new RangeError('The stroke width must be a positive number of millimetres.')
+  if (!Array.isArray(input.designs) || input.designs.length === 0) throw new RangeError('A batch needs at least one design.')
   const prepared = new Map<string, PreparedDesign>()
   for (const d of input.designs) prepared.set(d.id, prepareDesign({ id: d.id, curves: d.curves, widthMm: d.widthMm, heightMm: d.heightMm }, kerf, input.toleranceMm))
+  // Packed by the prepared boxes, which hold the whole cut path.
+  const packed = packBatch({ ...input, designs: input.designs.map(({ curves: _curves, ...d }) => ({ ...d, extentMm: prepared.get(d.id)!.box })) })
+  if (!packed.fits) throw new RangeError(packed.reason ?? 'The batch does not fit on the sheet.')
   const weeding = input.weedingLines ?? null
   const keepOuts = new Map<string, Point[][]>()
   if (weeding) for (const [id, d] of prepared) keepOuts.set(id, designKeepOut(d, weeding.clearanceMm))

@@ -156,8 +156,8 @@ export function testGrid(input: TestGridInput): TestGrid {
       const label = labelOf(r, c)
       const box = { x, y, width: s, height: s }
       squares.push({ label, row: r, column: c, powerPercent: power, speedMmS: speed, box })
-      const half = kerf / 2
-      copies.push({ id: label, designId: design.id, transform: boxTransform(design, { x: x - half, y: y - half, width: s + kerf, height: s + kerf }, false, mirror) })
+      const b = design.box // the square's box in its own coordinates: −kerf/2 … s + kerf/2
+      copies.push({ id: label, designId: design.id, transform: boxTransform(design, { x: x + b.x0, y: y + b.y0, width: b.x1 - b.x0, height: b.y1 - b.y0 }, false, mirror) })
       texts.push(text(label, label, x, grid(y + s + lg + h), h))
     })
   })

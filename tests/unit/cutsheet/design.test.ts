@@ -109,6 +109,22 @@ print(json.dumps({"hausdorff": cut.boundary.hausdorff_distance(buf.boundary), "a
     expect(d.box).toEqual({ x0: -0.1, y0: -0.1, x1: 30.1, y1: 30.1 })
   })
 
+  it('an outline reaching past its drawn box widens the box, so gaps still hold (hand-computed, DXF read back)', () => {
+    // A 22 × 20 mm bar drawn in a 20 × 20 mm box, 1 mm over each side: the box is −1 … 21,
+    // and 0.05 mm more where the outline leaves the drawn box (without kerf the SVG keeps the
+    // curves, which may bulge up to the 0.05 mm chord tolerance past their flattened points).
+    const svg = svgMm(20, 20, [rectPathData(-1, 0, 22, 20)])
+    expect(prepareDesign({ id: 'W', ...readCleanVector(svg) }, 0).box).toEqual({ x0: -1.05, y0: 0, x1: 21.05, y1: 20 })
+    const v = readCleanVector(svg)
+    const out = buildCutSheets({ designs: [{ id: 'W', ...v, count: 2 }], sheetWidthMm: 100, sheetHeightMm: 40, gapMm: 3, marginMm: 5, allowTurn: false })
+    const xs = polylines(readDxf(out.sheets[0]!.dxf!).entities, DXF_CUT_LAYER).map((p) => bbox(p.vertices)).sort((a, b) => a.x0 - b.x0)
+    // Boxes 22.1 mm wide from the 5 mm margin, 3 mm apart: 5 … 27.1 and 30.1 … 52.2; the bars
+    // sit 0.05 mm inside them: 5.05 … 27.05 and 30.15 … 52.15, 3.1 mm apart.
+    expect(xs.map((b) => [b.x0, b.x1])).toEqual([[5.05, 27.05], [30.15, 52.15]])
+    // Film usage counts the drawn size: 2 × 20 × 20 / (100 × 40) = 20 %.
+    expect(out.sheets[0]!.usagePercent).toBeCloseTo(20, 9)
+  })
+
   it('refuses a kerf that is negative, not a number or over 2 mm', () => {
     for (const k of [-0.1, Number.NaN, 2.5]) expect(() => oneCopy(SQUARE_WITH_HOLE, k)).toThrow(/kerf must be between 0 and 2 mm/)
   })

@@ -3,6 +3,7 @@
 // overlaps by polygon-clipping (npm), distances by Shapely (Debian's python3-shapely), the
 // whole file by ezdxf's auditor (python3-ezdxf).
 import polygonClipping, { type Polygon } from 'polygon-clipping'
+import sharp from 'sharp'
 import { describe, expect, it } from 'vitest'
 import { DXF_CUT_LAYER, DXF_FRAME_LAYER, DXF_LABEL_LAYER } from '../../../server/cutsheet/dxf'
 import { packBatch, type PackInput } from '../../../server/cutsheet/pack'
@@ -199,6 +200,21 @@ print(json.dumps({"min": min(Polygon(b).distance(cut) for b in data["boxes"])}))
       const { entities } = readDxf(sheet.dxf!)
       expect(a.counts.POLYLINE).toBe(polylines(entities, DXF_CUT_LAYER).length)
       expect(a.counts.TEXT).toBe(sheet.copiesOnSheet.length)
+    }
+  })
+
+  it('SVG: the sheet in mm (W3C SVG 1.1 §7.10, 1 mm per user unit), one colour, each design defined once', async () => {
+    for (const sheet of out.sheets) {
+      const svg = sheet.svg!
+      expect(svg).toMatch(/^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg"[^>]* width="300mm" height="200mm" viewBox="0 0 300 200">/)
+      // librsvg (through sharp) at 72 px per inch, 25.4 mm to the inch (CSS Values and Units 3 §5.2).
+      const meta = await sharp(Buffer.from(svg)).metadata()
+      expect([meta.width, meta.height]).toEqual([Math.round(300 / 25.4 * 72), Math.round(200 / 25.4 * 72)])
+      expect(new Set([...svg.matchAll(/(?:stroke|fill)="(#[0-9a-f]{6})"/g)].map((m) => m[1]))).toEqual(new Set(['#2f5d50']))
+      const used = new Set(sheet.copiesOnSheet.map((c) => c.designId))
+      expect(svg.match(/<path id="dw-design-/g)).toHaveLength(used.size)
+      expect(svg.match(/<use /g)).toHaveLength(sheet.copiesOnSheet.length)
+      expect(svg).toContain('cut paths compensated for a 0.2 mm kerf')
     }
   })
 
