@@ -55,7 +55,7 @@ export interface PreparedDesign {
    * The cut path as closed polygons in hundredths of a millimetre (integers), in the design's
    * own coordinates, cut order; flat [x0, y0, x1, y1, …] arrays, the first vertex not repeated.
    */
-  polygons: number[][]
+  polygons: Int32Array[]
   /** The same polygons in mm, for geometry work (weeding lines). */
   polygonsMm: Point[][]
 }
@@ -121,13 +121,13 @@ function gridPolygon(points: Point[]): number[] {
 
 const hundredths = (v: number) => formatMm(v / 100)
 
-function polygonPathData(poly: number[]): string {
+function polygonPathData(poly: Int32Array): string {
   let d = `M${hundredths(poly[0]!)} ${hundredths(poly[1]!)}`
   for (let i = 2; i < poly.length; i += 2) d += `L${hundredths(poly[i]!)} ${hundredths(poly[i + 1]!)}`
   return d + 'Z'
 }
 
-function hundredthsToMm(poly: number[]): Point[] {
+function hundredthsToMm(poly: Int32Array): Point[] {
   const out: Point[] = []
   for (let i = 0; i < poly.length; i += 2) out.push({ x: poly[i]! / 100, y: poly[i + 1]! / 100 })
   return out
@@ -152,14 +152,14 @@ export function prepareDesign(source: DesignSource, kerfMm: number, toleranceMm 
   const curves = source.curves.map(roundCurve)
   const flat = curves.map((c) => flattenCurve(c, toleranceMm))
   let pathData: string
-  let polygons: number[][]
+  let polygons: Int32Array[]
   if (kerf === 0) {
     const order = smallestFirst(flat)
     pathData = order.map((i) => curvePathData(curves[i]!)).join('')
-    polygons = order.map((i) => gridPolygon(flat[i]!)).filter((p) => p.length >= 6)
+    polygons = order.map((i) => gridPolygon(flat[i]!)).filter((p) => p.length >= 6).map((p) => Int32Array.from(p))
   } else {
     const offset = offsetRegion(flat, kerf / 2, KERF_ARC_TOLERANCE_MM)
-    polygons = smallestFirst(offset).map((i) => gridPolygon(offset[i]!)).filter((p) => p.length >= 6)
+    polygons = smallestFirst(offset).map((i) => gridPolygon(offset[i]!)).filter((p) => p.length >= 6).map((p) => Int32Array.from(p))
     pathData = polygons.map(polygonPathData).join('')
   }
   if (polygons.length === 0) throw new RangeError(`Design ${id} has nothing left to cut.`)
