@@ -10,6 +10,8 @@ try {
     { pkg: 'postgresql', present: () => !!findPostgresBin(), why: 'the database server the tests start' },
     { pkg: 'chromium', present: () => existsSync('/usr/bin/chromium'), why: 'the browser the browser tests drive' },
     { pkg: 'potrace', present: () => existsSync('/usr/bin/potrace'), why: 'the reference tracer the outline is checked against' },
+    { pkg: 'python3-shapely', present: () => existsSync('/usr/lib/python3/dist-packages/shapely'), why: 'the independent geometry library the cut sheets are measured with' },
+    { pkg: 'python3-ezdxf', present: () => existsSync('/usr/lib/python3/dist-packages/ezdxf'), why: 'the independent DXF reader and auditor the cut sheets are checked with' },
   ])
 } catch (err) {
   console.error(err instanceof ServiceError ? `\n${err.message}\n` : err)

@@ -11,7 +11,9 @@
 // turned (a mirrored copy turned is the turned copy mirrored along its other axis, the same
 // decal rotated by 180°, which makes no difference to the decal once applied).
 import type { CopyPlacement, SheetLayout } from '../../shared/utils/sheet-layout'
-import { round2, type CutCurve, type Point } from './path'
+import { prepareDesign } from './design'
+import { formatMm, round2, type CutCurve, type Point } from './path'
+import type { SheetPlan } from './plan'
 
 /** x′ = a·x + c·y + e, y′ = b·x + d·y + f (the order of SVG's matrix(a b c d e f)). */
 export interface Affine { a: number, b: number, c: number, d: number, e: number, f: number }
@@ -151,4 +153,34 @@ export function placeCopies(input: CutSheetInput): PlacedSheet[] {
   }
   sheets.sort((p, q) => p.number - q.number)
   return sheets
+}
+
+/** The design id a one-job sheet gives its copy (dw-design-1). */
+export const JOB_DESIGN_ID = '1'
+
+/**
+ * The plans of a one-job cut sheet (one design laid out by layoutSheets): copies named by
+ * their number over the job (dw-copy-N), no kerf compensation, no labels.
+ */
+export function jobSheetPlans(input: CutSheetInput, options: { strokeMm: number, toleranceMm?: number }): SheetPlan[] {
+  const sheets = placeCopies(input)
+  const design = prepareDesign({ id: JOB_DESIGN_ID, curves: input.curves, widthMm: input.copyWidthMm, heightMm: input.copyHeightMm }, 0, options.toleranceMm)
+  const f = formatMm
+  return sheets.map((sheet) => {
+    const n = sheet.copies.length
+    const notes = [
+      `${n} ${n === 1 ? 'copy' : 'copies'} of ${f(input.copyWidthMm)} × ${f(input.copyHeightMm)} mm`,
+      input.layout.turned ? 'turned 90° clockwise' : null,
+      input.mirror ? 'mirrored' : null,
+      input.weedingFrameMm === null ? null : `weeding frame ${f(input.weedingFrameMm)} mm from each copy`,
+    ].filter(Boolean).join(', ')
+    return {
+      number: sheet.number, sheets: sheets.length, widthMm: input.sheetWidthMm, heightMm: input.sheetHeightMm, strokeMm: options.strokeMm,
+      designs: [design],
+      copies: sheet.copies.map((c) => ({ id: String(c.number), designId: JOB_DESIGN_ID, transform: c.transform })),
+      frames: sheet.copies.flatMap((c) => (c.frame ? [{ id: String(c.number), rect: c.frame }] : [])),
+      weedingLines: [], texts: [],
+      notes: `cut sheet ${sheet.number} of ${sheets.length}: ${notes}`,
+    }
+  })
 }

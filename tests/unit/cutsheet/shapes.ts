@@ -87,12 +87,25 @@ export const applyMatrix = (m: Matrix, p: Point): Point => ({ x: m.a * p.x + m.c
 
 export interface SvgGroup { id: string, transform: string | null, paths: string[] }
 
-/** The <g id="…"> groups directly holding <path> elements, with their transforms and path data. */
+/**
+ * The cut elements of a sheet, in document order, each with its transform and path data:
+ * every <use id="…"> resolved to the <path id="…"> in <defs> it references (SVG 1.1 §5.6: a
+ * 'use' draws the referenced element with its own transform applied), and every other
+ * <path id="…"> outside <defs> (weeding frames) as it stands.
+ */
 export function groupsOf(svg: string): SvgGroup[] {
+  const defs = new Map<string, string>()
+  for (const block of svg.matchAll(/<defs>([\s\S]*?)<\/defs>/g)) {
+    for (const m of block[1]!.matchAll(/<path id="([^"]+)" d="([^"]*)"\/>/g)) defs.set(m[1]!, m[2]!)
+  }
+  const body = svg.replace(/<defs>[\s\S]*?<\/defs>/g, '')
   const out: SvgGroup[] = []
-  const re = /<g id="([^"]+)"(?: transform="([^"]+)")?>((?:\s*<path d="[^"]*"\/>)+)\s*<\/g>/g
-  for (const m of svg.matchAll(re)) {
-    out.push({ id: m[1]!, transform: m[2] ?? null, paths: [...m[3]!.matchAll(/<path d="([^"]*)"\/>/g)].map((p) => p[1]!) })
+  for (const m of body.matchAll(/<use id="([^"]+)" xlink:href="#([^"]+)"(?: transform="([^"]+)")?\/>|<path id="([^"]+)" d="([^"]*)"\/>/g)) {
+    if (m[1]) {
+      const d = defs.get(m[2]!)
+      if (d === undefined) throw new Error(`<use> ${m[1]} references #${m[2]}, which <defs> does not define`)
+      out.push({ id: m[1], transform: m[3] ?? null, paths: [d] })
+    } else out.push({ id: m[4]!, transform: null, paths: [m[5]!] })
   }
   return out
 }

@@ -27,7 +27,7 @@ describe('cutSheetSvg: physical size', () => {
     const [sheet] = cutSheetSvg(lInput(200, 120, 5))
     // SVG 1.1 §7.10: width/height may carry a unit identifier; "mm" is an absolute length.
     // SVG 1.1 §7.7: viewBox "0 0 200 120" maps onto 200mm × 120mm, so one user unit = 1 mm.
-    expect(sheet).toMatch(/^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg" width="200mm" height="120mm" viewBox="0 0 200 120">/)
+    expect(sheet).toMatch(/^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg"[^>]* width="200mm" height="120mm" viewBox="0 0 200 120">/)
   })
 
   it('an independent renderer (librsvg through sharp) reads "mm" as an absolute length: 25.4 mm to the inch', async () => {
@@ -55,7 +55,11 @@ describe('cutSheetSvg: content', () => {
     expect(HAIRLINE_MM).toBe(0.1) // a common practice for laser cutting files, not a standard
     expect(sheet).not.toMatch(/fill="(?!none)/)
     const ids = groupsOf(sheet!).map((g) => g.id)
-    expect(ids).toEqual(['dw-copy-1', 'dw-frame-1', 'dw-copy-2', 'dw-frame-2', 'dw-copy-3', 'dw-frame-3', 'dw-copy-4', 'dw-frame-4', 'dw-copy-5', 'dw-frame-5'])
+    // Every copy, then the frames that free them (inner cuts first).
+    expect(ids).toEqual(['dw-copy-1', 'dw-copy-2', 'dw-copy-3', 'dw-copy-4', 'dw-copy-5', 'dw-frame-1', 'dw-frame-2', 'dw-frame-3', 'dw-frame-4', 'dw-frame-5'])
+    // The copy's path is defined once and placed by reference five times.
+    expect(sheet!.match(/<path id="dw-design-/g)).toHaveLength(1)
+    expect(sheet!.match(/<use /g)).toHaveLength(5)
     expect(sheet).not.toMatch(/outline|dasharray/)
   })
 
@@ -152,7 +156,10 @@ describe('cutSheetPreviewSvg', () => {
     expect(preview).toContain('<g id="dw-preview-2" transform="translate(210 0)">')
     expect(preview).toMatch(/<g id="dw-sheet-outline-1"[^>]*stroke-dasharray/)
     expect(preview).toContain('preview only, not a cut')
-    expect(preview.match(/<g id="dw-copy-\d+"/g)).toHaveLength(10)
+    expect(preview.match(/<use id="dw-copy-\d+"/g)).toHaveLength(10)
+    // Each design defined once in the joined document, and every reference resolves.
+    expect(preview.match(/<path id="dw-design-1"/g)).toHaveLength(1)
+    expect(groupsOf(preview).filter((g) => g.id.startsWith('dw-copy-'))).toHaveLength(10)
   })
 })
 

@@ -1,0 +1,60 @@
+// Entry for a worker thread (piscina) that builds cut sheets off the request thread. A
+// 200-copy sheet of a detailed drawing is tens of megabytes of DXF: the files come back as
+// UTF-8 bytes whose buffers are transferred, not copied, so the server's event loop neither
+// builds nor copies them. When bundling this file, keep 'piscina' external: move() marks the
+// answer with a symbol private to the copy of piscina that runs the thread.
+import { move, transferableSymbol, valueSymbol } from 'piscina'
+import { writeSheetDxfBytes } from './dxf'
+import { planCutSheets, type BatchSheetInput, type BatchSheets, type BuiltSheet } from './sheet'
+import { writeSheetSvg } from './svg'
+import { testGrid, type TestGrid, type TestGridInput } from './test-grid'
+
+export type CutSheetRequest =
+  | { kind: 'batch', input: BatchSheetInput }
+  | { kind: 'test-grid', input: TestGridInput }
+
+export type SheetBytes = Omit<BuiltSheet, 'svg' | 'dxf'> & { svg?: Uint8Array, dxf?: Uint8Array }
+
+export type CutSheetAnswer =
+  | { ok: true, kind: 'batch', result: Omit<BatchSheets, 'sheets'> & { sheets: SheetBytes[] } }
+  | { ok: true, kind: 'test-grid', result: Omit<TestGrid, 'svg' | 'dxf'> & { svg: Uint8Array, dxf: Uint8Array } }
+  | { ok: false, kind: 'settings' | 'internal', message: string }
+
+const utf8 = new TextEncoder()
+
+/** Wraps an answer so piscina transfers the file bytes' buffers instead of copying them. */
+function transferring(answer: CutSheetAnswer, bytes: Uint8Array[]) {
+  return move({
+    get [transferableSymbol]() { return bytes.map((b) => b.buffer) },
+    get [valueSymbol]() { return answer },
+  } as unknown as ArrayBuffer)
+}
+
+export function runCutSheetRequest(req: CutSheetRequest): { answer: CutSheetAnswer, bytes: Uint8Array[] } {
+  try {
+    const bytes: Uint8Array[] = []
+    const keep = (b: Uint8Array) => { bytes.push(b); return b }
+    if (req.kind === 'test-grid') {
+      const g = testGrid(req.input)
+      return { answer: { ok: true, kind: 'test-grid', result: { ...g, svg: keep(utf8.encode(g.svg)), dxf: keep(utf8.encode(g.dxf)) } }, bytes }
+    }
+    const formats = { svg: req.input.formats?.svg ?? true, dxf: req.input.formats?.dxf ?? true }
+    const out = planCutSheets(req.input)
+    // The DXF is written straight to bytes (ASCII), never as one huge string.
+    const sheets = out.sheets.map(({ plan, ...s }) => ({
+      ...s,
+      ...(formats.svg ? { svg: keep(utf8.encode(writeSheetSvg(plan))) } : {}),
+      ...(formats.dxf ? { dxf: keep(writeSheetDxfBytes(plan)) } : {}),
+    }))
+    return { answer: { ok: true, kind: 'batch', result: { ...out, sheets } }, bytes }
+  } catch (err) {
+    // Errors cross the thread boundary as plain data; RangeError means the input cannot make a sheet.
+    if (err instanceof RangeError) return { answer: { ok: false, kind: 'settings', message: err.message }, bytes: [] }
+    return { answer: { ok: false, kind: 'internal', message: (err as Error).message ?? String(err) }, bytes: [] }
+  }
+}
+
+export default function work(req: CutSheetRequest) {
+  const { answer, bytes } = runCutSheetRequest(req)
+  return transferring(answer, bytes)
+}

@@ -1,0 +1,37 @@
+// The worker thread's entry, run in this thread: plain data in, plain data and bytes out.
+import { describe, expect, it } from 'vitest'
+import { readCleanVector } from '../../../server/cutsheet/path'
+import { buildCutSheets, type BatchSheetInput } from '../../../server/cutsheet/sheet'
+import { testGrid } from '../../../server/cutsheet/test-grid'
+import { runCutSheetRequest } from '../../../server/cutsheet/worker'
+import { L_BOX, L_PATH, svgMm } from './shapes'
+
+const L = readCleanVector(svgMm(L_BOX.width, L_BOX.height, [L_PATH]))
+const input: BatchSheetInput = {
+  designs: [{ id: 'J7', curves: L.curves, widthMm: L.widthMm, heightMm: L.heightMm, count: 9 }],
+  sheetWidthMm: 200, sheetHeightMm: 120, gapMm: 4, marginMm: 5, kerfMm: 0.2, labels: { mode: 'text' }, weedingLines: { spacingMm: 12, clearanceMm: 1 },
+}
+
+describe('runCutSheetRequest', () => {
+  it('answers a batch with the same files as buildCutSheets, as bytes, and nothing a thread cannot pass', () => {
+    const { answer, bytes } = runCutSheetRequest({ kind: 'batch', input: structuredClone(input) })
+    if (!answer.ok || answer.kind !== 'batch') throw new Error('expected a batch answer')
+    const direct = buildCutSheets(input)
+    const text = new TextDecoder()
+    expect(answer.result.sheets.map((s) => text.decode(s.svg))).toEqual(direct.sheets.map((s) => s.svg))
+    expect(answer.result.sheets.map((s) => text.decode(s.dxf))).toEqual(direct.sheets.map((s) => s.dxf))
+    expect(bytes).toHaveLength(2 * direct.sheets.length)
+    // structuredClone is the algorithm postMessage uses between threads (HTML Living Standard).
+    expect(structuredClone(answer)).toEqual(answer)
+  })
+
+  it('answers a test grid, and turns refused input into a plain answer', () => {
+    const g = { power: { from: 30, to: 60, steps: 4 }, speed: { from: 5, to: 20, steps: 4 } }
+    const { answer } = runCutSheetRequest({ kind: 'test-grid', input: g })
+    if (!answer.ok || answer.kind !== 'test-grid') throw new Error('expected a test grid answer')
+    expect(new TextDecoder().decode(answer.result.dxf)).toBe(testGrid(g).dxf)
+    expect(answer.result.squares).toHaveLength(16)
+    const bad = runCutSheetRequest({ kind: 'batch', input: { ...input, kerfMm: -1 } })
+    expect(bad.answer).toEqual({ ok: false, kind: 'settings', message: expect.stringMatching(/kerf must be between/) })
+  })
+})
