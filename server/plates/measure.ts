@@ -145,3 +145,27 @@ export async function measureLayer(svg: string, options: MeasureLayerOptions = {
     strokePxPerMm: stroke.pxPerMm,
   }
 }
+
+/** What the robot check needs from a plate revision, at the revision's own size. */
+export interface PlateFigures {
+  [key: string]: number | null
+  numeralHeightMm: number | null
+  strokeMm: number | null
+  marginMm: number | null
+  plateWidthMm: number
+  plateHeightMm: number
+}
+
+/**
+ * The figures of a plate from its numerals layer's measurements (every layer of a plate has
+ * the plate's size). Scale them to a placement with scaleToPlacement (shared/plates/check.ts).
+ */
+export function plateFigures(numerals: LayerMeasurements): PlateFigures {
+  return {
+    numeralHeightMm: numerals.tallestPieceMm,
+    strokeMm: numerals.narrowestFeatureMm,
+    marginMm: numerals.marginMm,
+    plateWidthMm: numerals.widthMm,
+    plateHeightMm: numerals.heightMm,
+  }
+}
