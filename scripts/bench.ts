@@ -16,6 +16,7 @@ import { buildPipelineWorker, PIPELINE_WORKER_FILE } from './lib/pipeline-worker
 import type { WorkerAnswer } from '../server/pipeline/worker'
 import { benchBrowserRoundTrip } from './lib/bench-browser'
 import { benchCutSheets } from './lib/bench-cutsheet'
+import { benchPlates } from './lib/bench-plates'
 
 const RUNS = Number(process.env.BENCH_RUNS ?? 5)
 const WIDTH_MM = 150
@@ -164,6 +165,7 @@ async function main() {
   await pool.destroy()
 
   await benchCutSheets(RUNS)
+  await benchPlates(RUNS)
 
   // The tuning bench, end to end in a real browser (skip with BENCH_BROWSER=0).
   if (process.env.BENCH_BROWSER !== '0') {
