@@ -9,7 +9,7 @@ export default defineNuxtConfig({
   ...(process.env.DECALWRIGHT_BUILD_DIR ? { buildDir: process.env.DECALWRIGHT_BUILD_DIR } : {}),
   devtools: { enabled: false },
   telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],
   css: ['~/assets/css/main.css'],
   // Our stylesheet carries the @tailwind directives; without this the module adds a second copy.
   tailwindcss: { cssPath: '~/assets/css/main.css' },

@@ -119,7 +119,7 @@ async function main() {
   await run({ source: photos.get(1)!, settings, widthMm: WIDTH_MM, purpose: 'preview' }) // warm the threads
 
   // Preview as the tuning bench calls it: the server keeps a shrunk copy of the source (long
-  // side PREVIEW_SOURCE_SIDE, see server/utils/preview.ts), so each call starts from that.
+  // side PREVIEW_SOURCE_SIDE, see server/artworks/preview.ts), so each call starts from that.
   const previewSource = await sharp(twelve).autoOrient().resize({ width: PREVIEW_SOURCE_SIDE, height: PREVIEW_SOURCE_SIDE, fit: 'inside' }).png({ compressionLevel: 0 }).toBuffer()
   const previews: number[] = []
   const stages: { prepareMs: number; traceMs: number; cleanMs: number; measureMs: number }[] = []

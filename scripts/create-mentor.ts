@@ -5,7 +5,7 @@ import { parseArgs } from 'node:util'
 import { existsSync, readFileSync } from 'node:fs'
 import path from 'node:path'
 import { createDb, migrateToLatest } from '../server/db/connect'
-import { newToken, WELCOME_TTL_MS } from '../server/utils/tokens'
+import { newToken, WELCOME_TTL_MS } from '../server/platform/tokens'
 
 const { values } = parseArgs({
   options: { email: { type: 'string' }, name: { type: 'string' }, program: { type: 'string' }, school: { type: 'string' } },

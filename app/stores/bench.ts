@@ -152,7 +152,7 @@ export const useBenchStore = defineStore('bench', () => {
         const rev = await $fetch<RevisionDetail>(`/api/revisions/${newest.id}`)
         if (artworkId.value !== id) return
         applyBase(rev)
-        if (detail.can.revise) commit()
+        if (detail.can['artwork.revise']) commit()
         else {
           // No previews for someone who may not tune: show the stored outline instead.
           const svg = await $fetch<string>(rev.files.vector, { responseType: 'text' })
