@@ -63,7 +63,7 @@ async function main() {
   console.log('Per-stage medians, one revision at a time (in this thread):')
   console.log('  photo      prepare     trace     clean   measure     total   prepared px')
   for (const [mp, photo] of photos) {
-    const runs = []
+    const runs: Awaited<ReturnType<typeof runPipeline>>[] = []
     for (let i = 0; i < RUNS; i++) runs.push(await runPipeline({ source: photo, settings, widthMm: WIDTH_MM, purpose: 'revision' }))
     const t = (k: keyof (typeof runs)[0]['timings']) => ms(median(runs.map((r) => r.timings[k])))
     const m = runs[0]!.measurements

@@ -30,6 +30,10 @@ export function cloneSettings(s: BenchSettings): BenchSettings {
   return JSON.parse(JSON.stringify(s)) as BenchSettings
 }
 
+function fields(v: unknown): Record<string, unknown> {
+  return v && typeof v === 'object' ? v as Record<string, unknown> : {}
+}
+
 /**
  * Settings as the server stored them (or anything close) → complete, in-range bench settings.
  * What the pipeline's own schema accepts is taken as it is; anything else is mended field by
@@ -38,12 +42,12 @@ export function cloneSettings(s: BenchSettings): BenchSettings {
 export function normaliseSettings(input: unknown): BenchSettings {
   const parsed = pipelineSettingsSchema.safeParse(input ?? {})
   if (parsed.success) return parsed.data
-  const raw = (input && typeof input === 'object' ? input : {}) as Record<string, any>
+  const raw = fields(input)
   const d = BENCH_DEFAULTS
   const L = SETTING_LIMITS
-  const le = raw.lightingEvening && typeof raw.lightingEvening === 'object' ? raw.lightingEvening : {}
-  const th = raw.threshold && typeof raw.threshold === 'object' ? raw.threshold : {}
-  const crop = raw.crop && typeof raw.crop === 'object' ? raw.crop : null
+  const le = fields(raw.lightingEvening)
+  const th = fields(raw.threshold)
+  const crop = raw.crop && typeof raw.crop === 'object' ? fields(raw.crop) : null
   return {
     ...structuredClone(d),
     luma: raw.luma === 'bt601' ? 'bt601' : 'bt709',
@@ -79,7 +83,7 @@ export function sameSettings(a: BenchSettings, aWidth: number, b: BenchSettings,
 }
 
 /** Height that follows from the width: the cropped (or whole) source keeps its proportions. */
-export function followingHeightMm(widthMm: number, source: { widthPx: number, heightPx: number }, crop: CropSetting | null): number {
+export function followingHeightMm(widthMm: number, source: { widthPx: number; heightPx: number }, crop: CropSetting | null): number {
   const w = crop ? crop.width : source.widthPx
   const h = crop ? crop.height : source.heightPx
   if (!(w > 0) || !(h > 0)) return 0

@@ -117,10 +117,10 @@ async function insertRevision(trx: Transaction<Database>, o: { artworkId: number
   return rev
 }
 
+export interface NewArtwork { title: string; widthMm: number; fileName: string; bytes: Uint8Array }
+
 /** A new artwork from an uploaded picture, with revision 1 at default settings. The caller has checked `artwork.upload` in the team. */
-export async function createArtwork(db: Db, actor: Actor, team: TeamSubject, input: {
-  title: string; widthMm: number; fileName: string; bytes: Uint8Array
-}): Promise<CreatedArtwork> {
+export async function createArtwork(db: Db, actor: Actor, team: TeamSubject, input: NewArtwork): Promise<CreatedArtwork> {
   const facts = await inspectSource(input.bytes)
   const settings = parseSettings({})
   // The outline first: a file that cannot be traced leaves nothing behind.

@@ -25,14 +25,25 @@ import { findJob, jobPage, operatorEmails, type JobFilter, type JobRow } from '.
 export interface SheetOptions { mirror: boolean; frame: number; gap: number; margin: number }
 export const DEFAULT_SHEET: SheetOptions = { mirror: false, frame: CUT_SHEET_LIMITS.frame.default, gap: CUT_SHEET_LIMITS.gap.default, margin: CUT_SHEET_LIMITS.margin.default }
 
+export interface NewJob {
+  placementId: number
+  filmId: number
+  kind: 'initial' | 'reprint'
+  quantity: number
+  reason: string
+  /** What the job is for, for the history and the operators' mail. */
+  teamId: number
+  robotId: number
+  robotName: string
+  title: string
+  spot: string
+}
+
 /**
  * Queues a cut, writes its history line and mails the operators, all in the caller's
  * transaction: every query here goes through `trx`, never a second pool connection.
  */
-export async function queueJob(trx: Transaction<Database>, actor: Actor, o: {
-  placementId: number; filmId: number; kind: 'initial' | 'reprint'; quantity: number; reason: string
-  teamId: number; robotId: number; robotName: string; title: string; spot: string
-}): Promise<number> {
+export async function queueJob(trx: Transaction<Database>, actor: Actor, o: NewJob): Promise<number> {
   const job = await trx.insertInto('job').values({ placement_id: o.placementId, kind: o.kind, quantity: o.quantity, reason: o.reason, film_id: o.filmId, created_by: actor.id })
     .returning('id').executeTakeFirstOrThrow()
   await audit(trx, {

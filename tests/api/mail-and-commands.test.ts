@@ -1,7 +1,6 @@
-import { describe, expect, it } from 'vitest'
+import { describe, expect, it, inject } from 'vitest'
 import { execFile } from 'node:child_process'
 import { promisify } from 'node:util'
-import { inject } from 'vitest'
 import { ApiClient, signedIn, uniqueEmail } from '../support/client'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 import { waitForMail } from '../support/mail'

@@ -162,4 +162,14 @@ describe('robots, placements, the cut queue and cut sheets', () => {
     expect((await text(far, `/api/jobs/${jobId}/cut-sheet.svg`)).status).toBe(404)
     expect((await far.get('/api/jobs')).body).toEqual({ items: [], nextCursor: null })
   })
+
+  it('takes a burst of 50 reprints at once and still answers its health check at once', async () => {
+    // Every query inside a transaction uses it: no request holds one pool connection while
+    // waiting for a second, so a burst queues for the pool instead of deadlocking it.
+    const burst = await Promise.all(Array.from({ length: 50 }, (_, i) => student.post(`/api/placements/${placementId}/reprints`, { quantity: 1, reason: `burst ${i}` })))
+    expect(burst.map((r) => r.status)).toEqual(Array(50).fill(201))
+    const asked = Date.now()
+    expect((await new ApiClient().get('/api/health')).status).toBe(200)
+    expect(Date.now() - asked).toBeLessThan(5000)
+  })
 })
