@@ -1,5 +1,5 @@
 // The one typed description of the database, shared by the app, the scripts and the tests.
-import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely'
+import type { ColumnType, Generated } from 'kysely'
 import type { MemberRole } from '../../shared/types/roles'
 import type { ArtworkStatus } from '../../shared/types/artworks'
 import type { AuditAction, AuditSubject } from '../../shared/types/audit'
@@ -236,9 +236,3 @@ export interface Database {
   placement: PlacementTable
   job: JobTable
 }
-
-export type User = Selectable<UsersTable>
-export type NewUser = Insertable<UsersTable>
-export type UserUpdate = Updateable<UsersTable>
-export type Team = Selectable<TeamTable>
-export type Program = Selectable<ProgramTable>

@@ -51,8 +51,6 @@ const KNOWN: Record<AuditAction, true> = {
   'approve': true, 'send-back': true, 'add-robot': true, 'place': true, 'queue-job': true, 'reprint': true,
   'mark-cut': true, 'mark-applied': true, 'add-film': true, 'update-film': true,
 }
-export const AUDIT_ACTIONS = Object.keys(KNOWN) as AuditAction[]
-
 export const AUDIT_SUBJECTS = ['user', 'team', 'invitation', 'program', 'artwork', 'robot', 'job', 'film'] as const
 export type AuditSubject = (typeof AUDIT_SUBJECTS)[number]
 
