@@ -9,7 +9,7 @@ export default defineNuxtConfig({
   ...(process.env.DECALWRIGHT_BUILD_DIR ? { buildDir: process.env.DECALWRIGHT_BUILD_DIR } : {}),
   devtools: { enabled: false },
   telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', 'nuxt-security'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', 'nuxt-security', '@nuxt/eslint'],
   // Page headers: a content security policy with a nonce per response (no page may be framed,
   // nothing loads from elsewhere), nosniff and a referrer policy. The module's in-memory rate
   // limiter, size limiter, CORS and XSS filters are off: limits live in PostgreSQL so they

@@ -65,7 +65,7 @@ async function main() {
   console.log('Per-stage medians, one revision at a time (in this thread):')
   console.log('  photo      prepare     trace     clean   measure     total   prepared px')
   for (const [mp, photo] of photos) {
-    const runs = []
+    const runs: Awaited<ReturnType<typeof runPipeline>>[] = []
     for (let i = 0; i < RUNS; i++) runs.push(await runPipeline({ source: photo, settings, widthMm: WIDTH_MM, purpose: 'revision' }))
     const t = (k: keyof (typeof runs)[0]['timings']) => ms(median(runs.map((r) => r.timings[k])))
     const m = runs[0]!.measurements
@@ -121,7 +121,7 @@ async function main() {
   await run({ source: photos.get(1)!, settings, widthMm: WIDTH_MM, purpose: 'preview' }) // warm the threads
 
   // Preview as the tuning bench calls it: the server keeps a shrunk copy of the source (long
-  // side PREVIEW_SOURCE_SIDE, see server/utils/preview.ts), so each call starts from that.
+  // side PREVIEW_SOURCE_SIDE, see server/artworks/preview.ts), so each call starts from that.
   const previewSource = await sharp(twelve).autoOrient().resize({ width: PREVIEW_SOURCE_SIDE, height: PREVIEW_SOURCE_SIDE, fit: 'inside' }).png({ compressionLevel: 0 }).toBuffer()
   const previews: number[] = []
   const stages: { prepareMs: number; traceMs: number; cleanMs: number; measureMs: number }[] = []

@@ -9,7 +9,7 @@ import path from 'node:path'
 import type { Transaction } from 'kysely'
 import { createDb, migrateToLatest } from '../server/db/connect'
 import type { Database } from '../server/db/schema'
-import { newToken, WELCOME_TTL_MS } from '../server/utils/tokens'
+import { newToken, WELCOME_TTL_MS } from '../server/platform/tokens'
 
 const { values } = parseArgs({
   options: { email: { type: 'string' }, name: { type: 'string' }, program: { type: 'string' }, school: { type: 'string' }, join: { type: 'boolean' } },

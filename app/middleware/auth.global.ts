@@ -1,5 +1,6 @@
-// One guard for every route: signed-out people reach only the public pages, and pages
-// that name roles in definePageMeta send everyone else to their own start page.
+// One guard for every route: signed-out people reach only the public pages, and a page that
+// names its work in definePageMeta ({ can }) sends anyone the server says may not do it to
+// their own start page.
 export default defineNuxtRouteMiddleware(async (to) => {
   const session = useSessionStore()
   const open = isPublicPath(to.path)
@@ -41,7 +42,7 @@ export default defineNuxtRouteMiddleware(async (to) => {
   }
 
   // Never bounce someone away from their own start page, whatever it declares.
-  if (!session.mayOpen(to.meta.roles) && to.path !== me.home) {
+  if (!session.mayOpen(to.meta.can) && to.path !== me.home) {
     return navigateTo(me.home, { replace: true })
   }
 })

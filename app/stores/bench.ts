@@ -22,7 +22,7 @@ export interface RoundTrip {
   serverMs: number
 }
 
-interface PreviewInput { artworkId: number, settings: BenchSettings, widthMm: number }
+interface PreviewInput { artworkId: number; settings: BenchSettings; widthMm: number }
 
 const nextFrame = () => new Promise<void>((resolve) => {
   if (typeof requestAnimationFrame === 'function') requestAnimationFrame(() => resolve())
@@ -44,7 +44,7 @@ export const useBenchStore = defineStore('bench', () => {
 
   const preview = shallowRef<Preview | null>(null)
   /** Settings and width the shown preview was made with. */
-  const previewOf = shallowRef<{ settings: BenchSettings, widthMm: number } | null>(null)
+  const previewOf = shallowRef<{ settings: BenchSettings; widthMm: number } | null>(null)
   /** The starting revision's stored outline, for a viewer who may not ask for previews. */
   const baseOutline = shallowRef<ReturnType<typeof parseOutlineSvg>>(null)
   const pending = ref(false)
@@ -152,7 +152,7 @@ export const useBenchStore = defineStore('bench', () => {
         const rev = await $fetch<RevisionDetail>(`/api/revisions/${newest.id}`)
         if (artworkId.value !== id) return
         applyBase(rev)
-        if (detail.can.revise) commit()
+        if (detail.can['artwork.revise']) commit()
         else {
           // No previews for someone who may not tune: show the stored outline instead.
           const svg = await $fetch<string>(rev.files.vector, { responseType: 'text' })

@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia'
 import type { Me } from '#shared/types/api'
-import type { Role } from '#shared/types/roles'
+import type { Action } from '#shared/types/policy'
 
 /** The signed-in person, loaded once per visit and shared by the shell, the guard and every page. */
 export const useSessionStore = defineStore('session', () => {
@@ -8,19 +8,13 @@ export const useSessionStore = defineStore('session', () => {
   /** True once /api/me has answered (with a person or with 401), so the guard asks only once. */
   const loaded = ref(false)
 
-  const isMentor = computed(() => !!me.value && (me.value.isMentor || me.value.roles.includes('mentor')))
+  /** What the server says this person may do in the program (a team action: in some team). */
+  const can = computed(() => (action: Action): boolean => !!me.value?.can[action])
 
-  /** Whether the person holds this role anywhere in the program (literal: a mentor is not an operator unless made one). */
-  const hasRole = computed(() => (role: Role): boolean => {
+  /** Page access: pages name the action they are for; a page that names none is open to everyone signed in. */
+  function mayOpen(action: Action | undefined): boolean {
     if (!me.value) return false
-    return role === 'mentor' ? isMentor.value : me.value.roles.includes(role)
-  })
-
-  /** Page access: a mentor may do everything; everyone else needs one of the listed roles. */
-  function mayOpen(roles: readonly Role[] | undefined): boolean {
-    if (!me.value) return false
-    if (!roles || roles.length === 0 || isMentor.value) return true
-    return roles.some((r) => hasRole.value(r))
+    return !action || can.value(action)
   }
 
   async function load(force = false): Promise<Me | null> {
@@ -46,5 +40,5 @@ export const useSessionStore = defineStore('session', () => {
     }
   }
 
-  return { me, loaded, isMentor, hasRole, mayOpen, load, signOut }
+  return { me, loaded, can, mayOpen, load, signOut }
 })

@@ -1,9 +1,9 @@
-import type { Role } from '#shared/types/roles'
+import type { Action } from '#shared/types/policy'
 
 declare module '#app' {
   interface PageMeta {
-    /** Roles that may open the page; mentors may open every page. Omit for "any signed-in person". */
-    roles?: Role[]
+    /** The work the page is for; only those who may do it open the page. Omit for "any signed-in person". */
+    can?: Action
     /** The page exists only while the local mail fake is in use. */
     mailFake?: boolean
   }

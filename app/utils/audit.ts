@@ -1,12 +1,14 @@
 import type { AuditEntry } from '#shared/types/api'
+import { isAuditAction } from '#shared/types/audit'
 import { roleLabel } from './format'
 
 /**
  * Turns an audit entry into a sentence a mentor can read at a glance:
  * "Sam Reyes invited Ana Ortiz as student to Copper Wrens".
  *
- * The server's action names are handled one by one; anything newer falls back to a
- * reading of the action's words, so a new kind of entry still shows up sensibly.
+ * Every action of the shared union (shared/types/audit.ts) is handled one by one, and the
+ * compiler checks none is missing; a line written by a newer server falls back to a reading
+ * of the action's words.
  */
 export interface AuditSentence {
   /** Who did it, or null when nobody was signed in. */
@@ -40,7 +42,7 @@ export function capitalise(s: string): string {
   return s ? s.charAt(0).toUpperCase() + s.slice(1) : s
 }
 
-function known(e: AuditEntry, d: Detail, ctx: AuditContext): string | null {
+function known(e: AuditEntry, d: Detail, ctx: AuditContext): string {
   const subject = e.subjectId ? `${e.subjectType} #${e.subjectId}` : e.subjectType
   const name = text(d, 'name') ?? subject
   switch (e.action) {
@@ -130,8 +132,10 @@ function known(e: AuditEntry, d: Detail, ctx: AuditContext): string | null {
       const a = d.laserWorkArea as { widthMm?: number; heightMm?: number } | null | undefined
       return a?.widthMm ? `set the laser's work area to ${a.widthMm} × ${a.heightMm} mm` : 'cleared the laser\'s work area'
     }
-    default:
-      return null
+    default: {
+      const unhandled: never = e.action
+      return unhandled
+    }
   }
 }
 
@@ -149,7 +153,7 @@ export function describeAudit(entry: AuditEntry, ctx: AuditContext = {}): AuditS
     const s = 'The demo program was loaded'
     return { actor, phrase: actor ? 'loaded the demo program' : s, sentence: actor ? `${actor} loaded the demo program` : s }
   }
-  const phrase = known(entry, d, ctx) ?? fallback(entry)
+  const phrase = isAuditAction(entry.action) ? known(entry, d, ctx) : fallback(entry)
   return {
     actor,
     phrase: actor ? phrase : capitalise(phrase),

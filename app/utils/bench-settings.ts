@@ -2,39 +2,22 @@
 //
 // Defaults and limits are the pipeline's own (shared/utils/settings.ts); the server checks
 // every request in full again.
-import { DEFAULT_SETTINGS, SETTING_LIMITS as PIPELINE_LIMITS } from '#shared/utils/settings'
+import { DEFAULT_SETTINGS, pipelineSettingsSchema, SETTING_LIMITS as PIPELINE_LIMITS, type CropRect, type PipelineSettings } from '#shared/utils/settings'
 import { WIDTH_MM_MAX, WIDTH_MM_MIN } from '#shared/utils/schemas'
 
-export type Luma = 'bt601' | 'bt709'
-
-export type ThresholdSetting = { mode: 'auto' } | { mode: 'manual', value: number }
-
-export interface CropSetting {
-  /** Whole source pixels, on the source turned upright by its orientation tag. */
-  x: number
-  y: number
-  width: number
-  height: number
-}
-
-export interface BenchSettings {
-  luma: Luma
-  lightingEvening: { enabled: boolean, strength: number }
-  threshold: ThresholdSetting
-  swapInkAndPaper: boolean
-  crop: CropSetting | null
-  speckFilterMm2: number
-  cornerRounding: number
-  curveTolerance: number
-}
+/** The bench steers exactly the pipeline's settings (inferred from its zod schema). */
+export type BenchSettings = PipelineSettings
+export type Luma = PipelineSettings['luma']
+export type ThresholdSetting = PipelineSettings['threshold']
+/** Whole source pixels, on the source turned upright by its orientation tag. */
+export type CropSetting = CropRect
 
 export const SETTING_LIMITS = {
   ...PIPELINE_LIMITS,
   widthMm: { min: WIDTH_MM_MIN, max: WIDTH_MM_MAX },
 } as const
 
-const DEFAULTS: BenchSettings = DEFAULT_SETTINGS
-export const BENCH_DEFAULTS: Readonly<BenchSettings> = Object.freeze(DEFAULTS)
+export const BENCH_DEFAULTS: Readonly<BenchSettings> = DEFAULT_SETTINGS
 
 export function clampNumber(v: unknown, min: number, max: number, fallback: number): number {
   const n = typeof v === 'number' ? v : Number(v)
@@ -42,31 +25,31 @@ export function clampNumber(v: unknown, min: number, max: number, fallback: numb
   return Math.min(max, Math.max(min, n))
 }
 
+/** A deep copy, also of Vue's reactive proxies (settings are plain JSON). */
 export function cloneSettings(s: BenchSettings): BenchSettings {
-  return {
-    luma: s.luma,
-    lightingEvening: { ...s.lightingEvening },
-    threshold: s.threshold.mode === 'manual' ? { mode: 'manual', value: s.threshold.value } : { mode: 'auto' },
-    swapInkAndPaper: s.swapInkAndPaper,
-    crop: s.crop ? { ...s.crop } : null,
-    speckFilterMm2: s.speckFilterMm2,
-    cornerRounding: s.cornerRounding,
-    curveTolerance: s.curveTolerance,
-  }
+  return JSON.parse(JSON.stringify(s)) as BenchSettings
+}
+
+function fields(v: unknown): Record<string, unknown> {
+  return v && typeof v === 'object' ? v as Record<string, unknown> : {}
 }
 
 /**
  * Settings as the server stored them (or anything close) → complete, in-range bench settings.
- * Missing fields take the defaults, as the server's schema does.
+ * What the pipeline's own schema accepts is taken as it is; anything else is mended field by
+ * field, and missing fields take the defaults, as the server's schema does.
  */
 export function normaliseSettings(input: unknown): BenchSettings {
-  const raw = (input && typeof input === 'object' ? input : {}) as Record<string, any>
+  const parsed = pipelineSettingsSchema.safeParse(input ?? {})
+  if (parsed.success) return parsed.data
+  const raw = fields(input)
   const d = BENCH_DEFAULTS
   const L = SETTING_LIMITS
-  const le = raw.lightingEvening && typeof raw.lightingEvening === 'object' ? raw.lightingEvening : {}
-  const th = raw.threshold && typeof raw.threshold === 'object' ? raw.threshold : {}
-  const crop = raw.crop && typeof raw.crop === 'object' ? raw.crop : null
+  const le = fields(raw.lightingEvening)
+  const th = fields(raw.threshold)
+  const crop = raw.crop && typeof raw.crop === 'object' ? fields(raw.crop) : null
   return {
+    ...structuredClone(d),
     luma: raw.luma === 'bt601' ? 'bt601' : 'bt709',
     lightingEvening: {
       enabled: typeof le.enabled === 'boolean' ? le.enabled : d.lightingEvening.enabled,
@@ -92,8 +75,7 @@ export function normaliseSettings(input: unknown): BenchSettings {
 
 /** A stable text key of settings and width, for "is this what was saved?" checks. */
 export function settingsKey(s: BenchSettings, widthMm: number): string {
-  const n = normaliseSettings(s)
-  return JSON.stringify([n.luma, n.lightingEvening.enabled, n.lightingEvening.strength, n.threshold, n.swapInkAndPaper, n.crop, n.speckFilterMm2, n.cornerRounding, n.curveTolerance, widthMm])
+  return JSON.stringify([normaliseSettings(s), widthMm])
 }
 
 export function sameSettings(a: BenchSettings, aWidth: number, b: BenchSettings, bWidth: number): boolean {
@@ -101,7 +83,7 @@ export function sameSettings(a: BenchSettings, aWidth: number, b: BenchSettings,
 }
 
 /** Height that follows from the width: the cropped (or whole) source keeps its proportions. */
-export function followingHeightMm(widthMm: number, source: { widthPx: number, heightPx: number }, crop: CropSetting | null): number {
+export function followingHeightMm(widthMm: number, source: { widthPx: number; heightPx: number }, crop: CropSetting | null): number {
   const w = crop ? crop.width : source.widthPx
   const h = crop ? crop.height : source.heightPx
   if (!(w > 0) || !(h > 0)) return 0

@@ -13,8 +13,8 @@ export interface ViewState {
   cy: number
 }
 
-export interface ViewSize { width: number, height: number }
-export interface ViewPoint { x: number, y: number }
+export interface ViewSize { width: number; height: number }
+export interface ViewPoint { x: number; y: number }
 
 export const ZOOM_MIN = 0.5
 export const ZOOM_MAX = 32

@@ -38,12 +38,12 @@ export interface BenchWarning {
 }
 
 export interface WarningContext {
-  sheetMm?: { width: number, height: number }
+  sheetMm?: { width: number; height: number }
   minStrokeMm?: number
   /** The film the design is checked against; its name replaces "thin film" and "a sheet". */
   filmName?: string
   /** The lab laser's work area, when the program has recorded it. */
-  workAreaMm?: { width: number, height: number } | null
+  workAreaMm?: { width: number; height: number } | null
 }
 
 const FIX_LABELS: Record<WarningFix, string> = {

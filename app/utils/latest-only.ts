@@ -65,15 +65,15 @@ const realTimers: LatestOnlyTimers = {
 }
 
 export function isAbortError(err: unknown): boolean {
-  const e = err as { name?: string, cause?: { name?: string } } | null
+  const e = err as { name?: string; cause?: { name?: string } } | null
   return !!e && (e.name === 'AbortError' || e.cause?.name === 'AbortError')
 }
 
 export function latestOnly<I, O>(options: LatestOnlyOptions<I, O>): LatestOnly<I> {
   const timers = options.timers ?? realTimers
   let timer: unknown = null
-  let waiting: { input: I, changedAt: number } | null = null
-  let inFlight: { seq: number, controller: AbortController } | null = null
+  let waiting: { input: I; changedAt: number } | null = null
+  let inFlight: { seq: number; controller: AbortController } | null = null
   let seq = 0
   let sentCount = 0
   let dropped = 0

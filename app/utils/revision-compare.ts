@@ -95,7 +95,7 @@ export function changedShare(d: Pick<DiffResult, 'onlyA' | 'onlyB' | 'both'>): n
 }
 
 /** Which two revisions to show when the address names none or only one. */
-export function defaultPair(numbers: number[], a?: number, b?: number): { a: number | null, b: number | null } {
+export function defaultPair(numbers: number[], a?: number, b?: number): { a: number | null; b: number | null } {
   const sorted = [...new Set(numbers)].sort((x, y) => y - x)
   const has = (n: number | undefined): n is number => n !== undefined && sorted.includes(n)
   let B = has(b) ? b : null

@@ -3,19 +3,12 @@
 // again, the early check here only saves a round trip.
 
 import { WIDTH_MM_MAX, WIDTH_MM_MIN } from '#shared/utils/schemas'
-import { SETTING_LIMITS } from '#shared/utils/settings'
+import { DEFAULT_SETTINGS, SETTING_LIMITS } from '#shared/utils/settings'
 
 export const REVISE_LIMITS = SETTING_LIMITS
 
 /** The pipeline's defaults, for a revision whose stored settings lack a field. */
-const DEFAULTS = {
-  lightingEvening: { enabled: false, strength: 1 },
-  threshold: { mode: 'auto' as const },
-  swapInkAndPaper: false,
-  speckFilterMm2: 0.5,
-  cornerRounding: 1,
-  curveTolerance: 0.2,
-}
+const DEFAULTS = DEFAULT_SETTINGS
 
 /** Numbers as the inputs hold them: text while being typed, a number once Vue can read one. */
 export interface ReviseFields {

@@ -1,14 +1,9 @@
 // The browser side of sending a picture. The server decides what a file is by its content;
 // these checks only spare a student a long wait for an answer that is already known.
+import { ACCEPTED_MEDIA, UPLOAD_KINDS, UPLOAD_LIMIT_BYTES } from '#shared/constants/uploads'
 
-/** The server's limit on one picture (server/utils/sources.ts), repeated for the early check. */
-export const UPLOAD_LIMIT_BYTES = 25 * 1024 * 1024
-
-export const UPLOAD_ACCEPT = 'image/jpeg,image/png,image/webp,image/tiff,image/gif,image/avif'
-export const UPLOAD_KINDS = 'JPEG, PNG, WebP, TIFF, GIF or AVIF'
-
-const ACCEPTED_TYPES = new Set(UPLOAD_ACCEPT.split(','))
-const ACCEPTED_EXTENSIONS = new Set(['jpg', 'jpeg', 'jpe', 'png', 'webp', 'tif', 'tiff', 'gif', 'avif'])
+const ACCEPTED_TYPES = new Set<string>(ACCEPTED_MEDIA.map((m) => m.mediaType))
+const ACCEPTED_EXTENSIONS = new Set<string>(ACCEPTED_MEDIA.flatMap((m) => m.extensions))
 
 function extensionOf(name: string): string {
   const dot = name.lastIndexOf('.')

@@ -39,7 +39,7 @@ export async function benchBrowserRoundTrip(photo: Buffer, changes: number): Pro
     app = await startApp({ port: PORTS.app, host: '127.0.0.1', env: { ...stack.env, NUXT_PUBLIC_BASE_URL: base }, quiet: true })
 
     const form = new FormData()
-    form.set('file', new Blob([photo], { type: 'image/jpeg' }), 'bench-photo.jpg')
+    form.set('file', new Blob([new Uint8Array(photo)], { type: 'image/jpeg' }), 'bench-photo.jpg')
     form.set('title', 'Benchmark photo')
     form.set('teamId', String(team.id))
     form.set('widthMm', '150')

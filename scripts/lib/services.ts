@@ -224,4 +224,3 @@ export function sessionSecret(file: string): string {
   writeFileSync(file, secret, { mode: 0o600 })
   return secret
 }
-

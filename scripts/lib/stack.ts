@@ -11,8 +11,11 @@ export interface StackOptions {
   env: NodeJS.ProcessEnv
 }
 
+/** The NUXT_* variables for the stand-ins that were started (a configured service sets none). */
+export type StackEnv = Record<string, string> & Partial<Record<'NUXT_DATABASE_URL' | 'NUXT_S3_ENDPOINT' | 'NUXT_SMTP_URL' | 'NUXT_MAIL_OUTBOX_DIR', string>>
+
 export interface Stack {
-  env: Record<string, string>
+  env: StackEnv
   /** Lines that say where everything is. */
   summary: string[]
   stop: () => Promise<void>
@@ -20,7 +23,7 @@ export interface Stack {
 
 export async function startStack(o: StackOptions): Promise<Stack> {
   mkdirSync(o.storageDir, { recursive: true })
-  const env: Record<string, string> = {}
+  const env: StackEnv = {}
   const summary: string[] = []
   const stops: (() => Promise<void>)[] = []
   const stop = async () => {

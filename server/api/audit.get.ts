@@ -1,10 +1,9 @@
-import { z } from 'zod'
-
-const query = z.object({ limit: z.coerce.number().int().min(1).max(500).default(50) })
+import { auditQuerySchema } from '#shared/utils/schemas'
+import { useDb } from '#server/platform/db'
+import { listAudit } from '#server/history/service'
 
 export default defineEventHandler(async (event) => {
-  const actor = await requireMentor(event)
-  const parsed = query.safeParse(getQuery(event))
-  if (!parsed.success) throw invalidInput(parsed.error)
-  return listAudit(actor.programId, parsed.data.limit)
+  const actor = await requireCan(event, 'audit.view')
+  const query = readQuery(event, auditQuerySchema)
+  return listAudit(useDb(), actor, query)
 })

@@ -1,4 +1,6 @@
 import { sql } from 'kysely'
+import { useDb } from '#server/platform/db'
+import { checkBucket } from '#server/platform/object-store'
 
 // Answers only when the database and the object store both answer.
 export default defineEventHandler(async () => {

@@ -1,1 +1,9 @@
-export default defineEventHandler(async (event) => reviewQueue(await requireMentor(event)))
+import { reviewQueueQuerySchema } from '#shared/utils/schemas'
+import { useDb } from '#server/platform/db'
+import { reviewQueue } from '#server/review/service'
+
+export default defineEventHandler(async (event) => {
+  const actor = await requireCan(event, 'revision.review')
+  const query = readQuery(event, reviewQueueQuerySchema)
+  return reviewQueue(useDb(), actor, query)
+})

@@ -2,7 +2,7 @@
 // numbers use our own "HL-" prefix so they cannot be mistaken for a real team's number.
 import type { Kysely } from 'kysely'
 import type { Database } from './schema'
-import { hashPasswordOutsideNuxt } from './passwords'
+import { hashPassword } from '../platform/passwords'
 
 export const DEMO_PASSWORD = 'workshop-demo-2026'
 
@@ -25,7 +25,7 @@ export const DEMO_FILMS = [
 export async function loadDemo(db: Kysely<Database>): Promise<boolean> {
   const any = await db.selectFrom('program').select('id').limit(1).executeTakeFirst()
   if (any) return false
-  const passwordHash = await hashPasswordOutsideNuxt(DEMO_PASSWORD)
+  const passwordHash = await hashPassword(DEMO_PASSWORD)
   await db.transaction().execute(async (trx) => {
     const program = await trx.insertInto('program')
       .values({ name: 'Harbourline Robotics', school: 'Kestrel Bay Secondary School', laser_work_width_mm: 400, laser_work_height_mm: 400 })

@@ -1,7 +1,8 @@
 // The one typed description of the database, shared by the app, the scripts and the tests.
-import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely'
+import type { ColumnType, Generated } from 'kysely'
 import type { MemberRole } from '../../shared/types/roles'
 import type { ArtworkStatus } from '../../shared/types/artworks'
+import type { AuditAction, AuditSubject } from '../../shared/types/audit'
 import type { EngineVersions, Measurements, StageTimings } from '../../shared/types/pipeline'
 import type { PipelineSettings } from '../../shared/utils/settings'
 
@@ -78,12 +79,16 @@ export interface AuditEventTable {
   id: Generated<number>
   program_id: number | null
   actor_id: number | null
-  action: string
-  subject_type: string
+  action: AuditAction
+  subject_type: AuditSubject
   subject_id: string | null
   detail: ColumnType<Record<string, unknown>, string | undefined, string>
   ip: string | null
   at: CreatedAt
+  /** The artwork, robot and job a line is about, for the history of each (indexed). */
+  artwork_id: number | null
+  robot_id: number | null
+  job_id: number | null
 }
 
 export interface SignInAttemptTable {
@@ -231,9 +236,3 @@ export interface Database {
   placement: PlacementTable
   job: JobTable
 }
-
-export type User = Selectable<UsersTable>
-export type NewUser = Insertable<UsersTable>
-export type UserUpdate = Updateable<UsersTable>
-export type Team = Selectable<TeamTable>
-export type Program = Selectable<ProgramTable>

@@ -1,5 +1,5 @@
 // The words of every message we send: plain text and HTML, both from the same parts.
-import type { OutgoingMail } from '../utils/mail'
+import type { OutgoingMail } from '../platform/mail'
 
 function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!)

@@ -5,6 +5,8 @@
 //   cookie is also SameSite=Lax.)
 // - body size: JSON bodies are small; a declared length over the limit is refused with 413
 //   before anything is read. Routes that take files set their own, larger limit.
+import { formatBytes } from '../platform/http'
+
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS'])
 
 export default defineEventHandler((event) => {

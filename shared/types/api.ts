@@ -1,5 +1,13 @@
 // Shapes of the JSON the API answers with. Client and server both use these.
+import type { AuditAction, AuditSubject } from './audit'
+import type { Can, TeamAction } from './policy'
 import type { MemberRole, Role } from './roles'
+
+/** One page of a list; `nextCursor` asks for the next page (`?cursor=`), null on the last. */
+export interface Page<T> {
+  items: T[]
+  nextCursor: string | null
+}
 
 export interface MeTeam {
   id: number
@@ -8,6 +16,8 @@ export interface MeTeam {
   colour: string
   /** The user's role in this team; 'mentor' for a mentor who is not a member of it. */
   role: MemberRole | 'mentor'
+  /** What the user may do in this team. */
+  can: Can<TeamAction>
 }
 
 export interface Me {
@@ -21,6 +31,8 @@ export interface Me {
   home: string
   /** True when the local mail fake is in use, so the mentor's mail page exists. */
   mailFake: boolean
+  /** What the user may do in the program (a team action: in at least one team). */
+  can: Can
 }
 
 export interface TeamSummary {
@@ -55,8 +67,9 @@ export interface TeamDetail {
   team: { id: number; name: string; number: string | null; colour: string }
   members: TeamMember[]
   mentors: { userId: number; name: string; email: string }[]
-  /** Only for mentors; empty for everyone else. */
+  /** Only for those who manage people; empty for everyone else. */
   invitations: PendingInvitation[]
+  can: Can<'team.manage' | 'people.manage'>
 }
 
 export interface Person {
@@ -90,9 +103,9 @@ export interface SignedIn {
 export interface AuditEntry {
   id: number
   at: string
-  action: string
+  action: AuditAction
   actor: { id: number; name: string } | null
-  subjectType: string
+  subjectType: AuditSubject
   subjectId: string | null
   detail: Record<string, unknown>
 }
@@ -125,9 +138,9 @@ export interface ApiErrorBody {
 export interface HistoryEntry {
   id: number
   at: string
-  action: string
+  action: AuditAction
   by: string | null
-  subjectType: string
+  subjectType: AuditSubject
   subjectId: string | null
   detail: Record<string, unknown>
 }

@@ -1,4 +1,5 @@
 import type { EngineVersions, Measurements, StageTimings } from './pipeline'
+import type { Can } from './policy'
 
 export const ARTWORK_STATUSES = ['draft', 'in-review', 'approved', 'sent-back'] as const
 export type ArtworkStatus = (typeof ARTWORK_STATUSES)[number]
@@ -56,18 +57,18 @@ export interface ArtworkListItem {
   updatedAt: string
 }
 
+/** One page of the artwork list, with how many match in all. */
 export interface ArtworkPage {
   items: ArtworkListItem[]
   total: number
-  page: number
-  pageSize: number
+  nextCursor: string | null
 }
 
 export interface ArtworkDetail {
   artwork: ArtworkListItem & { createdAt: string }
   revisions: RevisionSummary[]
   /** What the viewer may do here. */
-  can: { revise: boolean }
+  can: Can<'artwork.revise' | 'revision.submit' | 'revision.review'>
 }
 
 export interface CreatedArtwork {

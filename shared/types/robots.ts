@@ -1,4 +1,6 @@
+import type { AuditAction } from './audit'
 import type { Film } from './films'
+import type { Can } from './policy'
 
 export const JOB_STATES = ['queued', 'cut', 'applied'] as const
 export type JobState = (typeof JOB_STATES)[number]
@@ -24,6 +26,20 @@ export interface RobotView {
   season: string
   team: { id: number; name: string; colour: string }
   placements: PlacementView[]
+  /** What the viewer may do here; 'queue.work' opens the jobs' pages. */
+  can: Can<'placement.create' | 'placement.reprint' | 'queue.work'>
+}
+
+/** An approved revision that may go on a robot of its team. */
+export interface ApprovedRevision {
+  revisionId: number
+  artworkId: number
+  title: string
+  number: number
+  widthMm: number
+  heightMm: number
+  /** The revision's narrowest stroke at its own width, mm. */
+  narrowestMm: number | null
 }
 
 export interface JobView {
@@ -50,5 +66,6 @@ export interface JobDetail extends JobView {
   cutLengthMm: number
   pieces: number
   estimate: { seconds: number; text: string; how: string }
-  history: { at: string; action: string; by: string | null; detail: Record<string, unknown> }[]
+  history: { at: string; action: AuditAction; by: string | null; detail: Record<string, unknown> }[]
+  can: Can<'queue.work'>
 }

@@ -1,6 +1,9 @@
 // Request bodies, validated by the server and reused by the forms.
 import { z } from 'zod'
+import { CUT_SHEET_LIMITS } from '../constants/cut-sheet'
+import { PLACEMENT_LIMITS } from '../constants/placements'
 import { MEMBER_ROLES, ROLES } from '../types/roles'
+import { JOB_STATES } from '../types/robots'
 
 export const PASSWORD_MIN = 10
 
@@ -67,12 +70,24 @@ export const artworkFieldsSchema = z.object({
   widthMm: z.preprocess((v) => (v === '' || v == null ? undefined : Number(v)), widthMmSchema.default(150)),
 })
 
+/** A page of a list: `cursor` from the previous page's `nextCursor`, up to `limit` items. */
+function pageQuery(defaultLimit: number) {
+  return {
+    cursor: z.string().max(500).optional(),
+    limit: z.coerce.number().int().min(1).max(100).default(defaultLimit),
+  }
+}
+const optionalId = z.coerce.number().int().positive().optional()
+
 export const artworkListQuerySchema = z.object({
-  teamId: z.coerce.number().int().positive().optional(),
+  teamId: optionalId,
   q: z.string().trim().max(120).optional(),
-  page: z.coerce.number().int().min(1).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(20),
+  ...pageQuery(20),
 })
+
+export const robotListQuerySchema = z.object({ teamId: optionalId, ...pageQuery(50) })
+export const reviewQueueQuerySchema = z.object({ ...pageQuery(50) })
+export const auditQuerySchema = z.object({ ...pageQuery(50) })
 
 export const revisionRequestSchema = z.object({
   // Checked in full by the pipeline's own settings schema (shared/utils/settings.ts).
@@ -115,29 +130,33 @@ export const placementSchema = z.object({
   filmId: z.number({ message: 'Choose a film.' }).int().positive(),
   spot: z.string().trim().min(1, { message: 'Say where it goes, e.g. "left side panel".' }).max(120),
   widthMm: widthMmSchema,
-  quantity: z.number({ message: 'How many go on the robot?' }).int().min(1).max(200),
-  spares: z.number({ message: 'How many spares?' }).int().min(0).max(200).default(0),
+  quantity: z.number({ message: 'How many go on the robot?' }).int().min(PLACEMENT_LIMITS.quantity.min).max(PLACEMENT_LIMITS.quantity.max),
+  spares: z.number({ message: 'How many spares?' }).int().min(PLACEMENT_LIMITS.spares.min).max(PLACEMENT_LIMITS.spares.max).default(PLACEMENT_LIMITS.spares.default),
 })
 
 export const reprintSchema = z.object({
-  quantity: z.number({ message: 'How many to reprint?' }).int().min(1, { message: 'At least one.' }).max(200),
+  quantity: z.number({ message: 'How many to reprint?' }).int().min(PLACEMENT_LIMITS.reprint.min, { message: 'At least one.' }).max(PLACEMENT_LIMITS.reprint.max),
   reason: z.string().trim().min(1, { message: 'Say what happened, e.g. "torn off in a match".' }).max(500),
 })
 
 export const jobStateSchema = z.object({ state: z.enum(['cut', 'applied'], { message: 'Choose cut or applied.' }) })
 
+const sheetDimension = (d: keyof typeof CUT_SHEET_LIMITS) =>
+  z.coerce.number().min(CUT_SHEET_LIMITS[d].min).max(CUT_SHEET_LIMITS[d].max).default(CUT_SHEET_LIMITS[d].default)
+
 export const cutSheetQuerySchema = z.object({
   mirror: z.enum(['0', '1']).default('0').transform((v) => v === '1'),
-  frame: z.coerce.number().min(0).max(20).default(0),
-  gap: z.coerce.number().min(0).max(50).default(3),
-  margin: z.coerce.number().min(0).max(50).default(5),
+  frame: sheetDimension('frame'),
+  gap: sheetDimension('gap'),
+  margin: sheetDimension('margin'),
   sheet: z.coerce.number().int().min(1).optional(),
 })
 
 export const jobListQuerySchema = z.object({
-  filmId: z.coerce.number().int().positive().optional(),
-  teamId: z.coerce.number().int().positive().optional(),
-  state: z.enum(['queued', 'cut', 'applied']).optional(),
+  filmId: optionalId,
+  teamId: optionalId,
+  state: z.enum(JOB_STATES).optional(),
+  ...pageQuery(50),
 })
 
 export const laserWorkAreaSchema = z.object({

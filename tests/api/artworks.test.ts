@@ -207,18 +207,23 @@ describe('revisions', () => {
 })
 
 describe('the artwork list', () => {
-  it('filters by team, searches titles and pages', async () => {
+  it('filters by team, searches titles and pages with a cursor', async () => {
     const mentor = await signedIn(DEMO_ACCOUNTS.mentor.email, DEMO_PASSWORD)
     const tag = `Heron${Date.now()}`
     for (const n of [1, 2, 3]) expect((await uploadArtwork(student, { file: await drawing('png', 300 + n, 200), title: `${tag} ${n}`, teamId: wrens })).status).toBe(201)
-    const page1 = (await mentor.get(`/api/artworks?q=${tag}&pageSize=2`)).body
+    const page1 = (await mentor.get(`/api/artworks?q=${tag}&limit=2`)).body
     expect(page1.total).toBe(3)
     expect(page1.items.map((i: any) => i.title)).toEqual([`${tag} 3`, `${tag} 2`])
-    const page2 = (await mentor.get(`/api/artworks?q=${tag}&pageSize=2&page=2`)).body
+    expect(page1.nextCursor).toEqual(expect.any(String))
+    // A change after the first page was read moves nothing already seen into the next one.
+    await uploadArtwork(student, { file: await drawing('png', 310, 200), title: `${tag} 4`, teamId: wrens })
+    const page2 = (await mentor.get(`/api/artworks?q=${tag}&limit=2&cursor=${encodeURIComponent(page1.nextCursor)}`)).body
     expect(page2.items.map((i: any) => i.title)).toEqual([`${tag} 1`])
+    expect(page2.nextCursor).toBeNull()
     expect((await mentor.get(`/api/artworks?teamId=${sprockets}&q=${tag}`)).body.total).toBe(0)
     const other = await signedIn('juniper@harbourline.example', DEMO_PASSWORD)
     expect((await other.get(`/api/artworks?q=${tag}`)).body.total).toBe(0)
-    expect((await mentor.get('/api/artworks?page=0')).status).toBe(400)
+    expect((await mentor.get('/api/artworks?limit=0')).status).toBe(400)
+    expect((await mentor.get('/api/artworks?cursor=not-a-cursor')).status).toBe(400)
   })
 })

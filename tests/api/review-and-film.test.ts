@@ -1,6 +1,6 @@
 import { describe, expect, it, beforeAll } from 'vitest'
 import { sql } from 'kysely'
-import { ApiClient, signedIn } from '../support/client'
+import { allPages, ApiClient, signedIn } from '../support/client'
 import { testDb } from '../support/db'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 import { drawing } from '../support/images'
@@ -34,7 +34,7 @@ describe('review', () => {
       expect(mail.text).toContain(`/artworks/${rev.artworkId}?r=1`)
     }
     expect((await student.post(`/api/revisions/${rev.id}/submit`)).status).toBe(409)
-    const waiting = (await mentor.get('/api/reviews')).body
+    const waiting = await allPages(mentor, '/api/reviews')
     expect(waiting.find((w: any) => w.revisionId === rev.id)).toMatchObject({ number: 1, author: DEMO_ACCOUNTS.student.name })
     expect((await student.get('/api/reviews')).status).toBe(403)
     expect((await student.post(`/api/revisions/${rev.id}/review`, { decision: 'approve' })).status).toBe(403)

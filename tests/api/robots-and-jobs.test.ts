@@ -1,6 +1,6 @@
 import { describe, expect, it, beforeAll } from 'vitest'
 import DxfParser from 'dxf-parser'
-import { ApiClient, signedIn } from '../support/client'
+import { allPages, ApiClient, signedIn } from '../support/client'
 import { testDb } from '../support/db'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 import { drawing } from '../support/images'
@@ -43,7 +43,7 @@ describe('robots, placements, the cut queue and cut sheets', () => {
     const r = await mentor.post('/api/robots', { teamId: wrens, name: `Marlin ${Date.now()}`, season: '2026–27' })
     expect(r.status, JSON.stringify(r.body)).toBe(201)
     robotId = r.body.id
-    expect((await student.get(`/api/robots?teamId=${wrens}`)).body.map((x: any) => x.id)).toContain(robotId)
+    expect((await allPages(student, `/api/robots?teamId=${wrens}`)).map((x: any) => x.id)).toContain(robotId)
   })
 
   it('refuses PVC film for a placement, and a revision that is not approved', async () => {
@@ -72,7 +72,7 @@ describe('robots, placements, the cut queue and cut sheets', () => {
 
   it('shows the job to operators with its estimate and layout; a student cannot work the queue', async () => {
     expect((await student.get('/api/jobs')).status).toBe(403)
-    const list = (await operator.get(`/api/jobs?state=queued&filmId=${pet.id}`)).body
+    const list = await allPages(operator, `/api/jobs?state=queued&filmId=${pet.id}`)
     expect(list.map((j: any) => j.id)).toContain(jobId)
     const job = (await operator.get(`/api/jobs/${jobId}`)).body
     const scale = 50 / approvedRevision.widthMm
@@ -160,6 +160,16 @@ describe('robots, placements, the cut queue and cut sheets', () => {
     const far = await signedIn(u.email, u.password)
     expect((await far.get(`/api/jobs/${jobId}`)).status).toBe(404)
     expect((await text(far, `/api/jobs/${jobId}/cut-sheet.svg`)).status).toBe(404)
-    expect((await far.get('/api/jobs')).body).toEqual([])
+    expect((await far.get('/api/jobs')).body).toEqual({ items: [], nextCursor: null })
+  })
+
+  it('takes a burst of 50 reprints at once and still answers its health check at once', async () => {
+    // Every query inside a transaction uses it: no request holds one pool connection while
+    // waiting for a second, so a burst queues for the pool instead of deadlocking it.
+    const burst = await Promise.all(Array.from({ length: 50 }, (_, i) => student.post(`/api/placements/${placementId}/reprints`, { quantity: 1, reason: `burst ${i}` })))
+    expect(burst.map((r) => r.status)).toEqual(Array(50).fill(201))
+    const asked = Date.now()
+    expect((await new ApiClient().get('/api/health')).status).toBe(200)
+    expect(Date.now() - asked).toBeLessThan(5000)
   })
 })

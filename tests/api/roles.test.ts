@@ -2,7 +2,7 @@ import { describe, expect, it, beforeAll } from 'vitest'
 import { ApiClient, signedIn, uniqueEmail } from '../support/client'
 import { testDb } from '../support/db'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
-import { hashPasswordOutsideNuxt } from '../../server/db/passwords'
+import { hashPassword } from '../../server/platform/passwords'
 
 // A second program on the same installation, to prove that its things do not exist for us.
 let other: { teamId: number; mentorEmail: string; personId: number }
@@ -11,7 +11,7 @@ beforeAll(async () => {
   const program = await db.insertInto('program').values({ name: `Other program ${Date.now()}`, school: 'Elsewhere Academy' }).returning('id').executeTakeFirstOrThrow()
   const team = await db.insertInto('team').values({ program_id: program.id, name: 'Far Team', colour: '#123456' }).returning('id').executeTakeFirstOrThrow()
   const mentorEmail = uniqueEmail('other.mentor')
-  const mentor = await db.insertInto('users').values({ program_id: program.id, email: mentorEmail, name: 'Other Mentor', password_hash: await hashPasswordOutsideNuxt('other-password-1') }).returning('id').executeTakeFirstOrThrow()
+  const mentor = await db.insertInto('users').values({ program_id: program.id, email: mentorEmail, name: 'Other Mentor', password_hash: await hashPassword('other-password-1') }).returning('id').executeTakeFirstOrThrow()
   await db.insertInto('mentorship').values({ user_id: mentor.id, program_id: program.id }).execute()
   other = { teamId: team.id, mentorEmail, personId: mentor.id }
 })
@@ -92,7 +92,7 @@ describe('who may do what', () => {
     expect(bad.status).toBe(400)
     expect(bad.body.data.fieldErrors.role).toBeDefined()
 
-    const audit = (await mentor.get('/api/audit?limit=20')).body
+    const audit = (await mentor.get('/api/audit?limit=20')).body.items
     const mine = audit.filter((a: any) => a.detail?.team === name || a.detail?.name === name)
     expect(mine.map((a: any) => a.action).sort()).toEqual(['change-role', 'change-role', 'change-role', 'create-team'])
   })

@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest'
 import { inject } from 'vitest'
 import { ApiClient, signedIn } from '../support/client'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
-import { teamId } from '../support/fixtures'
+import { teamId } from '../support/scenario'
 
 const MB = 1024 * 1024
 

@@ -3,7 +3,7 @@ import { beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient } from '../support/client'
 import { testDb } from '../support/db'
 import { DEMO_ACCOUNTS } from '../support/demo'
-import { approvedOnRobot } from '../support/fixtures'
+import { approvedOnRobot } from '../support/scenario'
 import { mailTo } from '../support/mail'
 
 let setup: Awaited<ReturnType<typeof approvedOnRobot>>

@@ -10,7 +10,7 @@ import { ApiClient, signedIn, uniqueEmail } from '../support/client'
 import { freshDatabase } from '../support/db'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 import { sparePort, startExtraApp } from '../support/extra-app'
-import { otherProgramMentor } from '../support/fixtures'
+import { otherProgramMentor } from '../support/scenario'
 import { waitForMail } from '../support/mail'
 
 const stops: (() => Promise<void>)[] = []

@@ -6,7 +6,7 @@ import { inject } from 'vitest'
 import { ApiClient, signedIn } from '../support/client'
 import { testDb } from '../support/db'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
-import { teamId } from '../support/fixtures'
+import { teamId } from '../support/scenario'
 import { drawing } from '../support/images'
 import { uploadArtwork } from '../support/upload'
 

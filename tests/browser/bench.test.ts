@@ -1,7 +1,6 @@
-import { describe, expect, it, beforeAll } from 'vitest'
+import { describe, expect, it, beforeAll, inject } from 'vitest'
 import sharp from 'sharp'
 import type { Page } from 'playwright-core'
-import { inject } from 'vitest'
 import { setupBrowser, signInThroughForm, tabletPage, screenshot } from '../support/browser'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 import { signedIn } from '../support/client'
@@ -219,7 +218,7 @@ describe('the tuning bench', () => {
       })
     }
     // The first preview includes starting the server's worker; the rest are what a designer feels.
-    const trips = (JSON.parse((await status(page).getAttribute('data-round-trips')) ?? '[]') as { requestMs: number, sinceChangeMs: number, serverMs: number }[]).slice(1)
+    const trips = (JSON.parse((await status(page).getAttribute('data-round-trips')) ?? '[]') as { requestMs: number; sinceChangeMs: number; serverMs: number }[]).slice(1)
     const req = trips.map((t) => t.requestMs)
     const since = trips.map((t) => t.sinceChangeMs)
     const server = trips.map((t) => t.serverMs)

@@ -1,5 +1,4 @@
-import { describe, expect, it } from 'vitest'
-import { inject } from 'vitest'
+import { describe, expect, it, inject } from 'vitest'
 import { setupBrowser, signInThroughForm, tabletPage, screenshot } from '../support/browser'
 import { signedIn } from '../support/client'
 import { testDb } from '../support/db'

@@ -76,6 +76,21 @@ export async function signedIn(email: string, password: string, options: ClientO
   return c
 }
 
+/** Every item of a list the API hands out a page at a time, following `nextCursor`. */
+export async function allPages<T = any>(c: ApiClient, path: string): Promise<T[]> {
+  const items: T[] = []
+  let cursor: string | null = null
+  do {
+    const url = new URL(path, c.baseUrl)
+    if (cursor) url.searchParams.set('cursor', cursor)
+    const r = await c.get<{ items: T[]; nextCursor: string | null }>(`${url.pathname}${url.search}`)
+    if (r.status !== 200) throw new Error(`GET ${url.pathname}${url.search} answered ${r.status}: ${JSON.stringify(r.body)}`)
+    items.push(...r.body.items)
+    cursor = r.body.nextCursor
+  } while (cursor)
+  return items
+}
+
 let counter = 0
 /** A fresh, unique address for a test, so files do not trip over each other's data. */
 export function uniqueEmail(tag: string): string {

@@ -1,44 +1,84 @@
-// Arranged cases that several test files need, made through the API as people would.
-import { type ApiClient, signedIn } from './client'
-import { testDb } from './db'
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from './demo'
-import { drawing } from './images'
-import { makeUser } from './people'
-import { uploadArtwork } from './upload'
+// A program with its people and things, built straight in the database: for service tests
+// (inside their rolled-back transaction) and API tests (committed) alike. Every name is invented.
+import { sql, type Kysely } from 'kysely'
+import type { Database } from '../../server/db/schema'
+import type { MemberRole } from '../../shared/types/roles'
+import type { Measurements } from '../../shared/types/pipeline'
+import { DEFAULT_SETTINGS } from '../../shared/utils/settings'
 
-export async function teamId(name = 'Copper Wrens'): Promise<number> {
-  return (await testDb().selectFrom('team').select('id').where('name', '=', name).executeTakeFirstOrThrow()).id
+type Db = Kysely<Database>
+let serial = 0
+const unique = (tag: string) => `${tag}-${process.pid}-${Date.now().toString(36)}-${serial++}`
+
+export interface TeamFixture { id: number; name: string; student: number; designer: number; operator: number }
+export interface ProgramFixture {
+  id: number
+  mentor: number
+  teams: [TeamFixture, TeamFixture]
+  films: { pet: number; pvc: number }
+  emails: Map<number, string>
 }
 
-/** A usable (chlorine-free, not retired) film of the demo program, as the API lists it. */
-export async function usableFilm(c: ApiClient): Promise<{ id: number; name: string }> {
-  const films = (await c.get('/api/films')).body as { id: number; name: string; usable: boolean }[]
-  const film = films.find((f) => f.usable)
-  if (!film) throw new Error('the demo program has no usable film')
-  return film
+async function person(db: Db, programId: number, name: string, emails: Map<number, string>, passwordHash: string | null) {
+  const email = `${unique(name.toLowerCase().replace(/\W+/g, '.'))}@fixtures.example`
+  const u = await db.insertInto('users').values({ program_id: programId, email, name, password_hash: passwordHash }).returning('id').executeTakeFirstOrThrow()
+  emails.set(u.id, email)
+  return u.id
 }
 
-/** An approved revision of a fresh artwork of the Copper Wrens, and a robot to put it on. */
-export async function approvedOnRobot(tag: string) {
-  const student = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
-  const mentor = await signedIn(DEMO_ACCOUNTS.mentor.email, DEMO_PASSWORD)
-  const wrens = await teamId()
-  const up = await uploadArtwork(student, { file: await drawing('png', 600, 400), title: `${tag} ${Date.now()}`, teamId: wrens, widthMm: 60 })
-  if (up.status !== 201) throw new Error(`upload answered ${up.status}: ${JSON.stringify(up.body)}`)
-  await student.post(`/api/revisions/${up.body.revision.id}/submit`)
-  const approved = await mentor.post(`/api/revisions/${up.body.revision.id}/review`, { decision: 'approve' })
-  if (approved.status !== 200) throw new Error(`approve answered ${approved.status}: ${JSON.stringify(approved.body)}`)
-  const robot = await mentor.post('/api/robots', { teamId: wrens, name: `${tag} robot ${Date.now()}`, season: '2026–27' })
-  const film = await usableFilm(mentor)
-  return { student, mentor, wrens, revisionId: up.body.revision.id as number, artworkId: up.body.artwork.id as number, robotId: robot.body.id as number, film }
+/** A program with a mentor, two teams (each with a student, a designer and an operator) and two films. */
+export async function buildProgram(db: Db, o: { passwordHash?: string } = {}): Promise<ProgramFixture> {
+  const hash = o.passwordHash ?? null
+  const emails = new Map<number, string>()
+  const program = await db.insertInto('program').values({ name: unique('Fixture program'), school: 'Fixture school' }).returning('id').executeTakeFirstOrThrow()
+  const mentor = await person(db, program.id, 'Fixture Mentor', emails, hash)
+  await db.insertInto('mentorship').values({ user_id: mentor, program_id: program.id }).execute()
+  const teams: TeamFixture[] = []
+  for (const letter of ['A', 'B']) {
+    const name = unique(`Team ${letter}`)
+    const team = await db.insertInto('team').values({ program_id: program.id, name, colour: '#336699' }).returning('id').executeTakeFirstOrThrow()
+    const member = async (role: MemberRole) => {
+      const id = await person(db, program.id, `${letter} ${role}`, emails, hash)
+      await db.insertInto('membership').values({ user_id: id, team_id: team.id, role }).execute()
+      return id
+    }
+    teams.push({ id: team.id, name, student: await member('student'), designer: await member('designer'), operator: await member('operator') })
+  }
+  const film = (name: string, basePolymer: string, chlorineFree: boolean) => db.insertInto('film').values({
+    program_id: program.id, name, base_polymer: basePolymer, chlorine_free: chlorineFree, colour: 'black', thickness_mm: 0.08,
+    sheet_width_mm: 300, sheet_height_mm: 200, min_feature_mm: 0.8, laser_power_pct: 50, laser_speed_mm_s: 10, laser_passes: 1,
+  }).returning('id').executeTakeFirstOrThrow()
+  const pet = await film('Fixture PET film', 'Polyester (PET)', true)
+  const pvc = await film('Fixture PVC film', 'PVC (polyvinyl chloride)', false)
+  return { id: program.id, mentor, teams: teams as [TeamFixture, TeamFixture], films: { pet: pet.id, pvc: pvc.id }, emails }
 }
 
-/** A second program with its own mentor, as another school on the same installation. */
-export async function otherProgramMentor(tag: string) {
-  const db = testDb()
-  const program = await db.insertInto('program').values({ name: `${tag} program ${Date.now()}`, school: 'Another fictional school' }).returning('id').executeTakeFirstOrThrow()
-  const u = await makeUser(`${tag} Mentor`)
-  await db.updateTable('users').set({ program_id: program.id }).where('id', '=', u.id).execute()
-  await db.insertInto('mentorship').values({ user_id: u.id, program_id: program.id }).execute()
-  return { ...u, programId: program.id, client: await signedIn(u.email, u.password) }
+export const FIXTURE_MEASUREMENTS: Measurements = {
+  widthMm: 60, heightMm: 40, inkAreaMm2: 900, cutLengthMm: 400, pieces: 2, holes: 1, nodes: 40, narrowestFeatureMm: 3,
+  smallPieces: 0, smallPieceLimitMm2: 0.5, fidelity: 0.99, threshold: 128, pxPerMm: 10, preparedWidthPx: 600, preparedHeightPx: 400,
+}
+
+/** An artwork with one revision (its files named but not stored), optionally submitted or approved. */
+export async function addArtwork(db: Db, o: { teamId: number; authorId: number; title?: string; status?: 'draft' | 'in-review' | 'approved'; vectorKey?: string }) {
+  const artwork = await db.insertInto('artwork').values({ team_id: o.teamId, title: o.title ?? unique('Fixture artwork'), author_id: o.authorId }).returning(['id', 'title']).executeTakeFirstOrThrow()
+  const hash = 'f'.repeat(64)
+  const source = await db.insertInto('source').values({
+    artwork_id: artwork.id, object_key: `sources/${hash}`, content_hash: hash, media_type: 'image/png', file_name: 'fixture.png',
+    width_px: 600, height_px: 400, bytes: 1000, uploaded_by: o.authorId,
+  }).returning('id').executeTakeFirstOrThrow()
+  const revision = await db.insertInto('revision').values({
+    artwork_id: artwork.id, number: 1, source_id: source.id, settings: JSON.stringify(DEFAULT_SETTINGS), width_mm: 60, height_mm: 40,
+    prepared_key: 'prepared/fixture.png', outline_key: 'outline/fixture.svg', vector_key: o.vectorKey ?? 'vector/fixture.svg',
+    measurements: JSON.stringify(FIXTURE_MEASUREMENTS), timings: JSON.stringify({ prepareMs: 1, traceMs: 1, cleanMs: 1, measureMs: 1, totalMs: 4 }),
+    engine_versions: JSON.stringify({ sharp: 'x', vips: 'x', potrace: 'x', svgo: 'x' }), author_id: o.authorId,
+  }).returning('id').executeTakeFirstOrThrow()
+  for (const status of o.status === 'approved' ? ['in-review', 'approved'] as const : o.status === 'in-review' ? ['in-review'] as const : []) {
+    await db.updateTable('revision_status').set({ status, updated_at: sql`clock_timestamp()` }).where('revision_id', '=', revision.id).execute()
+    await db.updateTable('artwork').set({ status }).where('id', '=', artwork.id).execute()
+  }
+  return { id: artwork.id, title: artwork.title, revisionId: revision.id }
+}
+
+export async function addRobot(db: Db, teamId: number, name = unique('Fixture robot')) {
+  return (await db.insertInto('robot').values({ team_id: teamId, name, season: '2026–27' }).returning('id').executeTakeFirstOrThrow()).id
 }

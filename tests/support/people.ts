@@ -1,4 +1,4 @@
-import { hashPasswordOutsideNuxt } from '../../server/db/passwords'
+import { hashPassword } from '../../server/platform/passwords'
 import type { MemberRole } from '../../shared/types/roles'
 import { uniqueEmail } from './client'
 import { testDb } from './db'
@@ -9,7 +9,7 @@ export async function makeUser(name: string, o: { password?: string; team?: stri
   const password = o.password ?? 'a-long-enough-password'
   const program = await db.selectFrom('program').select('id').where('name', '=', 'Harbourline Robotics').executeTakeFirstOrThrow()
   const email = uniqueEmail(name.toLowerCase().replace(/\W+/g, '.'))
-  const user = await db.insertInto('users').values({ program_id: program.id, email, name, password_hash: await hashPasswordOutsideNuxt(password) }).returning('id').executeTakeFirstOrThrow()
+  const user = await db.insertInto('users').values({ program_id: program.id, email, name, password_hash: await hashPassword(password) }).returning('id').executeTakeFirstOrThrow()
   if (o.team) {
     const team = await db.selectFrom('team').select('id').where('name', '=', o.team).executeTakeFirstOrThrow()
     await db.insertInto('membership').values({ user_id: user.id, team_id: team.id, role: o.role ?? 'student' }).execute()

@@ -1,8 +1,9 @@
 import { artworkListQuerySchema } from '#shared/utils/schemas'
+import { useDb } from '#server/platform/db'
+import { listArtworks } from '#server/artworks/service'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireActor(event)
-  const parsed = artworkListQuerySchema.safeParse(getQuery(event))
-  if (!parsed.success) throw invalidInput(parsed.error)
-  return listArtworks(actor, parsed.data)
+  const query = readQuery(event, artworkListQuerySchema)
+  return listArtworks(useDb(), actor, query)
 })

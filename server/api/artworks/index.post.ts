@@ -1,11 +1,16 @@
 import { artworkFieldsSchema } from '#shared/utils/schemas'
+import { useDb } from '#server/platform/db'
+import { readUpload } from '#server/platform/uploads'
+import { teamInScope } from '#server/people/queries'
+import { createArtwork } from '#server/artworks/service'
 
 // multipart/form-data: file, title, teamId, widthMm (optional, default 150)
 export default defineEventHandler(async (event) => {
   const actor = await requireActor(event)
   const upload = await readUpload(event, artworkFieldsSchema)
-  await requireRole(event, upload.fields.teamId, 'student')
-  const created = await createArtwork(event, actor, { ...upload.fields, fileName: upload.fileName, bytes: upload.bytes })
+  const db = useDb()
+  const team = authorize(actor, 'artwork.upload', await teamInScope(db, actor, upload.fields.teamId), 'No such team.')
+  const created = await createArtwork(db, actor, team, { ...upload.fields, fileName: upload.fileName, bytes: upload.bytes })
   setResponseStatus(event, 201)
   return created
 })

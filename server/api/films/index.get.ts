@@ -1,1 +1,4 @@
-export default defineEventHandler(async (event) => listFilms(await requireActor(event)))
+import { useDb } from '#server/platform/db'
+import { listFilms } from '#server/films/service'
+
+export default defineEventHandler(async (event) => listFilms(useDb(), await requireActor(event)))

@@ -1,6 +1,9 @@
+import { useDb } from '#server/platform/db'
+import { withdrawInvitation } from '#server/people/invitations'
+
 export default defineEventHandler(async (event) => {
-  const actor = await requireMentor(event)
-  await withdrawInvitation(event, actor, idParam(event))
+  const actor = await requireCan(event, 'people.manage')
+  await withdrawInvitation(useDb(), actor, idParam(event))
   setResponseStatus(event, 204)
   return null
 })

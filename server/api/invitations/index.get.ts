@@ -1,4 +1,4 @@
-export default defineEventHandler(async (event) => {
-  const actor = await requireMentor(event)
-  return listInvitations(actor.programId)
-})
+import { useDb } from '#server/platform/db'
+import { listInvitations } from '#server/people/invitations'
+
+export default defineEventHandler(async (event) => listInvitations(useDb(), await requireCan(event, 'people.manage')))

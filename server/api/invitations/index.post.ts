@@ -1,9 +1,11 @@
 import { invitationSchema } from '#shared/utils/schemas'
+import { useDb } from '#server/platform/db'
+import { createInvitation } from '#server/people/invitations'
 
 export default defineEventHandler(async (event) => {
-  const actor = await requireMentor(event)
+  const actor = await requireCan(event, 'people.manage')
   const input = await readJson(event, invitationSchema)
-  const invitation = await createInvitation(event, actor, input)
+  const invitation = await createInvitation(useDb(), actor, input)
   setResponseStatus(event, 201)
   return invitation
 })

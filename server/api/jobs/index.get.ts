@@ -1,9 +1,9 @@
 import { jobListQuerySchema } from '#shared/utils/schemas'
+import { useDb } from '#server/platform/db'
+import { listJobs } from '#server/jobs/service'
 
 export default defineEventHandler(async (event) => {
-  const actor = await requireActor(event)
-  requireQueueWorker(actor)
-  const parsed = jobListQuerySchema.safeParse(getQuery(event))
-  if (!parsed.success) throw invalidInput(parsed.error)
-  return listJobs(actor, parsed.data)
+  const actor = await requireCan(event, 'queue.work')
+  const query = readQuery(event, jobListQuerySchema)
+  return listJobs(useDb(), actor, query)
 })

@@ -1,8 +1,10 @@
 import { personPatchSchema } from '#shared/utils/schemas'
+import { useDb } from '#server/platform/db'
+import { updatePerson } from '#server/people/service'
 
 export default defineEventHandler(async (event) => {
-  const actor = await requireMentor(event)
+  const actor = await requireCan(event, 'people.manage')
   const userId = idParam(event)
   const patch = await readJson(event, personPatchSchema)
-  return updatePerson(event, actor, userId, patch)
+  return updatePerson(useDb(), actor, userId, patch)
 })

@@ -1,4 +1,4 @@
-export default defineEventHandler(async (event) => {
-  const actor = await requireMentor(event)
-  return listPeople(actor.programId)
-})
+import { useDb } from '#server/platform/db'
+import { listPeople } from '#server/people/service'
+
+export default defineEventHandler(async (event) => listPeople(useDb(), await requireCan(event, 'people.manage')))

@@ -1,10 +1,9 @@
-import { z } from 'zod'
-
-const query = z.object({ teamId: z.coerce.number().int().positive().optional() })
+import { robotListQuerySchema } from '#shared/utils/schemas'
+import { useDb } from '#server/platform/db'
+import { listRobots } from '#server/robots/service'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireActor(event)
-  const parsed = query.safeParse(getQuery(event))
-  if (!parsed.success) throw invalidInput(parsed.error)
-  return listRobots(actor, parsed.data.teamId)
+  const query = readQuery(event, robotListQuerySchema)
+  return listRobots(useDb(), actor, query)
 })

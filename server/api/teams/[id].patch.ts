@@ -1,9 +1,10 @@
 import { teamPatchSchema } from '#shared/utils/schemas'
+import { useDb } from '#server/platform/db'
+import { updateTeam } from '#server/people/service'
 
 export default defineEventHandler(async (event) => {
-  const actor = await requireMentor(event)
+  const actor = await requireCan(event, 'team.manage')
   const teamId = idParam(event)
   const patch = await readJson(event, teamPatchSchema)
-  await updateTeam(event, actor, teamId, patch)
-  return teamDetail(actor, teamId)
+  return updateTeam(useDb(), actor, teamId, patch)
 })

@@ -1,1 +1,4 @@
-export default defineEventHandler(async (event) => listTeams(await requireActor(event)))
+import { useDb } from '#server/platform/db'
+import { listTeams } from '#server/people/service'
+
+export default defineEventHandler(async (event) => listTeams(useDb(), await requireActor(event)))

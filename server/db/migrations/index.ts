@@ -3,6 +3,7 @@ import * as m0001 from './0001_foundation'
 import * as m0002 from './0002_artworks'
 import * as m0003 from './0003_review_film_placements'
 import * as m0004 from './0004_laser_work_area'
+import * as m0005 from './0005_structure'
 
 // A static list: a bundled server cannot read a folder of migration files.
 // Add new migrations here, in order, under a name that sorts after the last one.
@@ -11,4 +12,5 @@ export const migrations: Record<string, Migration> = {
   '0002_artworks': m0002,
   '0003_review_film_placements': m0003,
   '0004_laser_work_area': m0004,
+  '0005_structure': m0005,
 }

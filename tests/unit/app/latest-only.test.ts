@@ -2,12 +2,12 @@ import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
 import { latestOnly, type LatestOnlyInfo } from '../../../app/utils/latest-only'
 
 // A request the test answers by hand, in any order it likes.
-interface Call { input: string, signal: AbortSignal, resolve: (v: string) => void, reject: (e: unknown) => void }
+interface Call { input: string; signal: AbortSignal; resolve: (v: string) => void; reject: (e: unknown) => void }
 
 function harness(delayMs = 150) {
   const calls: Call[] = []
-  const results: { output: string, input: string, info: LatestOnlyInfo }[] = []
-  const errors: { error: unknown, input: string }[] = []
+  const results: { output: string; input: string; info: LatestOnlyInfo }[] = []
+  const errors: { error: unknown; input: string }[] = []
   const pendingLog: boolean[] = []
   const l = latestOnly<string, string>({
     delayMs,

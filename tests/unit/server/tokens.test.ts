@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { hashToken, newToken } from '../../../server/utils/tokens'
+import { hashToken, newToken } from '../../../server/platform/tokens'
 
 describe('one-time link tokens', () => {
   it('stores SHA-256 of the token', () => {

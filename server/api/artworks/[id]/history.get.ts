@@ -1,1 +1,10 @@
-export default defineEventHandler(async (event) => artworkHistory(await requireActor(event), idParam(event)))
+import { useDb } from '#server/platform/db'
+import { findArtwork } from '#server/artworks/queries'
+import { historyOf } from '#server/history/service'
+
+export default defineEventHandler(async (event) => {
+  const actor = await requireActor(event)
+  const db = useDb()
+  const artwork = authorize(actor, 'artwork.view', await findArtwork(db, actor, idParam(event)), 'No such artwork.')
+  return historyOf(db, actor, { artworkId: artwork.id })
+})

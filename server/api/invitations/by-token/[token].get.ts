@@ -1,1 +1,4 @@
-export default defineEventHandler(async (event) => previewInvitation(getRouterParam(event, 'token') ?? ''))
+import { useDb } from '#server/platform/db'
+import { previewInvitation } from '#server/people/invitations'
+
+export default defineEventHandler(async (event) => previewInvitation(useDb(), tokenParam(event)))

@@ -1,10 +1,12 @@
 import { cutSheetQuerySchema } from '#shared/utils/schemas'
+import { useDb } from '#server/platform/db'
+import { findJob } from '#server/jobs/queries'
+import { cutSheetFiles } from '#server/jobs/service'
 
 // One sheet per file: ?sheet=N picks it (default 1); the job page lists how many there are.
 export default defineEventHandler(async (event) => {
-  const actor = await requireActor(event)
-  const id = idParam(event)
-  const parsed = cutSheetQuerySchema.safeParse(getQuery(event))
-  if (!parsed.success) throw invalidInput(parsed.error)
-  return sendCutSheet(event, await cutSheetFiles(actor, id, parsed.data, 'svg'), 'svg', parsed.data.sheet ?? 1)
+  const actor = await requireCan(event, 'queue.work')
+  const job = authorize(actor, 'job.view', await findJob(useDb(), actor, idParam(event)), 'No such job.')
+  const options = readQuery(event, cutSheetQuerySchema)
+  return sendCutSheet(event, await cutSheetFiles(job, options, 'svg'), 'svg', options.sheet ?? 1)
 })

@@ -1,4 +1,7 @@
+import { useDb } from '#server/platform/db'
+import { setMembership } from '#server/people/service'
+
 export default defineEventHandler(async (event) => {
-  const actor = await requireMentor(event)
-  return setMembership(event, actor, idParam(event), idParam(event, 'teamId'), null)
+  const actor = await requireCan(event, 'people.manage')
+  return setMembership(useDb(), actor, idParam(event), idParam(event, 'teamId'), null)
 })

@@ -1,0 +1,88 @@
+import sharp from 'sharp'
+import { createError } from 'h3'
+import type { Preview } from '#shared/types/artworks'
+import { PREVIEW_SOURCE_SIDE, type PipelineSettings } from '#shared/utils/settings'
+import type { Db } from '../platform/db'
+import { getObject } from '../platform/object-store'
+import { runInPool } from '../platform/pipeline-pool'
+import { latestSource, type ArtworkRow } from './queries'
+import { parseSettingsOr400 } from './service'
+
+// The tuning bench asks for a preview each time a control settles. Decoding a 12 MP photo
+// every time would take most of the time budget, so each source is shrunk once to a
+// preview source (upright, long side PREVIEW_SOURCE_SIDE, uncompressed PNG that decodes in
+// milliseconds) and kept in memory, bounded by total size, oldest out first.
+const CACHE_LIMIT_BYTES = 512 * 1024 * 1024
+
+interface PreviewSource { png: Uint8Array; scale: number; width: number; height: number }
+const cache = new Map<string, Promise<PreviewSource>>()
+const sizes = new Map<string, number>()
+let cached = 0
+
+async function makePreviewSource(key: string): Promise<PreviewSource> {
+  const bytes = await getObject(key)
+  const meta = await sharp(bytes).metadata()
+  const uprightWidth = meta.autoOrient?.width ?? meta.width ?? 1
+  const { data, info } = await sharp(bytes, { failOn: 'error' }).autoOrient()
+    .resize({ width: PREVIEW_SOURCE_SIDE, height: PREVIEW_SOURCE_SIDE, fit: 'inside', withoutEnlargement: true })
+    .png({ compressionLevel: 0 }).toBuffer({ resolveWithObject: true })
+  return { png: new Uint8Array(data.buffer, data.byteOffset, data.byteLength), scale: info.width / uprightWidth, width: info.width, height: info.height }
+}
+
+function previewSource(key: string): Promise<PreviewSource> {
+  const hit = cache.get(key)
+  if (hit) {
+    cache.delete(key)
+    cache.set(key, hit)
+    return hit
+  }
+  const made = makePreviewSource(key)
+  cache.set(key, made)
+  made.then((s) => {
+    sizes.set(key, s.png.byteLength)
+    cached += s.png.byteLength
+    for (const k of cache.keys()) {
+      if (cached <= CACHE_LIMIT_BYTES) break
+      cache.delete(k)
+      cached -= sizes.get(k) ?? 0
+      sizes.delete(k)
+    }
+  }, () => cache.delete(key))
+  return made
+}
+
+/** The crop rectangle is in source pixels; the preview source is smaller by `scale`. */
+function scaleCrop(settings: PipelineSettings, s: PreviewSource): PipelineSettings {
+  if (!settings.crop || s.scale === 1) return settings
+  const c = settings.crop
+  const x = Math.min(s.width - 1, Math.floor(c.x * s.scale))
+  const y = Math.min(s.height - 1, Math.floor(c.y * s.scale))
+  const right = Math.min(s.width, Math.max(x + 1, Math.round((c.x + c.width) * s.scale)))
+  const bottom = Math.min(s.height, Math.max(y + 1, Math.round((c.y + c.height) * s.scale)))
+  return { ...settings, crop: { x, y, width: right - x, height: bottom - y } }
+}
+
+/**
+ * The bench's live outline: the same pipeline at screen resolution; nothing is stored. The
+ * caller has checked `artwork.revise`. A preview whose request was withdrawn (the bench moved
+ * on and aborted it) leaves the queue instead of being computed for nobody; one already
+ * running finishes, as a thread cannot be stopped half-way without losing it.
+ */
+export async function previewArtwork(db: Db, artwork: ArtworkRow, input: { settings: unknown; widthMm: number }, signal?: AbortSignal): Promise<Preview> {
+  const settings = parseSettingsOr400(input.settings)
+  const source = await latestSource(db, artwork.id)
+  const c = settings.crop
+  if (c && (c.x + c.width > source.width_px || c.y + c.height > source.height_px)) {
+    throw createError({ statusCode: 422, message: `The crop rectangle lies outside the source of ${source.width_px} × ${source.height_px} pixels.` })
+  }
+  const small = await previewSource(source.object_key)
+  // A copy crosses to the worker; the cached bytes stay here.
+  const result = await runInPool({ source: small.png.slice(), settings: scaleCrop(settings, small), widthMm: input.widthMm, purpose: 'preview' }, signal)
+  return {
+    svg: result.cleanSvg,
+    preparedPng: `data:image/png;base64,${Buffer.from(result.preparedPng).toString('base64')}`,
+    histogram: result.histogram,
+    measurements: result.measurements,
+    timings: result.timings,
+  }
+}

@@ -1,0 +1,89 @@
+import { sql } from 'kysely'
+import { jsonObjectFrom } from 'kysely/helpers/postgres'
+import type { Db } from '../platform/db'
+import { teamScope, type Actor } from '../policy'
+
+/** Artworks the actor may see, with their team, author and latest revision joined in. */
+function visibleArtworks(db: Db, actor: Actor) {
+  return db.selectFrom('artwork')
+    .innerJoin('team', 'team.id', 'artwork.team_id')
+    .innerJoin('users as author', 'author.id', 'artwork.author_id')
+    .where(teamScope(actor, 'artwork.view'))
+}
+
+export interface ArtworkFilter { teamId?: number; q?: string }
+
+function filtered(db: Db, actor: Actor, f: ArtworkFilter) {
+  let q = visibleArtworks(db, actor)
+  if (f.teamId) q = q.where('artwork.team_id', '=', f.teamId)
+  if (f.q) q = q.where('artwork.title', 'ilike', `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`)
+  return q
+}
+
+function withColumns(q: ReturnType<typeof visibleArtworks>) {
+  return q.select((eb) => [
+    'artwork.id', 'artwork.title', 'artwork.status', 'artwork.updated_at', 'artwork.created_at',
+    'team.id as teamId', 'team.program_id as programId', 'team.name as team_name', 'team.colour as team_colour', 'author.name as author_name',
+    // The exact timestamp, microseconds and all, for the next page's cursor.
+    sql<string>`artwork.updated_at::text`.as('order_at'),
+    jsonObjectFrom(eb.selectFrom('revision').select(['revision.id', 'revision.number'])
+      .whereRef('revision.artwork_id', '=', 'artwork.id').orderBy('revision.number', 'desc').limit(1)).as('latest'),
+    eb.selectFrom('revision').select(sql<number>`count(*)::int`.as('n')).whereRef('revision.artwork_id', '=', 'artwork.id').as('revision_count'),
+  ])
+}
+
+export type ArtworkRow = Awaited<ReturnType<ReturnType<typeof withColumns>['executeTakeFirstOrThrow']>>
+
+/** One page, most recently changed first, after the row `after` (the previous page's last). */
+export function artworkPage(db: Db, actor: Actor, f: ArtworkFilter, after: { at: string; id: number } | undefined, limit: number) {
+  let q = withColumns(filtered(db, actor, f))
+  if (after) q = q.where(sql<boolean>`(artwork.updated_at, artwork.id) < (${after.at}::timestamptz, ${after.id})`)
+  return q.orderBy('artwork.updated_at', 'desc').orderBy('artwork.id', 'desc').limit(limit).execute()
+}
+
+export async function artworkCount(db: Db, actor: Actor, f: ArtworkFilter): Promise<number> {
+  const { total } = await filtered(db, actor, f).select(sql<number>`count(*)::int`.as('total')).executeTakeFirstOrThrow()
+  return total
+}
+
+/** The artwork if the actor may see it. */
+export function findArtwork(db: Db, actor: Actor, id: number): Promise<ArtworkRow | undefined> {
+  return withColumns(visibleArtworks(db, actor)).where('artwork.id', '=', id).executeTakeFirst()
+}
+
+export function revisionsOf(db: Db, artworkId: number) {
+  return db.selectFrom('revision').innerJoin('users', 'users.id', 'revision.author_id')
+    .innerJoin('revision_status', 'revision_status.revision_id', 'revision.id')
+    .select(['revision.id', 'revision.number', 'revision.width_mm', 'revision.height_mm', 'revision.created_at', 'revision.measurements', 'users.name as author_name', 'revision_status.status'])
+    .where('revision.artwork_id', '=', artworkId).orderBy('revision.number', 'desc').execute()
+}
+
+/** A revision with its artwork, source and status, if the actor may see it. */
+export function findRevision(db: Db, actor: Actor, revisionId: number) {
+  return db.selectFrom('revision')
+    .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
+    .innerJoin('team', 'team.id', 'artwork.team_id')
+    .innerJoin('source', 'source.id', 'revision.source_id')
+    .innerJoin('users', 'users.id', 'revision.author_id')
+    .innerJoin('revision_status', 'revision_status.revision_id', 'revision.id')
+    .selectAll('revision')
+    .select(['revision_status.status', 'artwork.title', 'team.id as teamId', 'team.program_id as programId', 'team.name as team_name', 'users.name as author_name',
+      'source.object_key as source_key', 'source.media_type', 'source.file_name', 'source.width_px', 'source.height_px', 'source.bytes', 'source.content_hash'])
+    .where('revision.id', '=', revisionId)
+    .where(teamScope(actor, 'artwork.view'))
+    .executeTakeFirst()
+}
+
+export type RevisionRow = NonNullable<Awaited<ReturnType<typeof findRevision>>>
+
+export function latestSource(db: Db, artworkId: number) {
+  return db.selectFrom('source').selectAll().where('artwork_id', '=', artworkId).orderBy('id', 'desc').limit(1).executeTakeFirstOrThrow()
+}
+
+/** Whether any revision or source still points at a stored object. */
+export async function objectInUse(db: Db, key: string): Promise<boolean> {
+  const used = await db.selectFrom('revision').select('id')
+    .where((eb) => eb.or([eb('prepared_key', '=', key), eb('outline_key', '=', key), eb('vector_key', '=', key)])).limit(1).executeTakeFirst()
+    ?? await db.selectFrom('source').select('id').where('object_key', '=', key).limit(1).executeTakeFirst()
+  return !!used
+}

@@ -1,0 +1,185 @@
+// Artworks and their revisions: upload, list, read, and new revisions from new settings.
+import { sql, type Transaction } from 'kysely'
+import { z } from 'zod'
+import type { Database } from '../db/schema'
+import type { ArtworkDetail, ArtworkListItem, ArtworkPage, CreatedArtwork, RevisionDetail, RevisionSummary } from '#shared/types/artworks'
+import { parseSettings, type PipelineSettings } from '#shared/utils/settings'
+import type { RunResult } from '../pipeline/run'
+import { decodeCursor, encodeCursor } from '../platform/cursor'
+import { inTransaction, type Db } from '../platform/db'
+import { invalidInput } from '../platform/http'
+import { contentHash, deleteObject, getObject, objectExists, putObject } from '../platform/object-store'
+import { runInPool } from '../platform/pipeline-pool'
+import { flags, type Actor, type TeamSubject } from '../policy'
+import { audit, by } from '../history/service'
+import { reviewHistory } from '../review/queries'
+import { artworkCount, artworkPage, findArtwork, findRevision, latestSource, objectInUse, revisionsOf, type ArtworkFilter, type ArtworkRow, type RevisionRow } from './queries'
+import { inspectSource } from './sources'
+
+// ---------- reading ----------
+
+function toListItem(r: ArtworkRow): ArtworkListItem {
+  return {
+    id: r.id, title: r.title, status: r.status,
+    team: { id: r.teamId, name: r.team_name, colour: r.team_colour },
+    author: r.author_name,
+    latestRevision: r.latest ? { id: r.latest.id, number: r.latest.number } : null,
+    revisionCount: r.revision_count ?? 0,
+    updatedAt: new Date(r.updated_at).toISOString(),
+  }
+}
+
+const listCursor = z.object({ at: z.string().max(64), id: z.number().int().positive() })
+
+/** The artworks the actor may see, most recently changed first, a page at a time. */
+export async function listArtworks(db: Db, actor: Actor, o: ArtworkFilter & { cursor?: string; limit: number }): Promise<ArtworkPage> {
+  const after = decodeCursor(o.cursor, listCursor)
+  const [rows, total] = await Promise.all([artworkPage(db, actor, o, after, o.limit + 1), artworkCount(db, actor, o)])
+  const more = rows.length > o.limit
+  const shown = more ? rows.slice(0, o.limit) : rows
+  const last = shown[shown.length - 1]
+  return { items: shown.map(toListItem), total, nextCursor: more && last ? encodeCursor({ at: last.order_at, id: last.id }) : null }
+}
+
+function revisionSummary(r: { id: number; number: number; width_mm: number; height_mm: number; created_at: Date; author_name: string; status: RevisionSummary['status']; measurements: RevisionSummary['measurements'] }): RevisionSummary {
+  return { id: r.id, number: r.number, status: r.status, widthMm: r.width_mm, heightMm: r.height_mm, createdAt: new Date(r.created_at).toISOString(), author: r.author_name, measurements: r.measurements }
+}
+
+/** The artwork's page. The caller has found it in the actor's scope. */
+export async function artworkDetail(db: Db, actor: Actor, row: ArtworkRow): Promise<ArtworkDetail> {
+  const revisions = await revisionsOf(db, row.id)
+  return {
+    artwork: { ...toListItem(row), createdAt: new Date(row.created_at).toISOString() },
+    revisions: revisions.map(revisionSummary),
+    can: flags(actor, ['artwork.revise', 'revision.submit', 'revision.review'], row),
+  }
+}
+
+export async function revisionDetail(db: Db, row: RevisionRow): Promise<RevisionDetail> {
+  const base = `/api/revisions/${row.id}`
+  return {
+    reviews: await reviewHistory(db, row.id),
+    ...revisionSummary(row),
+    artworkId: row.artwork_id,
+    settings: row.settings as unknown as Record<string, unknown>,
+    timings: row.timings,
+    engineVersions: row.engine_versions,
+    source: { id: row.source_id, mediaType: row.media_type, fileName: row.file_name, widthPx: row.width_px, heightPx: row.height_px, bytes: row.bytes, contentHash: row.content_hash },
+    files: { vector: `${base}/vector.svg`, prepared: `${base}/prepared.png`, outline: `${base}/outline.svg`, source: `${base}/source` },
+  }
+}
+
+// ---------- writing ----------
+
+interface StoredFiles { prepared: string; outline: string; vector: string }
+
+/** Content-addressed keys: the same bytes are stored once and a stored file never changes. */
+async function storeResult(result: RunResult, created: string[]): Promise<StoredFiles> {
+  const enc = new TextEncoder()
+  const files: [keyof StoredFiles, Uint8Array, string][] = [
+    ['prepared', result.preparedPng, 'image/png'],
+    ['outline', enc.encode(result.rawOutlineSvg), 'image/svg+xml'],
+    ['vector', enc.encode(result.cleanSvg), 'image/svg+xml'],
+  ]
+  const keys: Partial<StoredFiles> = {}
+  for (const [name, bytes, type] of files) {
+    const key = `${name}/${contentHash(bytes)}.${type === 'image/png' ? 'png' : 'svg'}`
+    if (!(await objectExists(key))) {
+      await putObject(key, bytes, type)
+      created.push(key)
+    }
+    keys[name] = key
+  }
+  return keys as StoredFiles
+}
+
+/** After a failure: remove the objects this request wrote that no row points at. */
+async function removeOrphans(db: Db, keys: string[]): Promise<void> {
+  for (const key of keys) {
+    if (!(await objectInUse(db, key))) await deleteObject(key).catch((err) => console.error('[decalwright] could not remove', key, err))
+  }
+}
+
+async function insertRevision(trx: Transaction<Database>, o: { artworkId: number; sourceId: number; settings: PipelineSettings; result: RunResult; files: StoredFiles; authorId: number }) {
+  // Lock the artwork so two saves at once get consecutive numbers.
+  await trx.selectFrom('artwork').select('id').where('id', '=', o.artworkId).forUpdate().executeTakeFirstOrThrow()
+  const { next } = await trx.selectFrom('revision').select(sql<number>`coalesce(max(number), 0)::int + 1`.as('next'))
+    .where('artwork_id', '=', o.artworkId).executeTakeFirstOrThrow()
+  const m = o.result.measurements
+  const rev = await trx.insertInto('revision').values({
+    artwork_id: o.artworkId, number: next, source_id: o.sourceId,
+    settings: JSON.stringify(o.settings), width_mm: m.widthMm, height_mm: m.heightMm,
+    prepared_key: o.files.prepared, outline_key: o.files.outline, vector_key: o.files.vector,
+    measurements: JSON.stringify(m), timings: JSON.stringify(o.result.timings),
+    engine_versions: JSON.stringify(o.result.engineVersions), author_id: o.authorId,
+  }).returning(['id', 'number']).executeTakeFirstOrThrow()
+  await trx.updateTable('artwork').set({ updated_at: new Date() }).where('id', '=', o.artworkId).execute()
+  return rev
+}
+
+export interface NewArtwork { title: string; widthMm: number; fileName: string; bytes: Uint8Array }
+
+/** A new artwork from an uploaded picture, with revision 1 at default settings. The caller has checked `artwork.upload` in the team. */
+export async function createArtwork(db: Db, actor: Actor, team: TeamSubject, input: NewArtwork): Promise<CreatedArtwork> {
+  const facts = await inspectSource(input.bytes)
+  const settings = parseSettings({})
+  // The outline first: a file that cannot be traced leaves nothing behind.
+  const result = await runInPool({ source: input.bytes, settings, widthMm: input.widthMm, purpose: 'revision' })
+  const hash = contentHash(input.bytes)
+  const sourceKey = `sources/${hash}`
+  const created: string[] = []
+  try {
+    if (!(await objectExists(sourceKey))) {
+      await putObject(sourceKey, input.bytes, facts.mediaType)
+      created.push(sourceKey)
+    }
+    const files = await storeResult(result, created)
+    const ids = await inTransaction(db, async (trx) => {
+      const artwork = await trx.insertInto('artwork').values({ team_id: team.teamId, title: input.title, author_id: actor.id })
+        .returning('id').executeTakeFirstOrThrow()
+      const source = await trx.insertInto('source').values({
+        artwork_id: artwork.id, object_key: sourceKey, content_hash: hash, media_type: facts.mediaType,
+        file_name: input.fileName.slice(0, 200) || `source.${facts.extension}`, width_px: facts.widthPx, height_px: facts.heightPx,
+        bytes: input.bytes.byteLength, uploaded_by: actor.id,
+      }).returning('id').executeTakeFirstOrThrow()
+      const rev = await insertRevision(trx, { artworkId: artwork.id, sourceId: source.id, settings, result, files, authorId: actor.id })
+      await audit(trx, { ...by(actor), action: 'upload', subject: 'artwork', subjectId: artwork.id, detail: { title: input.title, revision: rev.number, fileName: input.fileName } })
+      return { artworkId: artwork.id, revisionId: rev.id }
+    })
+    const [artwork, revision] = await Promise.all([findArtwork(db, actor, ids.artworkId), findRevision(db, actor, ids.revisionId)])
+    return { artwork: toListItem(artwork!), revision: await revisionDetail(db, revision!) }
+  } catch (err) {
+    await removeOrphans(db, created)
+    throw err
+  }
+}
+
+export function parseSettingsOr400(input: unknown): PipelineSettings {
+  try {
+    return parseSettings(input)
+  } catch (err) {
+    if (err instanceof z.ZodError) throw invalidInput(err)
+    throw err
+  }
+}
+
+/** A new revision from new settings and size. The caller has checked `artwork.revise` on the artwork. */
+export async function createRevision(db: Db, actor: Actor, artwork: ArtworkRow, input: { settings: unknown; widthMm: number }): Promise<RevisionDetail> {
+  const settings = parseSettingsOr400(input.settings)
+  const source = await latestSource(db, artwork.id)
+  const bytes = await getObject(source.object_key)
+  const result = await runInPool({ source: bytes, settings, widthMm: input.widthMm, purpose: 'revision' })
+  const created: string[] = []
+  try {
+    const files = await storeResult(result, created)
+    const rev = await inTransaction(db, async (trx) => {
+      const r = await insertRevision(trx, { artworkId: artwork.id, sourceId: source.id, settings, result, files, authorId: actor.id })
+      await audit(trx, { ...by(actor), action: 'revise', subject: 'artwork', subjectId: artwork.id, detail: { title: artwork.title, revision: r.number } })
+      return r
+    })
+    return revisionDetail(db, (await findRevision(db, actor, rev.id))!)
+  } catch (err) {
+    await removeOrphans(db, created)
+    throw err
+  }
+}

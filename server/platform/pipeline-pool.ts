@@ -1,0 +1,56 @@
+import { existsSync } from 'node:fs'
+import os from 'node:os'
+import path from 'node:path'
+import Piscina from 'piscina'
+import { createError } from 'h3'
+import type { RunRequest, RunResult } from '../pipeline/run'
+import type { WorkerAnswer } from '../pipeline/worker'
+
+const WORKER_FILE = 'pipeline-worker.mjs'
+let pool: Piscina | undefined
+
+function workerPath(): string {
+  const candidates = [
+    process.env.DECALWRIGHT_PIPELINE_WORKER,
+    process.argv[1] ? path.join(path.dirname(process.argv[1]), WORKER_FILE) : undefined, // next to .output/server/index.mjs
+    path.resolve('.output/server', WORKER_FILE),
+    path.resolve('.nuxt', WORKER_FILE), // nuxt dev
+  ].filter((c): c is string => !!c)
+  const found = candidates.find((c) => existsSync(c))
+  if (!found) throw new Error(`The pipeline worker (${WORKER_FILE}) was not found; was the app built? Looked in: ${candidates.join(', ')}`)
+  return found
+}
+
+function usePipelinePool(): Piscina {
+  pool ??= new Piscina({
+    filename: workerPath(),
+    // One thread per core: tracing is CPU-bound; more threads only share the same cores.
+    maxThreads: Math.max(1, os.availableParallelism()),
+    minThreads: 1,
+    idleTimeout: 60_000,
+    // Requests beyond this wait in the queue; a flood is refused rather than exhausting memory.
+    maxQueue: 64,
+  })
+  return pool
+}
+
+/** Runs the pipeline off the request thread; pipeline errors become clear 4xx answers. */
+export async function runInPool(req: RunRequest, signal?: AbortSignal): Promise<RunResult> {
+  let answer: WorkerAnswer
+  try {
+    answer = await usePipelinePool().run(req, signal ? { signal } : undefined)
+  } catch (err) {
+    if (signal?.aborted) throw createError({ statusCode: 499, message: 'The request was withdrawn.' })
+    if ((err as Error).message?.includes('Task queue is at limit')) {
+      throw createError({ statusCode: 503, message: 'The outline workers are busy. Try again in a moment.' })
+    }
+    throw err
+  }
+  if (answer.ok) return answer.result
+  switch (answer.kind) {
+    case 'too-complex': throw createError({ statusCode: 422, message: answer.message, data: { setting: 'speckFilterMm2' } })
+    case 'prepare': throw createError({ statusCode: 422, message: answer.message })
+    case 'settings': throw createError({ statusCode: 400, message: answer.message })
+    default: throw new Error(`pipeline failed: ${answer.message}`)
+  }
+}

@@ -1,0 +1,75 @@
+import { sql, type ExpressionBuilder } from 'kysely'
+import { jsonArrayFrom } from 'kysely/helpers/postgres'
+import type { Database } from '../db/schema'
+import type { Db } from '../platform/db'
+import { teamScope, type Actor } from '../policy'
+
+/** A robot's placements, each with its jobs, as one JSON column of the robot's row. */
+function placementsOf(eb: ExpressionBuilder<Database, 'robot'>) {
+  return jsonArrayFrom(eb.selectFrom('placement')
+    .innerJoin('revision', 'revision.id', 'placement.revision_id')
+    .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
+    .innerJoin('film', 'film.id', 'placement.film_id')
+    .innerJoin('users', 'users.id', 'placement.created_by')
+    .select((p) => [
+      'placement.id', 'placement.spot', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.created_at',
+      'revision.id as revision_id', 'revision.number', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
+      'artwork.id as artwork_id', 'artwork.title', 'film.id as film_id', 'film.name as film_name', 'film.colour as film_colour', 'users.name as created_by',
+      jsonArrayFrom(p.selectFrom('job').select(['job.id', 'job.kind', 'job.quantity', 'job.state'])
+        .whereRef('job.placement_id', '=', 'placement.id').orderBy('job.id')).as('jobs'),
+    ])
+    .whereRef('placement.robot_id', '=', 'robot.id')
+    .orderBy('placement.id'))
+}
+
+function visibleRobots(db: Db, actor: Actor) {
+  return db.selectFrom('robot').innerJoin('team', 'team.id', 'robot.team_id')
+    .select((eb) => [
+      'robot.id', 'robot.name', 'robot.season', 'team.id as teamId', 'team.program_id as programId', 'team.name as team_name', 'team.colour as team_colour',
+      placementsOf(eb).as('placements'),
+    ])
+    .where(teamScope(actor, 'robot.view'))
+}
+
+export type RobotRow = Awaited<ReturnType<ReturnType<typeof visibleRobots>['executeTakeFirstOrThrow']>>
+
+export function findRobot(db: Db, actor: Actor, id: number): Promise<RobotRow | undefined> {
+  return visibleRobots(db, actor).where('robot.id', '=', id).executeTakeFirst()
+}
+
+export interface RobotKey { teamId: number; season: string; name: string; id: number }
+
+/** By team, newest season first, then by name (the robot_order index), after the row `after`. */
+export function robotPage(db: Db, actor: Actor, f: { teamId?: number }, after: RobotKey | undefined, limit: number) {
+  let q = visibleRobots(db, actor)
+  if (f.teamId) q = q.where('robot.team_id', '=', f.teamId)
+  if (after) {
+    q = q.where(sql<boolean>`(robot.team_id > ${after.teamId}
+      or (robot.team_id = ${after.teamId} and robot.season < ${after.season})
+      or (robot.team_id = ${after.teamId} and robot.season = ${after.season} and (robot.name, robot.id) > (${after.name}, ${after.id})))`)
+  }
+  return q.orderBy('robot.team_id').orderBy('robot.season', 'desc').orderBy('robot.name').orderBy('robot.id').limit(limit).execute()
+}
+
+/** A placement with what a reprint needs, if the actor may see its robot. */
+export function findPlacement(db: Db, actor: Actor, id: number) {
+  return db.selectFrom('placement').innerJoin('robot', 'robot.id', 'placement.robot_id').innerJoin('team', 'team.id', 'robot.team_id')
+    .innerJoin('revision', 'revision.id', 'placement.revision_id').innerJoin('artwork', 'artwork.id', 'revision.artwork_id').innerJoin('film', 'film.id', 'placement.film_id')
+    .select(['placement.id', 'placement.spot', 'placement.film_id', 'robot.id as robot_id', 'robot.name as robot_name', 'team.id as teamId', 'team.program_id as programId',
+      'artwork.title', 'film.chlorine_free', 'film.retired'])
+    .where('placement.id', '=', id).where(teamScope(actor, 'robot.view')).executeTakeFirst()
+}
+
+export type PlacementRow = NonNullable<Awaited<ReturnType<typeof findPlacement>>>
+
+/** Every approved revision of a team's artworks, the choice for a new placement. */
+export function approvedRevisionsOfTeam(db: Db, teamId: number) {
+  return db.selectFrom('revision')
+    .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
+    .innerJoin('revision_status', 'revision_status.revision_id', 'revision.id')
+    .select(['revision.id', 'revision.number', 'revision.width_mm', 'revision.height_mm', 'artwork.id as artwork_id', 'artwork.title',
+      sql<number | null>`(revision.measurements->>'narrowestFeatureMm')::double precision`.as('narrowest_mm')])
+    .where('artwork.team_id', '=', teamId).where('revision_status.status', '=', 'approved')
+    .orderBy('artwork.title').orderBy('revision.number', 'desc')
+    .execute()
+}

@@ -1,0 +1,48 @@
+// Files sent to the browser: stored revision files and cut sheets, with recognisable names
+// and headers that keep an SVG opened on its own from running anything.
+import { createError, getQuery, setResponseHeaders, type H3Event } from 'h3'
+import { extensionFor } from '#shared/constants/uploads'
+import { fileSlug } from '../platform/file-names'
+import { getObject } from '../platform/object-store'
+import type { RevisionRow } from '../artworks/queries'
+import type { CutSheetFiles } from '../jobs/service'
+
+const SANDBOX = "default-src 'none'; style-src 'unsafe-inline'; sandbox"
+
+export type RevisionFile = 'vector' | 'prepared' | 'outline' | 'source'
+
+/** One stored file of a revision with its content type and a file name people can recognise. */
+export async function sendRevisionFile(event: H3Event, row: RevisionRow, kind: RevisionFile): Promise<Buffer> {
+  const base = `${fileSlug(row.title, 60, 'artwork')}-r${row.number}`
+  const file = {
+    vector: { key: row.vector_key, type: 'image/svg+xml', name: `${base}.svg` },
+    outline: { key: row.outline_key, type: 'image/svg+xml', name: `${base}-outline-px.svg` },
+    prepared: { key: row.prepared_key, type: 'image/png', name: `${base}-prepared.png` },
+    source: { key: row.source_key, type: row.media_type, name: `${base}-source.${extensionFor(row.media_type)}` },
+  }[kind]
+  const bytes = await getObject(file.key)
+  setResponseHeaders(event, {
+    'content-type': file.type,
+    'content-disposition': `${getQuery(event).download ? 'attachment' : 'inline'}; filename="${file.name}"`,
+    // Content-addressed and immutable.
+    'cache-control': 'private, max-age=31536000, immutable',
+    'x-content-type-options': 'nosniff',
+    'content-security-policy': SANDBOX,
+  })
+  return bytes
+}
+
+/** Sheet number `sheet` (from 1) of a cut sheet. */
+export function sendCutSheet(event: H3Event, sheets: CutSheetFiles, format: 'svg' | 'dxf', sheet: number): string {
+  const file = sheets.files[sheet - 1]
+  if (!file) throw createError({ statusCode: 404, message: `This job has ${sheets.files.length} sheet${sheets.files.length === 1 ? '' : 's'}.` })
+  const suffix = sheets.files.length > 1 ? `-sheet${sheet}of${sheets.files.length}` : ''
+  setResponseHeaders(event, {
+    'content-type': format === 'svg' ? 'image/svg+xml' : 'application/dxf',
+    'content-disposition': `attachment; filename="${sheets.name}${suffix}.${format}"`,
+    'x-content-type-options': 'nosniff',
+    'content-security-policy': SANDBOX,
+    'x-sheet-count': String(sheets.files.length),
+  })
+  return file
+}

@@ -1,0 +1,41 @@
+// What a person may do. The server decides (server/policy); the API hands its answers to the
+// pages as `can` flags named by these actions, so no page decides for itself.
+
+/** Work that belongs to the program as a whole: a mentor's, and the cut queue. */
+export const PROGRAM_ACTIONS = [
+  'team.manage', // create and rename teams
+  'people.manage', // people, their roles and invitations
+  'film.manage', // the film stock
+  'robot.create',
+  'revision.review', // approve or send back
+  'audit.view', // the program's activity
+  'mail.view', // the local mail fake's outbox
+  'program.manage', // the laser's work area
+  'queue.work', // the cut queue: move jobs, download cut sheets
+] as const
+export type ProgramAction = (typeof PROGRAM_ACTIONS)[number]
+
+/** Work on one team's things: the person's role in that team decides. */
+export const TEAM_ACTIONS = [
+  'team.view', // see the team in lists
+  'team.members', // the team's page with its members
+  'artwork.view',
+  'artwork.upload',
+  'artwork.revise', // tune on the bench, save a new revision
+  'revision.submit',
+  'robot.view',
+  'placement.create',
+  'placement.reprint',
+  'job.view',
+] as const
+export type TeamAction = (typeof TEAM_ACTIONS)[number]
+
+export type Action = ProgramAction | TeamAction
+export const ACTIONS: readonly Action[] = [...PROGRAM_ACTIONS, ...TEAM_ACTIONS]
+
+/** The answers for some actions: `can['artwork.revise']`. */
+export type Can<A extends Action = Action> = { [K in A]: boolean }
+
+export function isProgramAction(action: Action): action is ProgramAction {
+  return (PROGRAM_ACTIONS as readonly string[]).includes(action)
+}

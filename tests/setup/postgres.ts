@@ -1,0 +1,34 @@
+// Once per run of the service tests: a PostgreSQL cluster of their own (nothing else: no
+// object store, no mail, no app build), migrated to the latest schema. Each test then works
+// inside a transaction that is rolled back (tests/support/service.ts).
+import { rmSync } from 'node:fs'
+import path from 'node:path'
+import type { TestProject } from 'vitest/node'
+import { startPostgres } from '../../scripts/lib/services'
+import { createDb, migrateToLatest } from '../../server/db/connect'
+
+// Beside the e2e project's folder (which that project empties when it starts), ten ports up.
+const offset = Number(process.env.DECALWRIGHT_TEST_PORT_OFFSET ?? 0)
+export const SERVICE_PG_PORT = 54349 + offset
+
+declare module 'vitest' {
+  export interface ProvidedContext {
+    serviceDatabaseUrl: string
+  }
+}
+
+export default async function setup(project: TestProject) {
+  const dir = path.resolve(`${process.env.DECALWRIGHT_TEST_STORAGE ?? 'storage/test'}-service`)
+  rmSync(dir, { recursive: true, force: true })
+  const pg = await startPostgres({ dir, port: SERVICE_PG_PORT })
+  try {
+    const db = createDb(pg.url, 1)
+    await migrateToLatest(db)
+    await db.destroy()
+  } catch (err) {
+    await pg.stop()
+    throw err
+  }
+  project.provide('serviceDatabaseUrl', pg.url)
+  return () => pg.stop()
+}
