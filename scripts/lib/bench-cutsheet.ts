@@ -50,7 +50,7 @@ function wobble(cx: number, cy: number, r: number, n: number, k: number, a: numb
 }
 
 /** A 35 × 22 mm drawing of 3,500 nodes: a wavy outline of 1,000 segments and 50 holes of 50. */
-export function detailedDrawing(): { curves: CutCurve[], widthMm: number, heightMm: number, nodes: number } {
+export function detailedDrawing(): { curves: CutCurve[]; widthMm: number; heightMm: number; nodes: number } {
   const W = 35, H = 22
   const curves: CutCurve[] = []
   // The outline: an ellipse-like wobble filling the box (scaled circle).
@@ -151,5 +151,4 @@ export async function benchCutSheets(runs: number): Promise<void> {
     const st = [0, 1, 2].map((k) => median(stages.map((x) => x[k]!)).toFixed(0)).join(' · ')
     console.log(`  ${name.padEnd(46)} ${ms(median(wall))} (${(median(wall) / Math.max(median(floor), 0.01)).toFixed(0)}× floor) ${ms(median(cpu))}   ${st} ms`)
   }
-
 }

@@ -1,3 +1,5 @@
+// eslint-disable-next-line @typescript-eslint/triple-slash-reference -- the ESM build's ambient types must reach every project that compiles this file
+/// <reference path="./maxrects-packer.d.ts" />
 // Packing a batch: the copies of several designs on as many sheets of one film as they need.
 //
 // Each copy takes a slot: its box (the drawn box grown by half the kerf), the weeding frame

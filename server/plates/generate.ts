@@ -49,7 +49,7 @@ export interface PlateRequest {
    * the numerals whole ('under') or has their shapes cut out ('knock-out'). null: no background
    * layer (the default when the profile asks for none, e.g. numerals straight on a bumper).
    */
-  background?: { colour?: PlateColour, style?: 'under' | 'knock-out' } | null
+  background?: { colour?: PlateColour; style?: 'under' | 'knock-out' } | null
 }
 
 export type PlateLayerRole = 'background' | 'numerals'
@@ -69,7 +69,7 @@ export interface PlateLayer {
 export interface GeneratedPlate {
   teamNumber: string
   profileKey: string
-  font: { id: string, family: string, style: string, licence: string }
+  font: { id: string; family: string; style: string; licence: string }
   widthMm: number
   heightMm: number
   numeralHeightMm: number
@@ -81,7 +81,7 @@ export interface GeneratedPlate {
   layers: PlateLayer[]
 }
 
-interface GlyphBox { minX: number, minY: number, maxX: number, maxY: number }
+interface GlyphBox { minX: number; minY: number; maxX: number; maxY: number }
 
 interface NumberLayout {
   glyphs: opentype.Glyph[]
@@ -120,7 +120,7 @@ export function layoutNumber(teamNumber: string, font: PlateFont): NumberLayout 
 
 const ceil2 = (v: number) => Math.ceil(v * 100 - 1e-7) / 100
 
-function heightLimits(profile: RuleProfile): { min: number, max: number } {
+function heightLimits(profile: RuleProfile): { min: number; max: number } {
   const lo = profile.numerals.minHeight, hi = profile.numerals.maxHeight
   return { min: lo ? lengthMm(lo.value) : 0, max: hi ? lengthMm(hi.value) : Infinity }
 }

@@ -31,12 +31,12 @@ export type LayerMeasurements = Pick<Measurements,
   /** Least distance from the ink's bounding box to the edge of the vector's box, mm; null without ink. */
   marginMm: number | null
   /** Bounding box of all ink, mm (y down from the top-left corner). */
-  inkBounds: { minX: number, minY: number, maxX: number, maxY: number } | null
+  inkBounds: { minX: number; minY: number; maxX: number; maxY: number } | null
   /** Coarsest resolution at which the narrowest stroke was measured, px/mm (0 when skipped). */
   strokePxPerMm: number
 }
 
-interface Box { minX: number, minY: number, maxX: number, maxY: number }
+interface Box { minX: number; minY: number; maxX: number; maxY: number }
 
 const overlaps = (a: Box, b: Box) => a.minX <= b.maxX && b.minX <= a.maxX && a.minY <= b.maxY && b.minY <= a.maxY
 const union = (a: Box, b: Box): Box => ({
@@ -65,7 +65,7 @@ function windowDocument(svg: string, w: Box): string {
   return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="${w.minX} ${w.minY} ${w.maxX - w.minX} ${w.maxY - w.minY}">${paths.join('')}</svg>`
 }
 
-async function narrowestStroke(svg: string, windows: Box[], pxPerMm: number, maxPixels: number): Promise<{ mm: number | null, pxPerMm: number }> {
+async function narrowestStroke(svg: string, windows: Box[], pxPerMm: number, maxPixels: number): Promise<{ mm: number | null; pxPerMm: number }> {
   let least: number | null = null
   let coarsest = pxPerMm
   for (const w0 of windows) {

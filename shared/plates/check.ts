@@ -125,7 +125,7 @@ function missingSides(rule: SideRule, present: Set<Upright>): Upright[] | 'more'
   return UPRIGHT_SIDES.filter((s) => present.has(s)).map((s) => OPPOSITE[s])
 }
 
-interface SideFinding { met: boolean, missing: string, found: string }
+interface SideFinding { met: boolean; missing: string; found: string }
 
 /** What the placed plates (those of one colour, when `colour` is given) lack for the side rule. */
 function sideFinding(rule: SideRule, plates: PlacedPlate[], colour?: PlateColour): SideFinding {
@@ -245,7 +245,7 @@ function strokeRule(profile: RuleProfile): PlateRule | null {
   }
 }
 
-function colourRule(rule: 'numeral-colour' | 'background', allowed: { value: PlateColour[], source: RuleSource }): PlateRule {
+function colourRule(rule: 'numeral-colour' | 'background', allowed: { value: PlateColour[]; source: RuleSource }): PlateRule {
   const words = orList(allowed.value)
   const numerals = rule === 'numeral-colour'
   const demand = numerals ? `${words} numerals` : `a ${words} background`

@@ -1,7 +1,6 @@
-import { describe, expect, it } from 'vitest'
+import { describe, expect, it, inject } from 'vitest'
 import { execFile } from 'node:child_process'
 import { promisify } from 'node:util'
-import { inject } from 'vitest'
 import { ApiClient, uniqueEmail } from '../support/client'
 import { testDb } from '../support/db'
 

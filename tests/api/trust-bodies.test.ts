@@ -1,7 +1,6 @@
 // Bodies are limited while they are read, not after: a chunked upload or JSON body far over
 // the limit is refused with 413 after the limit's worth of bytes, and the app stays up.
-import { describe, expect, it } from 'vitest'
-import { inject } from 'vitest'
+import { describe, expect, inject, it } from 'vitest'
 import { ApiClient, signedIn } from '../support/client'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 import { teamId } from '../support/scenario'

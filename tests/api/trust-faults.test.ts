@@ -4,8 +4,7 @@
 // objects nobody points at are swept once they are old enough.
 import { CreateBucketCommand, PutObjectCommand, HeadObjectCommand, S3Client } from '@aws-sdk/client-s3'
 import { sql } from 'kysely'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import { signedIn } from '../support/client'
 import { freshDatabase, testDb } from '../support/db'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'

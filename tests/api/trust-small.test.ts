@@ -1,8 +1,7 @@
 // Smaller defects of the same classes: page headers, odd query strings, degenerate uploads,
 // loose number parsing, and what students see of each other.
 import sharp from 'sharp'
-import { describe, expect, it } from 'vitest'
-import { inject } from 'vitest'
+import { describe, expect, it, inject } from 'vitest'
 import { ApiClient, signedIn } from '../support/client'
 import { testDb } from '../support/db'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'

@@ -15,7 +15,7 @@ const CHARS = '0123456789ABCDEFGHIJKLMNOPQRSTUVWXYZ'
 
 interface FontToolsAnswer {
   unitsPerEm: number
-  glyphs: Record<string, { name: string, advance: number, bounds: [number, number, number, number] }>
+  glyphs: Record<string, { name: string; advance: number; bounds: [number, number, number, number] }>
 }
 
 function readWithFontTools(file: string): FontToolsAnswer {

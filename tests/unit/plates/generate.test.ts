@@ -6,7 +6,7 @@ import { readCleanVector, readSvgRoot } from '../../../server/cutsheet/path'
 import { loadPlateFont } from '../../../server/plates/font'
 import { DEFAULT_CORNER_RADIUS_MM, PlateRequestError, generatePlate, type GeneratedPlate, type PlateRequest } from '../../../server/plates/generate'
 import { measureLayer } from '../../../server/plates/measure'
-import { copyProfile, lengthMm, presetProfile, type RuleProfile } from '../../../shared/plates/profiles'
+import { lengthMm, presetProfile, type RuleProfile } from '../../../shared/plates/profiles'
 
 const font = loadPlateFont()
 const FTC = presetProfile('ftc-2025-26')!, VEX = presetProfile('v5rc-2024-25')!, FRC = presetProfile('frc-2023')!
@@ -19,7 +19,7 @@ const background = (p: GeneratedPlate) => p.layers.find((l) => l.role === 'backg
  * a window around the ink: the sum over rows of each row's largest coverage. A flat top or
  * bottom edge counts its partial row exactly; a round one loses less than a pixel (0.02 mm).
  */
-async function paintedInkHeightMm(svg: string, bounds: { minX: number, minY: number, maxX: number, maxY: number }): Promise<number> {
+async function paintedInkHeightMm(svg: string, bounds: { minX: number; minY: number; maxX: number; maxY: number }): Promise<number> {
   const k = 50, pad = 1
   const x = bounds.minX - pad, y = bounds.minY - pad
   const wPx = Math.ceil((bounds.maxX - bounds.minX + 2 * pad) * k), hPx = Math.ceil((bounds.maxY - bounds.minY + 2 * pad) * k)

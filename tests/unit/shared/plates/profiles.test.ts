@@ -11,7 +11,7 @@ const preset = (key: string): RuleProfile => {
 }
 
 /** Every { value, source } in a profile, with its path. */
-function ruledValues(node: unknown, path = ''): Array<{ path: string, source: RuleSource }> {
+function ruledValues(node: unknown, path = ''): Array<{ path: string; source: RuleSource }> {
   if (!node || typeof node !== 'object') return []
   if ('source' in node && 'value' in node) return [{ path, source: (node as { source: RuleSource }).source }]
   return Object.entries(node).flatMap(([k, v]) => ruledValues(v, path ? `${path}.${k}` : k))
@@ -53,11 +53,11 @@ describe('preset rule profiles', () => {
     ['v5rc-2024-25', 'plate.minHeight', 2.48, 62.992, 'R10'],
   ] as const)('%s %s is %s in = %s mm (%s)', (key, path, inches, mm, rule) => {
     const [group, field] = path.split('.') as ['numerals' | 'plate', string]
-    const ruled = (preset(key)[group] as Record<string, { value: { value: number, unit: string }, source: RuleSource } | null>)[field]
+    const ruled = (preset(key)[group] as Record<string, { value: { value: number; unit: string }; source: RuleSource } | null>)[field]
     expect(ruled).not.toBeNull()
     expect(ruled!.value).toEqual({ value: inches, unit: 'in' })
     expect(ruled!.source.rule).toBe(rule)
-    expect(lengthMm(ruled!.value as { value: number, unit: 'in' })).toBeCloseTo(mm, 9)
+    expect(lengthMm(ruled!.value as { value: number; unit: 'in' })).toBeCloseTo(mm, 9)
   })
 
   it('state the colours, sides and alliance rules the issue quotes', () => {
