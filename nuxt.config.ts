@@ -74,6 +74,13 @@ export default defineNuxtConfig({
     mailFrom: 'Decalwright <decalwright@localhost>',
     // NUXT_MAIL_OUTBOX_DIR: set only when the local SMTP fake is in use; enables the mail page.
     mailOutboxDir: '',
+    // NUXT_MAIL_RETRY_BASE_MS: the first wait before a failed delivery is tried again (doubling, at most 15 min).
+    mailRetryBaseMs: 5000,
+    // NUXT_TRUSTED_PROXIES: addresses or CIDR ranges of the proxies in front of the app, comma
+    // separated; only their X-Forwarded-For and X-Forwarded-Host are believed. Default: none.
+    trustedProxies: '',
+    // NUXT_DB_QUERY_TIMEOUT_MS: how long one database query may take before the request is answered 503.
+    dbQueryTimeoutMs: 15000,
     // NUXT_PUBLIC_BASE_URL: used for links in e-mail.
     public: {
       baseUrl: 'http://localhost:3000',

@@ -68,6 +68,8 @@ function known(e: AuditEntry, d: Detail, ctx: AuditContext): string {
       return `deactivated ${name}`
     case 'reactivate':
       return `reactivated ${name}`
+    case 'sign-out-everywhere':
+      return `signed ${name} out on every device`
     case 'change-role': {
       if (typeof d.mentor === 'boolean') return d.mentor ? `made ${name} a mentor` : `removed ${name} as a mentor`
       const team = text(d, 'team') ?? 'a team'

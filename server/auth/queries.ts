@@ -21,10 +21,3 @@ export function actorRow(db: Db, userId: number) {
 export function userByEmail(db: Db, email: string) {
   return db.selectFrom('users').selectAll().where('email', '=', email).executeTakeFirst()
 }
-
-export function failuresSince(db: Db, by: { email: string } | { ip: string }, since: Date) {
-  let q = db.selectFrom('sign_in_attempt').select([sql<number>`count(*)::int`.as('n'), sql<Date | null>`min(at)`.as('first')])
-    .where('succeeded', '=', false).where('at', '>', since)
-  q = 'email' in by ? q.where('email', '=', by.email) : q.where('ip', '=', by.ip)
-  return q.executeTakeFirstOrThrow()
-}

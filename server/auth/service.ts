@@ -3,8 +3,8 @@ import { createError } from 'h3'
 import type { Me, ResetPreview } from '#shared/types/api'
 import type { MemberRole } from '#shared/types/roles'
 import { inTransaction, type Db } from '../platform/db'
-import { absoluteUrl, sendMail } from '../platform/mail'
-import { outboxDir } from '../platform/mail-outbox'
+import { absoluteUrl, queueMail } from '../platform/mail'
+import { mailFakeInUse } from '../mail/outbox'
 import { hashPassword, verifyPassword } from '../platform/passwords'
 import { hashToken, newToken, RESET_TTL_MS } from '../platform/tokens'
 import { actorRoles, programFlags, teamFlags, type Actor } from '../policy'
@@ -13,7 +13,9 @@ import { resetMail } from '../mail/templates'
 import { LINK_GONE, LINK_UNKNOWN } from '../people/invitations'
 import { listTeams } from '../people/service'
 import { homeFor } from './home'
-import { actorRow, failuresSince, userByEmail } from './queries'
+import { endUserSessions } from './sessions'
+import { actorRow, userByEmail } from './queries'
+import { forgetCount, lowerCount, raiseCount } from './rate'
 
 /** The active user with roles read fresh from the database; undefined for a deactivated or unknown one. */
 export async function loadActor(db: Db, userId: number, ip: string | null): Promise<Actor | undefined> {
@@ -27,22 +29,18 @@ export async function loadActor(db: Db, userId: number, ip: string | null): Prom
   }
 }
 
-// Sign-in attempts are counted in PostgreSQL so the limit holds across several app processes.
+// Sign-in limits, counted in PostgreSQL so they hold across app processes, and keyed on what a
+// guesser cannot change at will:
+// - one source guessing one account: 5 wrong passwords in 15 minutes, then that pair waits;
+// - one source guessing many accounts: 50 in 15 minutes, then that source waits;
+// - one account guessed from many sources: slowed down, never locked, so a stranger cannot
+//   lock its owner out, and the right password from a source that has not been guessing
+//   always gets in.
 export const SIGN_IN_WINDOW_MS = 15 * 60 * 1000
-export const MAX_FAILURES_PER_EMAIL = 5
-export const MAX_FAILURES_PER_IP = 50
-
-/** Seconds until another attempt is allowed, or 0 when it is allowed now. */
-async function retryAfterSeconds(db: Db, email: string, ip: string): Promise<number> {
-  const since = new Date(Date.now() - SIGN_IN_WINDOW_MS)
-  const byEmail = await failuresSince(db, { email }, since)
-  const byIp = await failuresSince(db, { ip }, since)
-  const waits: number[] = []
-  for (const [row, max] of [[byEmail, MAX_FAILURES_PER_EMAIL], [byIp, MAX_FAILURES_PER_IP]] as const) {
-    if (row.n >= max && row.first) waits.push(Math.ceil((new Date(row.first).getTime() + SIGN_IN_WINDOW_MS - Date.now()) / 1000))
-  }
-  return Math.max(0, ...waits)
-}
+export const MAX_FAILURES_PER_PAIR = 5
+export const MAX_FAILURES_PER_SOURCE = 50
+const SLOW_AFTER_FAILURES = 5
+const MAX_SLOWDOWN_MS = 4000
 
 let dummy: Promise<string> | undefined
 function dummyHash(): Promise<string> {
@@ -52,11 +50,21 @@ function dummyHash(): Promise<string> {
 
 export type SignInResult = { ok: true; userId: number } | { ok: false; retryAfterSeconds: number }
 
-/** Checks a password; 401 for a wrong one. A source that tried too often is told when to come back. */
+/** Checks a password; 401 for a wrong one. A source that guessed too often is told when to come back. */
 export async function signIn(db: Db, input: { email: string; password: string; ip: string }): Promise<SignInResult> {
   const { email, password, ip } = input
-  const wait = await retryAfterSeconds(db, email, ip)
-  if (wait > 0) return { ok: false, retryAfterSeconds: wait }
+  const keys = { source: `sign-in:source:${ip}`, pair: `sign-in:pair:${ip}:${email}`, account: `sign-in:account:${email}` }
+  // Every attempt counts as a failure until the password proves right: counted first, checked
+  // after, so parallel guesses cannot all pass under the limit.
+  const pair = await raiseCount(db, keys.pair, SIGN_IN_WINDOW_MS)
+  const source = await raiseCount(db, keys.source, SIGN_IN_WINDOW_MS)
+  if (pair.count > MAX_FAILURES_PER_PAIR || source.count > MAX_FAILURES_PER_SOURCE) {
+    return { ok: false, retryAfterSeconds: Math.max(pair.count > MAX_FAILURES_PER_PAIR ? pair.retryAfterSeconds : 0, source.count > MAX_FAILURES_PER_SOURCE ? source.retryAfterSeconds : 0) }
+  }
+  const account = await raiseCount(db, keys.account, SIGN_IN_WINDOW_MS)
+  if (account.count > SLOW_AFTER_FAILURES) {
+    await new Promise((r) => setTimeout(r, Math.min(MAX_SLOWDOWN_MS, 250 * 2 ** (account.count - SLOW_AFTER_FAILURES - 1))))
+  }
   const user = await userByEmail(db, email)
   // Verify against a real hash even for an unknown address, so timing does not tell which e-mails exist.
   const ok = user?.password_hash
@@ -65,6 +73,12 @@ export async function signIn(db: Db, input: { email: string; password: string; i
   const succeeded = ok && !!user?.active
   await inTransaction(db, async (trx) => {
     await trx.insertInto('sign_in_attempt').values({ email, ip, succeeded }).execute()
+    if (succeeded) {
+      // Not a failure after all; and this source has shown it knows the password.
+      await forgetCount(trx, keys.pair)
+      await lowerCount(trx, keys.source)
+      await lowerCount(trx, keys.account)
+    }
     if (!user) return
     if (succeeded) {
       await audit(trx, { programId: user.program_id, actorId: user.id, ip, action: 'sign-in', subject: 'user', subjectId: user.id, detail: {} })
@@ -79,16 +93,32 @@ export async function signIn(db: Db, input: { email: string; password: string; i
 
 // ---------- password resets and first passwords ----------
 
-/** Mails a reset link to an active account; the answer is the same whether or not one exists. */
-export async function requestReset(db: Db, email: string, ip: string | null): Promise<void> {
+/** At most this many reset mails an hour to one address, whoever asks. */
+export const MAX_RESETS_PER_ADDRESS = 3
+export const RESET_ADDRESS_WINDOW_MS = 60 * 60 * 1000
+/** At most this many reset requests in 15 minutes from one source. */
+export const MAX_RESET_REQUESTS_PER_SOURCE = 10
+export const RESET_SOURCE_WINDOW_MS = 15 * 60 * 1000
+
+/**
+ * Writes a reset link for an active account into the outbox; the mail goes out after the
+ * answer. The answer, and the work before it, are the same whether or not the address has an
+ * account (and whether or not its hourly allowance is used up), so neither the answer nor its
+ * timing tells which addresses exist. A source asking too often is refused.
+ */
+export async function requestReset(db: Db, email: string, ip: string): Promise<{ ok: true } | { ok: false; retryAfterSeconds: number }> {
+  const source = await raiseCount(db, `reset:source:${ip}`, RESET_SOURCE_WINDOW_MS)
+  if (source.count > MAX_RESET_REQUESTS_PER_SOURCE) return { ok: false, retryAfterSeconds: source.retryAfterSeconds }
+  const address = await raiseCount(db, `reset:address:${email}`, RESET_ADDRESS_WINDOW_MS)
   const user = await db.selectFrom('users').select(['id', 'name', 'email', 'program_id', 'active']).where('email', '=', email).executeTakeFirst()
-  if (!user || !user.active) return
+  if (!user || !user.active || address.count > MAX_RESETS_PER_ADDRESS) return { ok: true }
   const { token, hash } = newToken()
   await inTransaction(db, async (trx) => {
     await trx.insertInto('password_reset').values({ user_id: user.id, token_hash: hash, purpose: 'reset', expires_at: new Date(Date.now() + RESET_TTL_MS) }).execute()
     await audit(trx, { programId: user.program_id, actorId: user.id, ip, action: 'request-reset', subject: 'user', subjectId: user.id, detail: {} })
-    await sendMail(resetMail({ to: user.email, name: user.name, url: absoluteUrl(`/reset/${token}`) }))
+    await queueMail(trx, user.program_id, resetMail({ to: user.email, name: user.name, url: absoluteUrl(`/reset/${token}`) }))
   })
+  return { ok: true }
 }
 
 async function findReset(db: Db, token: string, lock = false) {
@@ -113,7 +143,8 @@ export async function completeReset(db: Db, token: string, password: string, ip:
   return inTransaction(db, async (trx) => {
     const row = await findReset(trx, token, true)
     await trx.updateTable('users').set({ password_hash: passwordHash }).where('id', '=', row.user_id).execute()
-    // Every other outstanding link for this account dies with this one.
+    // Every other outstanding link and every session of this account die with this one.
+    await endUserSessions(trx, row.user_id, 'password-reset')
     await trx.updateTable('password_reset').set({ used_at: new Date() }).where('user_id', '=', row.user_id).where('used_at', 'is', null).execute()
     await audit(trx, { programId: row.program_id, actorId: row.user_id, ip, action: row.purpose === 'welcome' ? 'set-first-password' : 'reset-password', subject: 'user', subjectId: row.user_id, detail: {} })
     return row.user_id
@@ -139,7 +170,7 @@ export async function describeMe(db: Db, actor: Actor): Promise<Me> {
       can: teamFlags(actor, { teamId: t.id, programId: actor.programId }),
     })),
     home: homeFor(actor),
-    mailFake: !!outboxDir(),
+    mailFake: mailFakeInUse(),
     can: programFlags(actor),
   }
 }

@@ -19,7 +19,8 @@ export interface DbOptions {
 export const DB_DEFAULTS = { max: 10, connectTimeoutMs: 5000, queryTimeoutMs: 15_000 } as const
 
 export function createDb(connectionString: string, options: DbOptions | number = {}): Kysely<Database> {
-  const o = { ...DB_DEFAULTS, ...(typeof options === 'number' ? { max: options } : options) }
+  const given = typeof options === 'number' ? { max: options } : options
+  const o = { ...DB_DEFAULTS, ...Object.fromEntries(Object.entries(given).filter(([, v]) => v !== undefined)) }
   const pool = new pg.Pool({
     connectionString,
     max: o.max,

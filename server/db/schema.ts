@@ -216,6 +216,36 @@ export interface JobTable {
   applied_at: Timestamp | null
 }
 
+export interface MailOutboxTable {
+  id: Generated<number>
+  program_id: number | null
+  to_email: string
+  subject: string
+  text: string
+  html: string
+  created_at: CreatedAt
+  attempts: Generated<number>
+  next_attempt_at: ColumnType<Date, Date | string | undefined, Date | string>
+  last_error: string | null
+  sent_at: Timestamp | null
+}
+
+export interface UserSessionTable {
+  id_hash: string
+  user_id: number
+  created_at: CreatedAt
+  last_seen_at: ColumnType<Date, Date | string | undefined, Date | string>
+  expires_at: Timestamp
+  ended_at: Timestamp | null
+  ended_why: string | null
+}
+
+export interface RateCountTable {
+  key: string
+  window_started_at: Timestamp
+  count: number
+}
+
 export interface Database {
   program: ProgramTable
   users: UsersTable
@@ -235,4 +265,7 @@ export interface Database {
   robot: RobotTable
   placement: PlacementTable
   job: JobTable
+  mail_outbox: MailOutboxTable
+  user_session: UserSessionTable
+  rate_count: RateCountTable
 }

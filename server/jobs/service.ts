@@ -13,7 +13,7 @@ import { cutSheetSvg } from '../cutsheet/svg'
 import { cutSheetDxf } from '../cutsheet/dxf'
 import { decodeCursor, pageOf } from '../platform/cursor'
 import { inTransaction, type Db } from '../platform/db'
-import { absoluteUrl, sendMail } from '../platform/mail'
+import { absoluteUrl, queueMail } from '../platform/mail'
 import { fileSlug } from '../platform/file-names'
 import { getObject } from '../platform/object-store'
 import { flags, type Actor } from '../policy'
@@ -51,7 +51,7 @@ export async function queueJob(trx: Transaction<Database>, actor: Actor, o: NewJ
     detail: { title: o.title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason }, about: { robotId: o.robotId },
   })
   const to = await operatorEmails(trx, actor.programId, o.teamId)
-  if (to.length) await sendMail(newJobMail({ to, kind: o.kind, title: o.title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason, by: actor.name, url: absoluteUrl(`/lab/jobs/${job.id}`) }))
+  await queueMail(trx, actor.programId, newJobMail({ to, kind: o.kind, title: o.title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason, by: actor.name, url: absoluteUrl(`/lab/jobs/${job.id}`) }))
   return job.id
 }
 

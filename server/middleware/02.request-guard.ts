@@ -6,6 +6,7 @@
 // - body size: JSON bodies are small; a declared length over the limit is refused with 413
 //   before anything is read. Routes that take files set their own, larger limit.
 import { formatBytes } from '../platform/http'
+import { requestHost } from '../platform/client-address'
 
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS'])
 
@@ -17,7 +18,8 @@ export default defineEventHandler((event) => {
   }
   const origin = getRequestHeader(event, 'origin')
   if (origin) {
-    const host = getRequestURL(event, { xForwardedHost: true }).host
+    // The host the request was sent to; a forwarded host counts only from a trusted proxy.
+    const host = requestHost(event)
     let originHost = ''
     try { originHost = new URL(origin).host } catch { /* "null" or garbage */ }
     if (originHost !== host) {

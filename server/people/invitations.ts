@@ -4,7 +4,7 @@ import type { InvitationPreview, PendingInvitation } from '#shared/types/api'
 import type { Role } from '#shared/types/roles'
 import { inTransaction, type Db } from '../platform/db'
 import { fieldError } from '../platform/http'
-import { absoluteUrl, sendMail } from '../platform/mail'
+import { absoluteUrl, queueMail } from '../platform/mail'
 import { hashPassword } from '../platform/passwords'
 import { hashToken, INVITATION_TTL_MS, newToken } from '../platform/tokens'
 import type { Actor } from '../policy'
@@ -62,8 +62,8 @@ export async function createInvitation(db: Db, actor: Actor, input: { email: str
       ...by(actor), action: 'invite', subject: 'invitation', subjectId: row.id,
       detail: { email: input.email, name: input.name, role: input.role, team: teamName },
     })
-    // Sent inside the transaction: if the mail cannot go out, no invitation is left behind.
-    await sendMail(invitationMail({
+    // Into the outbox with the invitation: both are kept, or neither.
+    await queueMail(trx, actor.programId, invitationMail({
       to: input.email, name: input.name, inviter: actor.name, programName: program.name, role: input.role, teamName,
       url: absoluteUrl(`/invitations/${token}`),
     }))

@@ -3,6 +3,7 @@ import { createError } from 'h3'
 import type { Person, TeamDetail, TeamSummary } from '#shared/types/api'
 import type { MemberRole } from '#shared/types/roles'
 import { inTransaction, type Db } from '../platform/db'
+import { endUserSessions } from '../auth/sessions'
 import { fieldError } from '../platform/http'
 import { flags, type Actor } from '../policy'
 import { audit, by } from '../history/service'
@@ -79,6 +80,15 @@ export async function findPerson(db: Db, actor: Actor, userId: number): Promise<
   return toPerson(row)
 }
 
+/** Ends every session of a person of the program (a lost laptop, a shared computer left signed in). */
+export async function signOutEverywhere(db: Db, actor: Actor, userId: number): Promise<void> {
+  await inTransaction(db, async (trx) => {
+    const person = await findPerson(trx, actor, userId)
+    const sessions = await endUserSessions(trx, userId, 'signed-out-everywhere')
+    await audit(trx, { ...by(actor), action: 'sign-out-everywhere', subject: 'user', subjectId: userId, detail: { name: person.name, sessions } })
+  })
+}
+
 export async function updatePerson(db: Db, actor: Actor, userId: number, patch: { name?: string; active?: boolean; mentor?: boolean }): Promise<Person> {
   if (userId === actor.id && (patch.active === false || patch.mentor === false)) {
     throw createError({ statusCode: 409, message: 'You cannot deactivate yourself or give up your own mentorship; ask another mentor.' })
@@ -91,7 +101,10 @@ export async function updatePerson(db: Db, actor: Actor, userId: number, patch: 
     }
     if (patch.active !== undefined && patch.active !== before.active) {
       await trx.updateTable('users').set({ active: patch.active }).where('id', '=', userId).execute()
-      if (!patch.active) await trx.updateTable('password_reset').set({ used_at: new Date() }).where('user_id', '=', userId).where('used_at', 'is', null).execute()
+      if (!patch.active) {
+        await trx.updateTable('password_reset').set({ used_at: new Date() }).where('user_id', '=', userId).where('used_at', 'is', null).execute()
+        await endUserSessions(trx, userId, 'deactivated')
+      }
       await audit(trx, { ...by(actor), action: patch.active ? 'reactivate' : 'deactivate', subject: 'user', subjectId: userId, detail: { name: before.name } })
     }
     if (patch.mentor !== undefined && patch.mentor !== before.isMentor) {

@@ -12,6 +12,12 @@ export interface PlatformConfig {
   mailOutboxDir: string
   /** The address people use, for links in e-mail. */
   baseUrl: string
+  /** The first wait before a failed delivery is tried again, ms. */
+  mailRetryBaseMs?: number
+  /** Proxies whose forwarded headers are believed: addresses or CIDR ranges. */
+  trustedProxies?: string[]
+  /** How long one database query may take, ms. */
+  dbQueryTimeoutMs?: number
   /** A ready transport instead of smtpUrl (tests keep messages in memory with it). */
   mailTransport?: Transporter
 }

@@ -18,7 +18,7 @@ export function useDb(): Kysely<Database> {
   if (!db) {
     const url = platformConfig().databaseUrl
     if (!url) throw new Error('NUXT_DATABASE_URL is not set: the app needs a PostgreSQL connection string.')
-    db = createDb(url)
+    db = createDb(url, { queryTimeoutMs: platformConfig().dbQueryTimeoutMs || undefined })
   }
   return db
 }

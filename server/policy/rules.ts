@@ -49,15 +49,16 @@ const TEAM_RULES: Record<TeamAction, MemberRole | 'member'> = {
   'job.view': 'member',
 }
 
-/** Program work beyond a mentor's: only the cut queue, which every operator works. */
-const PROGRAM_RULES: Record<ProgramAction, 'mentor' | 'operator'> = {
+/** Program work beyond a mentor's: the cut queue, which every operator works, and one's own mail, which everyone reads. */
+const PROGRAM_RULES: Record<ProgramAction, 'mentor' | 'operator' | 'anyone'> = {
   'team.manage': 'mentor',
   'people.manage': 'mentor',
   'film.manage': 'mentor',
   'robot.create': 'mentor',
   'revision.review': 'mentor',
   'audit.view': 'mentor',
-  'mail.view': 'mentor',
+  'mail.view': 'anyone',
+  'outbox.view': 'mentor',
   'program.manage': 'mentor',
   'queue.work': 'operator',
 }
@@ -89,7 +90,10 @@ export function reachesWholeProgram(actor: Actor, action: Action): boolean {
  */
 export function can(actor: Actor, action: Action, subject?: TeamSubject): boolean {
   if (subject && subject.programId !== actor.programId) return false
-  if (isProgramAction(action)) return actor.isMentor || (PROGRAM_RULES[action] === 'operator' && holdsAnywhere(actor, 'operator'))
+  if (isProgramAction(action)) {
+    const rule = PROGRAM_RULES[action]
+    return actor.isMentor || rule === 'anyone' || (rule === 'operator' && holdsAnywhere(actor, 'operator'))
+  }
   if (reachesWholeProgram(actor, action)) return true
   if (!subject) return [...actor.memberships.keys()].some((teamId) => grantedInTeam(actor, action, teamId))
   return grantedInTeam(actor, action, subject.teamId)
@@ -124,7 +128,8 @@ export const REFUSALS: Record<Action, string> = {
   'robot.create': 'Only a mentor may add robots.',
   'revision.review': 'Only a mentor may approve or send back a revision.',
   'audit.view': 'Only a mentor may read the program\'s activity.',
-  'mail.view': 'Only a mentor may read the outgoing mail.',
+  'mail.view': 'Please sign in to read your mail.',
+  'outbox.view': 'Only a mentor may see the program\'s waiting mail.',
   'program.manage': 'Only a mentor may change the program\'s settings.',
   'queue.work': 'Only an operator or a mentor works the cut queue.',
   'team.view': 'You are not on this team.',

@@ -1,12 +1,13 @@
 // Review: a student or designer submits a revision; a mentor approves (and so locks) it or
-// sends it back with a comment. Everyone concerned is mailed inside the same transaction.
+// sends it back with a comment. Everyone concerned is mailed through the outbox, written in
+// the same transaction.
 import { createError } from 'h3'
 import { z } from 'zod'
 import type { ArtworkStatus, RevisionDetail, ReviewQueueItem } from '#shared/types/artworks'
 import type { Page } from '#shared/types/api'
 import { decodeCursor, pageOf } from '../platform/cursor'
 import { inTransaction, type Db } from '../platform/db'
-import { absoluteUrl, sendMail } from '../platform/mail'
+import { absoluteUrl, queueMail } from '../platform/mail'
 import type { Actor } from '../policy'
 import { audit, by } from '../history/service'
 import { decisionMail, reviewRequestMail } from '../mail/templates'
@@ -31,7 +32,7 @@ export async function submitRevision(db: Db, actor: Actor, rev: RevisionRow): Pr
     await audit(trx, { ...by(actor), action: 'submit', subject: 'artwork', subjectId: rev.artwork_id, detail: { title: rev.title, revision: rev.number } })
     const mentors = await activeMentorEmails(trx, actor.programId)
     if (mentors.length) {
-      await sendMail(reviewRequestMail({ to: mentors.map((m) => m.email), author: actor.name, title: rev.title, team: rev.team_name, number: rev.number, url: revisionUrl(rev.artwork_id, rev.number) }))
+      await queueMail(trx, actor.programId, reviewRequestMail({ to: mentors.map((m) => m.email), author: actor.name, title: rev.title, team: rev.team_name, number: rev.number, url: revisionUrl(rev.artwork_id, rev.number) }))
     }
     return revisionDetail(trx, (await findRevision(trx, actor, rev.id))!)
   })
@@ -49,7 +50,7 @@ export async function reviewRevision(db: Db, actor: Actor, rev: RevisionRow, inp
     await audit(trx, { ...by(actor), action: input.decision, subject: 'artwork', subjectId: rev.artwork_id, detail: { title: rev.title, revision: rev.number, comment: input.comment } })
     const author = await trx.selectFrom('users').select(['email', 'name', 'active']).where('id', '=', rev.author_id).executeTakeFirstOrThrow()
     if (author.active) {
-      await sendMail(decisionMail({ to: author.email, name: author.name, title: rev.title, number: rev.number, decision: input.decision, reviewer: actor.name, comment: input.comment, url: revisionUrl(rev.artwork_id, rev.number) }))
+      await queueMail(trx, actor.programId, decisionMail({ to: author.email, name: author.name, title: rev.title, number: rev.number, decision: input.decision, reviewer: actor.name, comment: input.comment, url: revisionUrl(rev.artwork_id, rev.number) }))
     }
     return revisionDetail(trx, (await findRevision(trx, actor, rev.id))!)
   })

@@ -123,6 +123,23 @@ export interface MailMessage extends MailSummary {
   html: string | null
 }
 
+/** A message of the program's outbox that could not be delivered yet. */
+export interface OutboxProblem {
+  id: number
+  to: string
+  subject: string
+  attempts: number
+  lastError: string
+  nextAttemptAt: string
+  createdAt: string
+}
+
+/** Mail the program has written that has not gone out: how many wait, and those that failed. */
+export interface OutboxStatus {
+  waiting: number
+  failing: OutboxProblem[]
+}
+
 /**
  * Error bodies: h3's createError JSON. For invalid input, statusCode 400 and
  * data.fieldErrors maps a field name to its messages, so a form can show them inline.

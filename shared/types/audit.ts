@@ -13,6 +13,7 @@ export interface AuditDetails {
   'rename-person': { from: string; to: string }
   'deactivate': { name: string }
   'reactivate': { name: string }
+  'sign-out-everywhere': { name: string; sessions: number }
   'change-role': { name: string; mentor: boolean } | { name: string; team: string; from: MemberRole | null; to: MemberRole | null }
   'invite': { email: string; name: string; role: Role; team: string | null }
   'withdraw-invitation': { email: string }
@@ -45,7 +46,7 @@ export type AuditAction = keyof AuditDetails
 // A record, so that an action added above and forgotten here fails to compile.
 const KNOWN: Record<AuditAction, true> = {
   'sign-in': true, 'sign-in-failed': true, 'create-team': true, 'update-team': true, 'rename-person': true,
-  'deactivate': true, 'reactivate': true, 'change-role': true, 'invite': true, 'withdraw-invitation': true,
+  'deactivate': true, 'reactivate': true, 'sign-out-everywhere': true, 'change-role': true, 'invite': true, 'withdraw-invitation': true,
   'accept-invitation': true, 'request-reset': true, 'set-first-password': true, 'reset-password': true,
   'create-mentor': true, 'load-demo': true, 'set-work-area': true, 'upload': true, 'revise': true, 'submit': true,
   'approve': true, 'send-back': true, 'add-robot': true, 'place': true, 'queue-job': true, 'reprint': true,

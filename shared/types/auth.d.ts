@@ -1,11 +1,15 @@
-// The sealed session cookie holds only who signed in; roles are read from the database
-// on every request so that a change of role or a deactivation takes effect at once.
+// The sealed session cookie holds who signed in and the id of their session row; roles are
+// read from the database on every request, and the session row is checked, so a change of
+// role, a deactivation or an ended session takes effect at once.
 declare module '#auth-utils' {
   interface User {
     id: number
   }
   interface UserSession {
     signedInAt: number
+  }
+  interface SecureSessionData {
+    sid: string
   }
 }
 export {}

@@ -1,7 +1,7 @@
 // What a person may do. The server decides (server/policy); the API hands its answers to the
 // pages as `can` flags named by these actions, so no page decides for itself.
 
-/** Work that belongs to the program as a whole: a mentor's, and the cut queue. */
+/** Work that belongs to the program as a whole: a mentor's, the cut queue, and one's own mail. */
 export const PROGRAM_ACTIONS = [
   'team.manage', // create and rename teams
   'people.manage', // people, their roles and invitations
@@ -9,7 +9,8 @@ export const PROGRAM_ACTIONS = [
   'robot.create',
   'revision.review', // approve or send back
   'audit.view', // the program's activity
-  'mail.view', // the local mail fake's outbox
+  'mail.view', // one's own messages in the local mail fake
+  'outbox.view', // the program's mail that has not gone out yet
   'program.manage', // the laser's work area
   'queue.work', // the cut queue: move jobs, download cut sheets
 ] as const

@@ -38,6 +38,8 @@ interface RouteRule {
   scope?: TeamAction | 'program'
   /** Then the role in the thing's team (403). */
   action?: TeamAction
+  /** Asks for something that exists for nobody (404 once past the guards). */
+  missing?: true
 }
 
 // ---------- the things asked about ----------
@@ -54,7 +56,6 @@ interface Things {
   person: Record<Where, number>
   invitation: Record<Where, number>
   draftRevision: number
-  mailId: string
 }
 let things: Things
 const clients = {} as Record<Who, ApiClient>
@@ -109,9 +110,6 @@ beforeAll(async () => {
   const other = await placed(approved['other team'].revisionId, robot['other team'], pet, mentorId)
   const away = await placed(approved['other program'].revisionId, robot['other program'], far.films.pet, far.mentor)
   const loner = await makeUser('Matrix Loner')
-  // Some mail, so the mentor's mail page has a message to open.
-  await clients.mentor.post('/api/invitations', { email: `matrix.mail.${Date.now()}@tests.example`, name: 'Matrix Mail', role: 'mentor' })
-  const mail = await clients.mentor.get('/api/mail')
   things = {
     team: { 'own team': wrens, 'other team': sprockets, 'other program': farTeam.id },
     subject: {
@@ -132,7 +130,6 @@ beforeAll(async () => {
       'other program': await invitation(far.id, farTeam.id, far.mentor),
     },
     draftRevision: ownUpload.body.revision.id,
-    mailId: mail.body[0].id,
   }
 })
 
@@ -174,7 +171,10 @@ const ROUTES: Record<string, RouteRule> = {
   'DELETE /api/invitations/[id]': { guard: 'people.manage', scope: 'program', ask: (w) => ({ path: `/api/invitations/${t().invitation[w]}` }) },
   'GET /api/audit': { guard: 'audit.view', ask: () => ({ path: '/api/audit' }) },
   'GET /api/mail': { guard: 'mail.view', ask: () => ({ path: '/api/mail' }) },
-  'GET /api/mail/[id]': { guard: 'mail.view', ask: () => ({ path: `/api/mail/${t().mailId}` }) },
+  // Everyone reads only their own messages: another person's is as missing as this one.
+  'GET /api/mail/[id]': { guard: 'mail.view', missing: true, ask: () => ({ path: '/api/mail/2147483647' }) },
+  'GET /api/outbox': { guard: 'outbox.view', ask: () => ({ path: '/api/outbox' }) },
+  'POST /api/people/[id]/sign-out-everywhere': { guard: 'people.manage', scope: 'program', ask: (w) => ({ path: `/api/people/${t().person[w]}/sign-out-everywhere` }) },
   'PATCH /api/program': { guard: 'program.manage', ask: () => ({ path: '/api/program', body: {} }) },
   'GET /api/reviews': { guard: 'revision.review', ask: () => ({ path: '/api/reviews' }) },
 
@@ -215,6 +215,7 @@ function expected(rule: RouteRule, who: Who, where: Where): Expected {
   if (who === 'signed out') return 401
   const actor = actors[who]
   if (rule.guard && !can(actor, rule.guard)) return 403
+  if (rule.missing) return 404
   if (rule.scope === 'program') return where === 'other program' ? 404 : PASS
   if (rule.scope) {
     const subject = things.subject[where]

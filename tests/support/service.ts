@@ -1,5 +1,6 @@
 // Service tests: each test gets a transaction on the service project's own PostgreSQL that
-// is rolled back afterwards, and the mail the services send, kept in memory.
+// is rolled back afterwards; the mail the services write into the outbox is read back from it,
+// and what the outbox's sender delivers is kept in memory.
 import { inject, test as base } from 'vitest'
 import nodemailer from 'nodemailer'
 import type { Kysely, Transaction } from 'kysely'
@@ -44,7 +45,16 @@ export function serviceDb() {
 
 class RolledBack extends Error {}
 
-export const test = base.extend<{ trx: Transaction<Database>; mail: { sent: SentMail[]; fail: (on: boolean) => void } }>({
+export interface MailFixture {
+  /** The messages of one program written into the outbox, oldest first. */
+  queued: (programId: number) => Promise<SentMail[]>
+  /** What the sender delivered. */
+  sent: SentMail[]
+  /** Makes the in-memory mail server refuse every message (or accept them again). */
+  fail: (on: boolean) => void
+}
+
+export const test = base.extend<{ trx: Transaction<Database>; mail: MailFixture }>({
   // eslint-disable-next-line no-empty-pattern
   trx: async ({}, use) => {
     await serviceDb().transaction().execute(async (trx) => {
@@ -54,11 +64,12 @@ export const test = base.extend<{ trx: Transaction<Database>; mail: { sent: Sent
       if (!(err instanceof RolledBack)) throw err
     })
   },
-  // eslint-disable-next-line no-empty-pattern
-  mail: async ({}, use) => {
+  mail: async ({ trx }, use) => {
     outbox.length = 0
     failMail = false
-    await use({ sent: outbox, fail: (on) => { failMail = on } })
+    const queued = async (programId: number) => (await trx.selectFrom('mail_outbox').select(['to_email', 'subject', 'text']).where('program_id', '=', programId).orderBy('id').execute())
+      .map((r) => ({ to: [r.to_email], subject: r.subject, text: r.text }))
+    await use({ queued, sent: outbox, fail: (on) => { failMail = on } })
     failMail = false
   },
 })

@@ -4,7 +4,7 @@ import { signIn } from '#server/auth/service'
 
 export default defineEventHandler(async (event) => {
   const { email, password } = await readJson(event, signInSchema)
-  const result = await signIn(useDb(), { email, password, ip: requestIp(event) ?? 'unknown' })
+  const result = await signIn(useDb(), { email, password, ip: requestIp(event) })
   if (!result.ok) {
     const wait = result.retryAfterSeconds
     setResponseHeader(event, 'Retry-After', wait)

@@ -1,5 +1,5 @@
 export default defineEventHandler(async (event) => {
-  await clearUserSession(event)
+  await endCurrentSession(event)
   setResponseStatus(event, 204)
   return null
 })

@@ -1,8 +1,8 @@
-import { listOutbox, outboxDir } from '#server/platform/mail-outbox'
+import { useDb } from '#server/platform/db'
+import { listInbox, mailFakeInUse } from '#server/mail/outbox'
 
 export default defineEventHandler(async (event) => {
-  await requireCan(event, 'mail.view')
-  const dir = outboxDir()
-  if (!dir) throw createError({ statusCode: 404, message: 'The local mail fake is not in use.' })
-  return listOutbox(dir)
+  const actor = await requireCan(event, 'mail.view')
+  if (!mailFakeInUse()) throw createError({ statusCode: 404, message: 'The local mail fake is not in use.' })
+  return listInbox(useDb(), actor)
 })

@@ -4,6 +4,7 @@ import * as m0002 from './0002_artworks'
 import * as m0003 from './0003_review_film_placements'
 import * as m0004 from './0004_laser_work_area'
 import * as m0005 from './0005_structure'
+import * as m0006 from './0006_trust'
 
 // A static list: a bundled server cannot read a folder of migration files.
 // Add new migrations here, in order, under a name that sorts after the last one.
@@ -13,4 +14,5 @@ export const migrations: Record<string, Migration> = {
   '0003_review_film_placements': m0003,
   '0004_laser_work_area': m0004,
   '0005_structure': m0005,
+  '0006_trust': m0006,
 }
