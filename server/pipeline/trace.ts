@@ -1,18 +1,25 @@
 // Outline: the prepared bitmap traced into closed curves with the npm port of potrace.
 //
 // The port normally decodes an image with Jimp and thresholds its own luminance copy. We skip
-// that: its luminance bitmap (lib/types/Bitmap.js) is filled from our 1-bit bitmap (ink = 0,
-// paper = 255) and thresholded at 128 with blackOnWhite, so that exactly our ink is what the
-// tracer treats as black (the port counts a pixel as black when lum <= threshold). Then its
-// two stages are run directly: _bmToPathlist (decomposition into boundary paths, speck filter)
-// and _processPath (polygon, vertex adjustment, corner/curve smoothing, curve joining).
-// These are private methods of potrace 2.1.8 (pinned in package.json); trace.test.ts fails
-// loudly if they change.
+// that and run its two stages directly: _bmToPathlist (decomposition into boundary paths,
+// speck filter) and _processPath (polygon, vertex adjustment, corner/curve smoothing, curve
+// joining). These are private methods of potrace 2.1.8 (pinned in package.json); trace.test.ts
+// fails loudly if they change.
 //
-// One correction: the port decides a path's sign (outer boundary of ink, or boundary of a
-// hole) from its working copy, which it XOR-fills as it goes, so every path comes out as "+".
-// Potrace's algorithm reads the sign from the original bitmap at the path's first pixel; we do
-// that ourselves between the two stages, so holes are marked and, as in potrace, reversed.
+// Three things are ours, each for a reason:
+//  - The working bitmap. _bmToPathlist asks its luminance bitmap for a thresholded copy and
+//    reads pixels through Bitmap.pointToIndex, whose range check lets x = width through: the
+//    pixel just past the right edge is read as the first pixel of the next row, so ink touching
+//    the left edge made phantom slivers along the right one. We hand it a stand-in (InkMap)
+//    with the same fields and methods that reads everything outside the image as paper, as
+//    the reference C tracer does, and that gives our 0/1 bitmap as the thresholded copy.
+//  - The sign. The port decides a path's sign (outer boundary of ink, or boundary of a hole)
+//    from its working copy, which it XOR-fills as it goes, so every path comes out as "+".
+//    Potrace's algorithm reads it from the original bitmap at the path's first pixel; we do
+//    that, so holes are marked and, as in potrace, reversed.
+//  - Streaming. Each boundary path is smoothed into curves as soon as the decomposition finds
+//    it (the port's path list is replaced by a sink), so the node cap stops a drawing while it
+//    is traced, and memory holds one path's working data at a time instead of every path's.
 //
 // Synchronous and pure: safe to call from a worker thread.
 import { createRequire } from 'node:module'
@@ -24,21 +31,44 @@ const require = createRequire(import.meta.url)
 interface PtPoint { x: number, y: number }
 interface PtCurve { n: number, tag: Array<'CURVE' | 'CORNER'>, c: PtPoint[] }
 interface PtPath { pt: PtPoint[], sign: '+' | '-', area: number, len: number, curve: PtCurve }
-interface PtBitmap { width: number, height: number, size: number, data: Uint8Array }
 interface PtInstance {
-  _luminanceData: PtBitmap | null
-  _imageLoaded: boolean
-  _processed: boolean
-  _pathlist: PtPath[]
-  _bmToPathlist(): void
-  _processPath(): void
+  _params: Record<string, unknown>
+  _bmToPathlist(this: object): void
+  _processPath(this: object): void
 }
 type PtConstructor = new (options: Record<string, unknown>) => PtInstance
-type PtBitmapConstructor = new (w: number, h: number) => PtBitmap
+type PtPointConstructor = new (x?: number, y?: number) => PtPoint
 
 const potraceModule = require('potrace') as { Potrace: PtConstructor }
-const PotraceBitmap = require('potrace/lib/types/Bitmap.js') as PtBitmapConstructor
+const PotracePoint = require('potrace/lib/types/Point.js') as PtPointConstructor
 const Potrace = potraceModule.Potrace
+
+/**
+ * The decomposition's working bitmap (1 = ink, XOR-filled as paths are found), with the
+ * methods _bmToPathlist calls on it. Pixels outside the image read as paper.
+ */
+class InkMap {
+  readonly size: number
+  constructor(readonly data: Uint8Array, readonly width: number, readonly height: number) {
+    this.size = width * height
+  }
+
+  getValueAt(x: number, y: number): number {
+    return x >= 0 && y >= 0 && x < this.width && y < this.height ? this.data[y * this.width + x]! : 0
+  }
+
+  pointToIndex(pointOrX: PtPoint | number, y?: number): number {
+    const px = typeof pointOrX === 'number' ? pointOrX : pointOrX.x
+    const py = typeof pointOrX === 'number' ? y! : pointOrX.y
+    return px >= 0 && py >= 0 && px < this.width && py < this.height ? py * this.width + px : -1
+  }
+
+  indexToPoint(index: number): PtPoint {
+    if (index < 0 || index >= this.size) return new PotracePoint(-1, -1)
+    const y = Math.floor(index / this.width)
+    return new PotracePoint(index - y * this.width, y)
+  }
+}
 
 export interface Point { x: number, y: number }
 export type Segment =
@@ -105,24 +135,83 @@ export function traceParameters(
   }
 }
 
-function fmt(v: number): string {
-  const s = v.toFixed(3)
-  return s.includes('.') ? s.replace(/0+$/, '').replace(/\.$/, '') : s
+// Path data is written as bytes into one buffer and decoded once: on a page of text (tens of
+// thousands of segments) building it from number strings cost more than tracing.
+class PathText {
+  private buf = new Uint8Array(1 << 16)
+  private len = 0
+
+  private room(n: number): void {
+    if (this.len + n <= this.buf.length) return
+    const bigger = new Uint8Array(Math.max(this.buf.length * 2, this.len + n))
+    bigger.set(this.buf.subarray(0, this.len))
+    this.buf = bigger
+  }
+
+  char(c: number): void {
+    this.room(1)
+    this.buf[this.len++] = c
+  }
+
+  /** v rounded half up to `decimals` places (on v·10^decimals), without trailing zeros or "-0". */
+  number(v: number, decimals: number, scale: number): void {
+    const k = Math.round(v * scale)
+    this.room(24 + decimals)
+    const b = this.buf
+    if (k === 0) { b[this.len++] = 48; return }
+    if (!Number.isSafeInteger(k)) throw new RangeError(`Coordinate ${v} is out of range.`)
+    let a = k
+    if (a < 0) { b[this.len++] = 45; a = -a }
+    const whole = Math.floor(a / scale)
+    let frac = a - whole * scale
+    this.digits(whole)
+    if (frac === 0) return
+    let places = decimals
+    while (frac % 10 === 0) { frac /= 10; places-- }
+    b[this.len++] = 46
+    const end = this.len + places
+    for (let i = end - 1; i >= this.len; i--) { b[i] = 48 + (frac % 10); frac = Math.floor(frac / 10) }
+    this.len = end
+  }
+
+  private digits(n: number): void {
+    let m = n, count = 1
+    while (m >= 10) { m = Math.floor(m / 10); count++ }
+    const end = this.len + count
+    for (let i = end - 1; i >= this.len; i--) { this.buf[i] = 48 + (n % 10); n = Math.floor(n / 10) }
+    this.len = end
+  }
+
+  toString(): string {
+    return Buffer.from(this.buf.buffer, this.buf.byteOffset, this.len).toString('latin1')
+  }
 }
 
-export function curvesToPathData(curves: ClosedCurve[], format: (v: number) => string = fmt): string {
-  const parts: string[] = []
+const M = 77, L = 76, C = 67, Z = 90, SPACE = 32
+
+/**
+ * SVG path data of closed curves, absolute commands, each coordinate rounded half up to
+ * `decimals` places and printed without trailing zeros (so the same curves give the same text).
+ */
+export function curvesToPathData(curves: ClosedCurve[], decimals = 3): string {
+  const out = new PathText()
+  const scale = 10 ** decimals
+  const pt = (p: Point, lead: number) => {
+    out.char(lead)
+    out.number(p.x, decimals, scale)
+    out.char(SPACE)
+    out.number(p.y, decimals, scale)
+  }
   for (const curve of curves) {
     if (curve.segments.length === 0) continue
-    const s0 = curve.segments[0]!.from
-    let d = `M${format(s0.x)} ${format(s0.y)}`
+    pt(curve.segments[0]!.from, M)
     for (const seg of curve.segments) {
-      if (seg.kind === 'line') d += `L${format(seg.to.x)} ${format(seg.to.y)}`
-      else d += `C${format(seg.c1.x)} ${format(seg.c1.y)} ${format(seg.c2.x)} ${format(seg.c2.y)} ${format(seg.to.x)} ${format(seg.to.y)}`
+      if (seg.kind === 'line') pt(seg.to, L)
+      else { pt(seg.c1, C); pt(seg.c2, SPACE); pt(seg.to, SPACE) }
     }
-    parts.push(d + 'Z')
+    out.char(Z)
   }
-  return parts.join('')
+  return out.toString()
 }
 
 function toCurve(path: PtPath, sign: 1 | -1): ClosedCurve {
@@ -168,32 +257,35 @@ export function traceBitmap(
     threshold: 128,
     blackOnWhite: true,
   })
-  if (typeof potrace._bmToPathlist !== 'function' || typeof potrace._processPath !== 'function') {
+  if (typeof potrace._bmToPathlist !== 'function' || typeof potrace._processPath !== 'function' || !potrace._params) {
     throw new Error('The installed potrace package lacks the internal stages this pipeline calls (expected potrace 2.1.8).')
   }
-  const lum = new PotraceBitmap(width, height)
-  for (let i = 0; i < bitmap.length; i++) lum.data[i] = bitmap[i] ? 0 : 255
-  potrace._luminanceData = lum
-  potrace._imageLoaded = true
-  potrace._bmToPathlist()
-  const paths = potrace._pathlist
-  // Every closed curve has at least three segments: refuse early, before the costly stage.
-  if (paths.length * 3 > nodeCap) throw new TooComplexError(paths.length * 3, nodeCap)
-  for (const path of paths) {
-    const p = path.pt[0]!
-    path.sign = bitmap[p.y * width + p.x] ? '+' : '-'
-  }
-  potrace._processPath()
-  potrace._processed = true
-
+  const params = potrace._params
   const curves: ClosedCurve[] = []
   let nodeCount = 0
-  for (const path of paths) {
-    const curve = toCurve(path, path.sign === '+' ? 1 : -1)
-    nodeCount += curve.segments.length
-    curves.push(curve)
+  // _processPath smooths every path of this._pathlist: here a list of one.
+  const single = { _params: params, _pathlist: [] as PtPath[] }
+  const sink = {
+    push(path: PtPath): void {
+      const p = path.pt[0]!
+      path.sign = bitmap[p.y * width + p.x] ? '+' : '-'
+      single._pathlist[0] = path
+      potrace._processPath.call(single)
+      const curve = toCurve(path, path.sign === '+' ? 1 : -1)
+      nodeCount += curve.segments.length
+      if (nodeCount > nodeCap) throw new TooComplexError(nodeCap, nodeCap)
+      curves.push(curve)
+    },
   }
-  if (nodeCount > nodeCap) throw new TooComplexError(nodeCount, nodeCap)
+  // The working copy is XOR-filled by the decomposition: never our caller's bitmap.
+  const ink = new InkMap(bitmap.slice(), width, height)
+  const decomposition = {
+    _params: params,
+    _luminanceData: { copy: () => ink },
+    get _pathlist() { return sink },
+    set _pathlist(_list: unknown) { /* the stage starts with `this._pathlist = []`: keep the sink */ },
+  }
+  potrace._bmToPathlist.call(decomposition)
   return {
     curves,
     pathData: curvesToPathData(curves),
