@@ -1,4 +1,8 @@
-// Test helpers: a seeded random generator and test images drawn in code.
+// Test helpers: a seeded random generator, test images drawn in code, and the reference tracer.
+import { execFileSync } from 'node:child_process'
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
 import sharp from 'sharp'
 
 /** Small seeded PRNG (mulberry32), uniform in [0, 1). */
@@ -36,4 +40,40 @@ export async function svgToBitmap(svg: string): Promise<{ bitmap: Uint8Array, wi
 export function svgDoc(width: number, height: number, body: string): string {
   return `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}">`
     + `<rect width="${width}" height="${height}" fill="#fff"/>${body}</svg>`
+}
+
+/** Debian's potrace (the reference C tracer). */
+export const POTRACE = '/usr/bin/potrace'
+
+/** Fail with a clear message when a Debian tool a reference check needs is missing. */
+export function requireTool(path: string, debianPackage: string): void {
+  if (!existsSync(path)) {
+    throw new Error(`${path} is missing: this test compares against it. Install it with: apt-get install ${debianPackage}`)
+  }
+}
+
+/** A 1-bit bitmap (1 = ink) as PBM P4 (Netpbm): 1 = black, rows padded to whole bytes, MSB first. */
+export function toPbm(bitmap: Uint8Array, width: number, height: number): Buffer {
+  const rowBytes = Math.ceil(width / 8)
+  const bits = Buffer.alloc(rowBytes * height)
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) if (bitmap[y * width + x]) bits[y * rowBytes + (x >> 3)]! |= 0x80 >> (x & 7)
+  }
+  return Buffer.concat([Buffer.from(`P4\n${width} ${height}\n`), bits])
+}
+
+/**
+ * Run Debian's potrace on a bitmap with the given arguments (e.g. a backend and parameters)
+ * and return what it wrote.
+ */
+export function runPotrace(bitmap: Uint8Array, width: number, height: number, args: string[]): string {
+  requireTool(POTRACE, 'potrace')
+  const dir = mkdtempSync(join(tmpdir(), 'decalwright-ref-'))
+  try {
+    writeFileSync(join(dir, 'in.pbm'), toPbm(bitmap, width, height))
+    execFileSync(POTRACE, [...args, '-o', join(dir, 'out'), join(dir, 'in.pbm')])
+    return readFileSync(join(dir, 'out'), 'utf8')
+  } finally {
+    rmSync(dir, { recursive: true, force: true })
+  }
 }
