@@ -2,7 +2,8 @@
 import { execFileSync } from 'node:child_process'
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
-import { join } from 'node:path'
+import { dirname, join } from 'node:path'
+import { fileURLToPath } from 'node:url'
 import sharp from 'sharp'
 
 /** Small seeded PRNG (mulberry32), uniform in [0, 1). */
@@ -76,4 +77,26 @@ export function runPotrace(bitmap: Uint8Array, width: number, height: number, ar
   } finally {
     rmSync(dir, { recursive: true, force: true })
   }
+}
+
+/** Debian's Python, with python3-skimage (scikit-image, SciPy, NumPy). */
+export const DEBIAN_PYTHON = '/usr/bin/python3'
+
+export interface ReferenceNarrowest { widthPx: number | null, skeletonPixels: number, bodyPixels: number }
+
+/**
+ * The narrowest stroke of each bitmap (1 = ink) by reference/narrowest.py: scikit-image's
+ * medial axis and SciPy's Euclidean distance transform (Debian package python3-skimage).
+ */
+export function referenceNarrowest(bitmaps: Array<{ bitmap: Uint8Array, width: number, height: number }>): ReferenceNarrowest[] {
+  requireTool(DEBIAN_PYTHON, 'python3')
+  const script = join(dirname(fileURLToPath(import.meta.url)), 'reference', 'narrowest.py')
+  const input = JSON.stringify(bitmaps.map((b) => ({ width: b.width, height: b.height, ink: Buffer.from(b.bitmap).toString('base64') })))
+  let out: string
+  try {
+    out = execFileSync(DEBIAN_PYTHON, [script], { input, encoding: 'utf8', maxBuffer: 1 << 26 })
+  } catch (e) {
+    throw new Error(`${script} failed (it needs Debian's python3-skimage: apt-get install python3-skimage): ${(e as Error).message}`)
+  }
+  return JSON.parse(out) as ReferenceNarrowest[]
 }
