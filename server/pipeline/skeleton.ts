@@ -66,6 +66,9 @@ export interface StrokeSkeleton {
   /** Connected part of the skeleton (one per piece of ink) of each skeleton pixel. */
   piece: Int32Array
   pieces: number
+  /** Skeleton neighbours of skeleton pixel s: neighbours[first[s]] … neighbours[first[s + 1] − 1]. */
+  first: Int32Array
+  neighbours: Int32Array
 }
 
 /** Thin the ink (1 = ink) to its skeleton; returns the bitmap indices of the skeleton pixels. */
@@ -289,5 +292,5 @@ export function strokeSkeleton(inkBitmap: Uint8Array, width: number, height: num
   }
   const body = new Uint8Array(count)
   for (let s = 0; s < count; s++) if (dist[s]! >= TAPER_RATIO * depth[s]!) body[s] = 1
-  return { width, height, pixels, d2, body, piece, pieces }
+  return { width, height, pixels, d2, body, piece, pieces, first, neighbours: nbr }
 }

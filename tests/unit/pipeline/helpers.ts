@@ -82,7 +82,12 @@ export function runPotrace(bitmap: Uint8Array, width: number, height: number, ar
 /** Debian's Python, with python3-skimage (scikit-image, SciPy, NumPy). */
 export const DEBIAN_PYTHON = '/usr/bin/python3'
 
-export interface ReferenceNarrowest { widthPx: number | null, skeletonPixels: number, bodyPixels: number }
+export interface ReferenceNarrowest {
+  widthPx: number | null
+  at?: { x: number, y: number }
+  skeletonPixels: number
+  bodyPixels: number
+}
 
 /**
  * The narrowest stroke of each bitmap (1 = ink) by reference/narrowest.py: scikit-image's

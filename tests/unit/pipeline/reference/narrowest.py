@@ -1,8 +1,8 @@
 """Reference narrowest stroke, from a general image library's skeleton and distance transform.
 
 Reads JSON from stdin: [{"width": w, "height": h, "ink": "<base64 of w*h bytes, 1 = ink>"}, ...]
-Writes JSON to stdout: for each bitmap, {"widthPx": narrowest width in pixels or null,
-"skeletonPixels": n, "bodyPixels": n}.
+Writes JSON to stdout: for each bitmap, {"widthPx": narrowest width in pixels or null, "at":
+{"x", "y"} where it was found, "skeletonPixels": n, "bodyPixels": n}.
 
 The skeleton is scikit-image's skimage.morphology.medial_axis, the distances
 scipy.ndimage.distance_transform_edt (both on the bitmap inside a one-pixel paper border, so
@@ -73,13 +73,21 @@ def narrowest(ink):
     body = [way[i] >= TAPER_RATIO * depth[i] for i in range(len(pixels))]
 
     labels, count = ndi.label(skeleton, structure=np.ones((3, 3)))
-    best = math.inf
+    best, at = math.inf, None
     for piece in range(1, count + 1):
         members = [i for i, p in enumerate(pixels) if labels[p] == piece]
-        stroke = [depth[i] for i in members if body[i]]
+        stroke = [i for i in members if body[i]]
         # a stroke: 2D - 0.5 at its thinnest body pixel; a compact piece: 2D + 0.5 at its deepest
-        best = min(best, 2 * min(stroke) - 0.5 if stroke else 2 * max(depth[i] for i in members) + 0.5)
-    return {"widthPx": best, "skeletonPixels": len(pixels), "bodyPixels": sum(body)}
+        if stroke:
+            i = min(stroke, key=lambda j: depth[j])
+            width = 2 * depth[i] - 0.5
+        else:
+            i = max(members, key=lambda j: depth[j])
+            width = 2 * depth[i] + 0.5
+        if width < best:
+            best, at = width, i
+    y, x = pixels[at]
+    return {"widthPx": best, "at": {"x": int(x) - 1, "y": int(y) - 1}, "skeletonPixels": len(pixels), "bodyPixels": sum(body)}
 
 
 def main():
