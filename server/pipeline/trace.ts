@@ -1,28 +1,23 @@
 // Outline: the prepared bitmap traced into closed curves with the npm port of potrace.
 //
-// The port normally decodes an image with Jimp and thresholds its own luminance copy. We skip
-// that and run its two stages directly: _bmToPathlist (decomposition into boundary paths,
-// speck filter) and _processPath (polygon, vertex adjustment, corner/curve smoothing, curve
-// joining). These are private methods of potrace 2.1.8 (pinned in package.json); trace.test.ts
-// fails loudly if they change.
+// Potrace works in two stages: decomposition of the bitmap into closed boundary paths (with
+// the speck filter), then, for each path, the optimal polygon, vertex adjustment, corner and
+// curve smoothing and curve joining. The second stage is the npm port's own (its private
+// method _processPath, potrace 2.1.8, pinned in package.json; trace.test.ts fails loudly if it
+// changes). The first is decompose.ts: the port's decomposition step for step, but with the
+// outside of the image read as paper (the port read the pixel past the right edge as the next
+// row's first, making phantom slivers where ink touched the left edge), on a typed working
+// copy, with objects only for the paths kept.
 //
-// Three things are ours, each for a reason:
-//  - The working bitmap. _bmToPathlist asks its luminance bitmap for a thresholded copy and
-//    reads pixels through Bitmap.pointToIndex, whose range check lets x = width through: the
-//    pixel just past the right edge is read as the first pixel of the next row, so ink touching
-//    the left edge made phantom slivers along the right one. We hand it a stand-in (InkMap)
-//    with the same fields and methods that reads everything outside the image as paper, as
-//    the reference C tracer does, and that gives our 0/1 bitmap as the thresholded copy.
-//  - The sign. The port decides a path's sign (outer boundary of ink, or boundary of a hole)
-//    from its working copy, which it XOR-fills as it goes, so every path comes out as "+".
-//    Potrace's algorithm reads it from the original bitmap at the path's first pixel; we do
-//    that, so holes are marked and, as in potrace, reversed.
-//  - Streaming. Each boundary path is smoothed into curves as soon as the decomposition finds
-//    it (the port's path list is replaced by a sink), so the node cap stops a drawing while it
-//    is traced, and memory holds one path's working data at a time instead of every path's.
+// Each path is smoothed into curves as soon as it is found, so the node cap stops a drawing
+// while it is traced, and memory holds one path's working data at a time. The port decides a
+// path's sign on its XOR-filled working copy, where every path is "+"; decompose.ts reads it
+// from the original bitmap at the path's first pixel, as potrace does, so holes are marked and,
+// as in potrace, reversed.
 //
 // Synchronous and pure: safe to call from a worker thread.
 import { createRequire } from 'node:module'
+import { decompose, type PortPath } from './decompose'
 import { DEFAULT_NODE_CAP, TooComplexError } from './errors'
 import type { PipelineSettings } from '../../shared/utils/settings'
 
@@ -30,45 +25,14 @@ const require = createRequire(import.meta.url)
 
 interface PtPoint { x: number, y: number }
 interface PtCurve { n: number, tag: Array<'CURVE' | 'CORNER'>, c: PtPoint[] }
-interface PtPath { pt: PtPoint[], sign: '+' | '-', area: number, len: number, curve: PtCurve }
+type PtPath = PortPath & { curve: PtCurve }
 interface PtInstance {
   _params: Record<string, unknown>
-  _bmToPathlist(this: object): void
   _processPath(this: object): void
 }
 type PtConstructor = new (options: Record<string, unknown>) => PtInstance
-type PtPointConstructor = new (x?: number, y?: number) => PtPoint
 
-const potraceModule = require('potrace') as { Potrace: PtConstructor }
-const PotracePoint = require('potrace/lib/types/Point.js') as PtPointConstructor
-const Potrace = potraceModule.Potrace
-
-/**
- * The decomposition's working bitmap (1 = ink, XOR-filled as paths are found), with the
- * methods _bmToPathlist calls on it. Pixels outside the image read as paper.
- */
-class InkMap {
-  readonly size: number
-  constructor(readonly data: Uint8Array, readonly width: number, readonly height: number) {
-    this.size = width * height
-  }
-
-  getValueAt(x: number, y: number): number {
-    return x >= 0 && y >= 0 && x < this.width && y < this.height ? this.data[y * this.width + x]! : 0
-  }
-
-  pointToIndex(pointOrX: PtPoint | number, y?: number): number {
-    const px = typeof pointOrX === 'number' ? pointOrX : pointOrX.x
-    const py = typeof pointOrX === 'number' ? y! : pointOrX.y
-    return px >= 0 && py >= 0 && px < this.width && py < this.height ? py * this.width + px : -1
-  }
-
-  indexToPoint(index: number): PtPoint {
-    if (index < 0 || index >= this.size) return new PotracePoint(-1, -1)
-    const y = Math.floor(index / this.width)
-    return new PotracePoint(index - y * this.width, y)
-  }
-}
+const Potrace = (require('potrace') as { Potrace: PtConstructor }).Potrace
 
 export interface Point { x: number, y: number }
 export type Segment =
@@ -103,8 +67,6 @@ export interface TraceParameters {
 export interface Outline {
   /** Curves in prepared-bitmap pixels, y down, pixel (x, y) spans [x, x+1] × [y, y+1]. */
   curves: ClosedCurve[]
-  /** SVG path data of all curves in pixels (3 decimals). */
-  pathData: string
   width: number
   height: number
   pxPerMm: number
@@ -137,6 +99,13 @@ export function traceParameters(
 
 // Path data is written as bytes into one buffer and decoded once: on a page of text (tens of
 // thousands of segments) building it from number strings cost more than tracing.
+/** The three ASCII digits of 0…999, with leading zeros. */
+const DIGITS3 = (() => {
+  const t = new Uint8Array(3000)
+  for (let n = 0; n < 1000; n++) { t[3 * n] = 48 + Math.floor(n / 100); t[3 * n + 1] = 48 + (Math.floor(n / 10) % 10); t[3 * n + 2] = 48 + (n % 10) }
+  return t
+})()
+
 class PathText {
   private buf = new Uint8Array(1 << 16)
   private len = 0
@@ -169,16 +138,26 @@ class PathText {
     let places = decimals
     while (frac % 10 === 0) { frac /= 10; places-- }
     b[this.len++] = 46
-    const end = this.len + places
-    for (let i = end - 1; i >= this.len; i--) { b[i] = 48 + (frac % 10); frac = Math.floor(frac / 10) }
+    let end = this.len + places
     this.len = end
+    while (places >= 3) { end -= 3; places -= 3; const t = (frac % 1000) * 3; b[end] = DIGITS3[t]!; b[end + 1] = DIGITS3[t + 1]!; b[end + 2] = DIGITS3[t + 2]!; frac = Math.floor(frac / 1000) }
+    while (places > 0) { b[--end] = 48 + (frac % 10); frac = Math.floor(frac / 10); places-- }
   }
 
   private digits(n: number): void {
+    const b = this.buf
+    if (n < 1000) {
+      // the usual case: a coordinate below 1000, written from the table without leading zeros
+      const t = n * 3
+      if (n >= 100) b[this.len++] = DIGITS3[t]!
+      if (n >= 10) b[this.len++] = DIGITS3[t + 1]!
+      b[this.len++] = DIGITS3[t + 2]!
+      return
+    }
     let m = n, count = 1
     while (m >= 10) { m = Math.floor(m / 10); count++ }
     const end = this.len + count
-    for (let i = end - 1; i >= this.len; i--) { this.buf[i] = 48 + (n % 10); n = Math.floor(n / 10) }
+    for (let i = end - 1; i >= this.len; i--) { b[i] = 48 + (n % 10); n = Math.floor(n / 10) }
     this.len = end
   }
 
@@ -214,28 +193,27 @@ export function curvesToPathData(curves: ClosedCurve[], decimals = 3): string {
   return out.toString()
 }
 
+// The port's points are used as they are (each is made for its curve and not changed after).
 function toCurve(path: PtPath, sign: 1 | -1): ClosedCurve {
   const { n, tag, c } = path.curve
   const segments: Segment[] = []
-  let prev: Point = { x: c[(n - 1) * 3 + 2]!.x, y: c[(n - 1) * 3 + 2]!.y }
+  let prev: Point = c[(n - 1) * 3 + 2]!
   for (let i = 0; i < n; i++) {
-    const p0 = c[i * 3]!
-    const p1 = c[i * 3 + 1]!
-    const p2 = c[i * 3 + 2]!
+    const to = c[i * 3 + 2]!
     if (tag[i] === 'CURVE') {
-      const to = { x: p2.x, y: p2.y }
-      segments.push({ kind: 'cubic', from: prev, c1: { x: p0.x, y: p0.y }, c2: { x: p1.x, y: p1.y }, to })
-      prev = to
+      segments.push({ kind: 'cubic', from: prev, c1: c[i * 3]!, c2: c[i * 3 + 1]!, to })
     } else {
-      const v = { x: p1.x, y: p1.y }
-      const to = { x: p2.x, y: p2.y }
+      const v = c[i * 3 + 1]!
       segments.push({ kind: 'line', from: prev, to: v })
       segments.push({ kind: 'line', from: v, to })
-      prev = to
     }
+    prev = to
   }
   return { sign, segments }
 }
+
+/** Boundary points from which a path counts as very long (smoothed last). */
+const LONG_PATH_POINTS = 20_000
 
 /** Trace a 1-bit bitmap (1 = ink). Throws TooComplexError when over the node cap. */
 export function traceBitmap(
@@ -254,48 +232,41 @@ export function traceBitmap(
     alphaMax: parameters.alphaMax,
     optCurve: parameters.optCurve,
     optTolerance: parameters.optTolerance,
-    threshold: 128,
-    blackOnWhite: true,
   })
-  if (typeof potrace._bmToPathlist !== 'function' || typeof potrace._processPath !== 'function' || !potrace._params) {
-    throw new Error('The installed potrace package lacks the internal stages this pipeline calls (expected potrace 2.1.8).')
+  if (typeof potrace._processPath !== 'function' || !potrace._params) {
+    throw new Error('The installed potrace package lacks the internal stage this pipeline calls (expected potrace 2.1.8).')
   }
-  const params = potrace._params
   const curves: ClosedCurve[] = []
   let nodeCount = 0
   // _processPath smooths every path of this._pathlist: here a list of one.
-  const single = { _params: params, _pathlist: [] as PtPath[] }
-  const sink = {
-    push(path: PtPath): void {
-      const p = path.pt[0]!
-      path.sign = bitmap[p.y * width + p.x] ? '+' : '-'
-      single._pathlist[0] = path
-      potrace._processPath.call(single)
-      const curve = toCurve(path, path.sign === '+' ? 1 : -1)
-      nodeCount += curve.segments.length
-      if (nodeCount > nodeCap) throw new TooComplexError(nodeCap, nodeCap)
-      curves.push(curve)
-    },
+  const single = { _params: potrace._params, _pathlist: [] as PortPath[] }
+  const smooth = (path: PortPath, index: number) => {
+    single._pathlist[0] = path
+    potrace._processPath.call(single)
+    const curve = toCurve(path as PtPath, path.sign === '+' ? 1 : -1)
+    nodeCount += curve.segments.length
+    if (nodeCount > nodeCap) throw new TooComplexError(nodeCap, nodeCap)
+    curves[index] = curve
   }
-  // The working copy is XOR-filled by the decomposition: never our caller's bitmap.
-  const ink = new InkMap(bitmap.slice(), width, height)
-  const decomposition = {
-    _params: params,
-    _luminanceData: { copy: () => ink },
-    get _pathlist() { return sink },
-    set _pathlist(_list: unknown) { /* the stage starts with `this._pathlist = []`: keep the sink */ },
-  }
-  potrace._bmToPathlist.call(decomposition)
+  // Very long paths (a ragged blob of paper texture) take seconds each to smooth: they wait
+  // until the rest is done, so a drawing that is over the cap anyway is refused without them.
+  const long: Array<{ path: PortPath, index: number }> = []
+  let found = 0
+  decompose(bitmap, width, height, parameters.turdSize, (path) => {
+    const index = found++
+    if (path.len > LONG_PATH_POINTS) long.push({ path, index })
+    else smooth(path, index)
+  })
+  for (const { path, index } of long) smooth(path, index)
   return {
     curves,
-    pathData: curvesToPathData(curves),
     width, height, pxPerMm, nodeCount, parameters,
     timings: { traceMs: performance.now() - t0 },
   }
 }
 
-/** The raw outline as an SVG in prepared-bitmap pixels (for storage and debugging). */
-export function outlineToSvg(outline: Outline): string {
+/** The raw outline as an SVG in prepared-bitmap pixels, 3 decimals (for storage and debugging). */
+export function outlineToSvg(outline: Pick<Outline, 'curves' | 'width' | 'height'>): string {
   return `<svg xmlns="http://www.w3.org/2000/svg" width="${outline.width}" height="${outline.height}" viewBox="0 0 ${outline.width} ${outline.height}">`
-    + `<path d="${outline.pathData}" fill="#000" fill-rule="evenodd"/></svg>\n`
+    + `<path d="${curvesToPathData(outline.curves)}" fill="#000" fill-rule="evenodd"/></svg>\n`
 }
