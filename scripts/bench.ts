@@ -15,6 +15,7 @@ import { traceBitmap } from '../server/pipeline/trace'
 import { buildPipelineWorker, PIPELINE_WORKER_FILE } from './lib/pipeline-worker-build'
 import type { WorkerAnswer } from '../server/pipeline/worker'
 import { benchBrowserRoundTrip } from './lib/bench-browser'
+import { benchGeometry } from './lib/bench-geometry'
 
 const RUNS = Number(process.env.BENCH_RUNS ?? 5)
 const WIDTH_MM = 150
@@ -105,6 +106,8 @@ async function main() {
   } else {
     console.log('  Debian potrace is not installed (apt-get install potrace) — no comparison.')
   }
+
+  await benchGeometry(twelve, RUNS)
 
   // The worker pool as the server uses it.
   // Inside the project, so the worker finds sharp, potrace and svgo in node_modules.
