@@ -225,25 +225,26 @@ export function strokeSkeleton(inkBitmap: Uint8Array, width: number, height: num
   const pixels = skeletonPixels(bitmap, width, height, dist2)
   const count = pixels.length
   const d2 = new Int32Array(count)
-  const id = new Map<number, number>()
-  for (let s = 0; s < count; s++) { d2[s] = dist2[pixels[s]!]!; id.set(pixels[s]!, s) }
+  // From here on dist2 marks the skeleton: skeleton pixel s holds −(s + 1).
+  for (let s = 0; s < count; s++) { const i = pixels[s]!; d2[s] = dist2[i]!; dist2[i] = -(s + 1) }
 
   // Skeleton neighbours of each skeleton pixel, in one flat list.
   const first = new Int32Array(count + 1)
-  const list: number[] = []
+  const list = new Int32Array(8 * count)
+  let listed = 0
   for (let s = 0; s < count; s++) {
-    first[s] = list.length
+    first[s] = listed
     const i = pixels[s]!
     const x = i % width, y = (i - x) / width
     for (let k = 0; k < 8; k++) {
       const xx = x + NX[k]!, yy = y + NY[k]!
       if (xx < 0 || yy < 0 || xx >= width || yy >= height) continue
-      const t = id.get(yy * width + xx)
-      if (t !== undefined) list.push(t)
+      const t = dist2[yy * width + xx]!
+      if (t < 0) list[listed++] = -t - 1
     }
   }
-  first[count] = list.length
-  const nbr = Int32Array.from(list)
+  first[count] = listed
+  const nbr = list.slice(0, listed)
 
   // Pieces: connected parts of the skeleton.
   const piece = new Int32Array(count).fill(-1)
