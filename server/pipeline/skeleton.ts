@@ -107,8 +107,12 @@ export function skeletonPixels(bitmap: Uint8Array, width: number, height: number
   // Pixels at the same distance are thinned together, from one side at a time (paper to the
   // north, south, east, west in turn), every removable pixel of that side at once: removing
   // them one by one in reading order would eat a two-pixel-wide line from one end. Rounds of
-  // the four sides repeat over what is left until nothing more goes.
-  const sides = [o0, o4, o2, o6]
+  // the four sides repeat over what is left until nothing more goes. Which sides of a pixel
+  // are paper is read once a round, into `state` beside the list (bit 4: still ink), so each
+  // side's pass reads the image only where it may remove something.
+  const N = 1, S = 2, E = 4, Wst = 8, ALIVE = 16
+  const sides: Array<[number, number]> = [[N, o0], [S, o4], [E, o2], [Wst, o6]]
+  const state = new Uint8Array(inkCount)
   const doomed = new Int32Array(inkCount)
   let from = 0, kept = 0
   for (let k = 1; k < count.length; k++) {
@@ -117,21 +121,25 @@ export function skeletonPixels(bitmap: Uint8Array, width: number, height: number
     let removed = true
     while (removed) {
       removed = false
-      for (const side of sides) {
+      for (let j = from; j < to; j++) {
+        const p = order[j]!
+        state[j] = ALIVE | (work[p + o0] ? 0 : N) | (work[p + o4] ? 0 : S) | (work[p + o2] ? 0 : E) | (work[p + o6] ? 0 : Wst)
+      }
+      for (const [bit] of sides) {
         let n = 0
         for (let j = from; j < to; j++) {
+          if ((state[j]! & (ALIVE | bit)) !== (ALIVE | bit)) continue
           const p = order[j]!
-          if (!work[p] || work[p + side]) continue
           const code = work[p + o0]! | (work[p + o1]! << 1) | (work[p + o2]! << 2) | (work[p + o3]! << 3)
             | (work[p + o4]! << 4) | (work[p + o5]! << 5) | (work[p + o6]! << 6) | (work[p + o7]! << 7)
-          if (REMOVABLE[code]) doomed[n++] = p
+          if (REMOVABLE[code]) doomed[n++] = j
         }
-        for (let j = 0; j < n; j++) work[doomed[j]!] = 0
+        for (let i = 0; i < n; i++) { const j = doomed[i]!; work[order[j]!] = 0; state[j] = 0 }
         if (n) removed = true
       }
       // keep only what is left of this distance's pixels
       let m = from
-      for (let j = from; j < to; j++) { const p = order[j]!; if (work[p]) order[m++] = p }
+      for (let j = from; j < to; j++) if (state[j]) order[m++] = order[j]!
       to = m
     }
     for (let j = from; j < to; j++) order[kept++] = toIndex(order[j]!, W, width) // kept ≤ j
