@@ -30,14 +30,29 @@ function median(xs: number[]): number {
 const ms = (x: number) => `${x.toFixed(0).padStart(6)} ms`
 const ratio = (a: number, b: number) => `${(a / b).toFixed(2)}×`
 
+function once(f: () => void): number {
+  const t0 = performance.now()
+  f()
+  return performance.now() - t0
+}
+
 function timed(runs: number, f: () => void): number {
   const t: number[] = []
-  for (let i = 0; i < runs; i++) {
-    const t0 = performance.now()
-    f()
-    t.push(performance.now() - t0)
-  }
+  for (let i = 0; i < runs; i++) t.push(once(f))
   return median(t)
+}
+
+/**
+ * Ours and the floor, run in turn (so both meet the same load), `runs` times: the medians of
+ * each and of their ratios.
+ */
+function sideBySide(runs: number, ours: () => void, floor: () => void): { ours: number, floor: number, ratio: number } {
+  const a: number[] = [], b: number[] = [], r: number[] = []
+  for (let i = 0; i < runs; i++) {
+    const x = once(ours), y = once(floor)
+    a.push(x); b.push(y); r.push(x / y)
+  }
+  return { ours: median(a), floor: median(b), ratio: median(r) }
 }
 
 /** An SVG drawn black on white, thresholded at half grey into a 1-bit bitmap (1 = ink). */
@@ -104,31 +119,31 @@ function toPbm(b: TraceInput): Buffer {
   return Buffer.concat([Buffer.from(`P4\n${b.width} ${b.height}\n`), bits])
 }
 
-/** Debian's potrace on the bitmap with our parameters, including process start and SVG output. */
-function potraceMs(b: TraceInput, runs: number): number {
+/**
+ * Debian's potrace on the bitmap with our parameters, including process start and SVG output:
+ * a function that runs it once, and one that removes its files.
+ */
+function potraceRunner(b: TraceInput): { run: () => void, done: () => void } {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'dw-bench-geometry-'))
-  try {
-    const pbm = path.join(dir, 'in.pbm')
-    writeFileSync(pbm, toPbm(b))
-    const p = traceParameters(SETTINGS, b.pxPerMm)
-    return timed(runs, () => {
-      execFileSync(POTRACE, ['-s', '-t', String(p.turdSize), '-a', String(p.alphaMax), '-O', String(p.optTolerance), '-o', path.join(dir, 'out.svg'), pbm])
-    })
-  } finally {
-    rmSync(dir, { recursive: true, force: true })
+  const pbm = path.join(dir, 'in.pbm')
+  writeFileSync(pbm, toPbm(b))
+  const p = traceParameters(SETTINGS, b.pxPerMm)
+  return {
+    run: () => { execFileSync(POTRACE, ['-s', '-t', String(p.turdSize), '-a', String(p.alphaMax), '-O', String(p.optTolerance), '-o', path.join(dir, 'out.svg'), pbm]) },
+    done: () => rmSync(dir, { recursive: true, force: true }),
   }
 }
 
 /** A plain pass over the bitmap's pixels: the floor of anything that reads them all. */
-function passMs(b: { bitmap: Uint8Array }, runs: number): number {
+function pass(b: { bitmap: Uint8Array }): () => void {
   let sink = 0
-  const t = timed(runs * 3, () => {
+  return () => {
     let s = 0
     const px = b.bitmap
     for (let i = 0; i < px.length; i++) s += px[i]!
     sink += s
-  })
-  return sink >= 0 ? t : t
+    if (sink < 0) throw new Error('unreachable')
+  }
 }
 
 /** A 400 mm sheet of bad-threshold paper texture: a few thousand ragged blobs, far over the node limit. */
@@ -157,8 +172,13 @@ async function refusalChild(): Promise<void> {
   }
   const refuseMs = performance.now() - t0
   const peakMb = process.resourceUsage().maxRSS / 1024
-  const theirs = existsSync(POTRACE) ? potraceMs(b, 1) : null
-  process.stdout.write(JSON.stringify({ outcome, refuseMs, peakMb, beforeMb: before / 1024, potraceMs: theirs, pass: passMs(b, 1) }))
+  let theirs: number | null = null
+  if (existsSync(POTRACE)) {
+    const potrace = potraceRunner(b)
+    theirs = once(potrace.run)
+    potrace.done()
+  }
+  process.stdout.write(JSON.stringify({ outcome, refuseMs, peakMb, beforeMb: before / 1024, potraceMs: theirs }))
 }
 
 export async function benchGeometry(photo12: Buffer, runs: number): Promise<void> {
@@ -169,16 +189,17 @@ export async function benchGeometry(photo12: Buffer, runs: number): Promise<void
   for (const [name, make] of [['text page, A4 at 10 px/mm', textPage], ['2,000 dots, 200 mm at 10 px/mm', dots]] as const) {
     const b = await make()
     const nodes = traceBitmap(b, SETTINGS).nodeCount // also the warm-up
-    const ours = timed(runs, () => traceBitmap(b, SETTINGS))
-    if (!havePotrace) { console.log(`    ${name}: ours ${ms(ours)} (${nodes} nodes); Debian potrace not installed (apt-get install potrace)`); continue }
-    const theirs = potraceMs(b, runs)
-    console.log(`    ${name.padEnd(32)} ours ${ms(ours)}   potrace ${ms(theirs)}   ${ratio(ours, theirs)}   (${b.width}×${b.height} px, ${nodes} nodes)`)
+    if (!havePotrace) { console.log(`    ${name}: ours ${ms(timed(runs, () => traceBitmap(b, SETTINGS)))} (${nodes} nodes); Debian potrace not installed (apt-get install potrace)`); continue }
+    const potrace = potraceRunner(b)
+    const t = sideBySide(runs, () => traceBitmap(b, SETTINGS), potrace.run)
+    potrace.done()
+    console.log(`    ${name.padEnd(32)} ours ${ms(t.ours)}   potrace ${ms(t.floor)}   ${t.ratio.toFixed(2)}×   (${b.width}×${b.height} px, ${nodes} nodes)`)
   }
 
   const child = spawnSync(process.execPath, ['--import', 'tsx', fileURLToPath(import.meta.url), '--refusal'], { encoding: 'utf8', maxBuffer: 1 << 20 })
   if (child.status !== 0) console.log(`  Refusal over the node limit: the child process failed: ${child.stderr.trim().split('\n').pop()}`)
   else {
-    const r = JSON.parse(child.stdout) as { outcome: string, refuseMs: number, peakMb: number, beforeMb: number, potraceMs: number | null, pass: number }
+    const r = JSON.parse(child.stdout) as { outcome: string, refuseMs: number, peakMb: number, beforeMb: number, potraceMs: number | null }
     console.log(`  Paper texture over the node limit, 400 × 400 mm at 10 px/mm: ${r.outcome} after ${ms(r.refuseMs)}`
       + (r.potraceMs === null ? '' : `, ${ratio(r.refuseMs, r.potraceMs)} Debian potrace's whole trace of it (${ms(r.potraceMs)})`))
     console.log(`    peak memory of that process ${r.peakMb.toFixed(0)} MB, of which ${r.beforeMb.toFixed(0)} MB before tracing (Node, the bitmap)`)
@@ -195,12 +216,11 @@ export async function benchGeometry(photo12: Buffer, runs: number): Promise<void
     const clean = cleanVector(traceBitmap(b, SETTINGS))
     const figures = measureOutline(clean, b, 1) // warm-up
     const parts = { geometryMs: [] as number[], fidelityMs: [] as number[], narrowestMs: [] as number[] }
-    const total = timed(runs, () => {
+    const t = sideBySide(runs, () => {
       const m = measureOutline(clean, b, 1)
       for (const k of Object.keys(parts) as Array<keyof typeof parts>) parts[k].push(m.timings[k])
-    })
-    const floor = passMs(b, runs)
-    console.log(`    ${name.padEnd(26)} ${ms(total)}   pass ${floor.toFixed(1).padStart(5)} ms   ${(total / floor).toFixed(0).padStart(3)} passes`
+    }, pass(b))
+    console.log(`    ${name.padEnd(26)} ${ms(t.ours)}   pass ${t.floor.toFixed(1).padStart(5)} ms   ${t.ratio.toFixed(0).padStart(3)} passes`
       + `   (geometry ${median(parts.geometryMs).toFixed(0)}, fidelity ${median(parts.fidelityMs).toFixed(0)}, narrowest ${median(parts.narrowestMs).toFixed(0)} ms;`
       + ` ${b.width}×${b.height} px, narrowest ${figures.narrowestFeatureMm?.toFixed(2)} mm)`)
   }
