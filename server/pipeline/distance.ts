@@ -29,19 +29,14 @@ export function squaredDistanceTransform(bitmap: Uint8Array, width: number, heig
   const z = new Float64Array(width + 3) // and where each one starts to be the lowest
   for (let y = height - 1; y >= 0; y--) {
     const row = y * width
-    for (let x = 0; x < width; x++) {
-      if (bitmap[row + x]) {
-        const below = g[x]! + 1, above = out[row + x]!
-        g[x] = below < above ? below : above
-      } else {
-        g[x] = 0
-      }
-    }
     let x = 0
     while (x < width) {
-      if (!bitmap[row + x]) { x++; continue }
+      if (!bitmap[row + x]) { g[x] = 0; x++; continue }
       const a = x
-      while (x < width && bitmap[row + x]) x++
+      for (; x < width && bitmap[row + x]; x++) {
+        const below = g[x]! + 1, above = out[row + x]!
+        g[x] = below < above ? below : above
+      }
       const b = x - 1
       // parabolas of the run's pixels, between the paper pixels at a − 1 and b + 1
       let k = 0
