@@ -236,7 +236,8 @@ export function blobWidthPx(d2: number): number {
 
 /**
  * The narrowest stroke of the ink, by this definition (skeleton, stroke bodies and end tapers
- * as defined in skeleton.ts; distances exact, outside the image counts as paper):
+ * as defined in skeleton.ts, pinholes read as ink; distances exact, between pixel centres,
+ * outside the image counts as paper):
  *
  *   for each piece of ink, the smallest width (strokeWidthPx) over the skeleton pixels in the
  *   bodies of its strokes; for a piece whose skeleton is all taper (a dot, a disc, a square, a

@@ -1,13 +1,14 @@
 // The skeleton of the ink, and which parts of it are the bodies of strokes.
 //
-// Skeleton: the ink thinned to lines one pixel wide along its middle. Ink pixels are visited
-// once each, in order of increasing distance to the paper (exact squared distances, bucket
-// sorted, so linear in the pixels), and a pixel is removed when removing it changes nothing
-// about the ink's shape in the large: it touches paper across an edge, it is not the end of a
-// line (it has at least two ink neighbours), and its ink neighbours stay one 8-connected group
-// without it. What remains runs along the ridge of the distance to the paper — the middle of
-// every stroke — keeps every piece in one piece and every hole a hole, and has branches that
-// end at the tips of strokes and in the corners of shapes.
+// Skeleton: the ink thinned to lines one pixel wide along its middle. First a pinhole (a paper
+// pixel with ink on its four sides) is read as ink. Then the ink pixels are taken in order of
+// increasing distance to the paper (exact squared distances, bucket sorted, so linear in the
+// pixels), those at one distance together, and a pixel is removed when removing it changes
+// nothing about the ink's shape in the large: it touches paper across an edge, it is not the
+// end of a line (it has at least two ink neighbours), and its ink neighbours stay one
+// 8-connected group without it. What remains runs along the ridge of the distance to the
+// paper — the middle of every stroke — keeps every piece in one piece and every hole a hole,
+// and has branches that end at the tips of strokes and in the corners of shapes.
 //
 // Stroke bodies: a skeleton pixel p at distance D(p) from the paper lies in an END TAPER when
 // it can be reached from an end of the skeleton along a path on which the distance never drops
