@@ -1,5 +1,6 @@
 import { svgPathProperties } from 'svg-path-properties'
-import { describe, expect, it } from 'vitest'
+import { createRequire } from 'node:module'
+import { describe, expect, it, vi } from 'vitest'
 import { cleanVector } from '../../../server/pipeline/clean'
 import { TooComplexError } from '../../../server/pipeline/errors'
 import { fidelity, intersectionOverUnion, rasteriseSvg } from '../../../server/pipeline/fidelity'
@@ -158,6 +159,39 @@ describe('clean vector', () => {
     const t0 = performance.now()
     expect(() => cleanVector({ curves: [{ sign: 1, segments }], width: 500, height: 500, pxPerMm: 10 })).toThrow(TooComplexError)
     expect(performance.now() - t0).toBeLessThan(200)
+  })
+})
+
+describe('the node cap', () => {
+  it('stops a drawing while it is traced, smoothing long paths last', () => {
+    // Counted on the port's second stage (Potrace#_processPath), one call per path.
+    const port = (createRequire(import.meta.url)('potrace') as { Potrace: { prototype: { _processPath: (this: { _pathlist: Array<{ len: number }> }) => void } } }).Potrace.prototype
+    const calls: number[] = []
+    const original = port._processPath
+    const spy = vi.spyOn(port, '_processPath').mockImplementation(function (this: { _pathlist: Array<{ len: number }> }) {
+      calls.push(this._pathlist[0]!.len)
+      original.call(this)
+    })
+    try {
+      // a ragged band across the top (one path of over 20,000 points), then 40 × 40 dots below
+      const width = 1200, height = 1000
+      const bitmap = new Uint8Array(width * height)
+      for (let x = 0; x < width; x++) for (let y = 0; y < 40 + 30 * ((x >> 1) & 1); y++) bitmap[y * width + x] = 1
+      for (let i = 0; i < 40; i++) for (let j = 0; j < 40; j++) {
+        for (let y = 0; y < 8; y++) for (let x = 0; x < 8; x++) bitmap[(120 + j * 20 + y) * width + 20 + i * 25 + x] = 1
+      }
+      const all = traceBitmap({ bitmap, width, height, pxPerMm: 10 }, { ...SETTINGS, speckFilterMm2: 0 })
+      expect(all.curves).toHaveLength(1601)
+      expect(calls[calls.length - 1]).toBeGreaterThan(20_000) // the long path went last
+      const curves = all.curves.map((c) => c.segments.length)
+      calls.length = 0
+      expect(() => traceBitmap({ bitmap, width, height, pxPerMm: 10 }, { ...SETTINGS, speckFilterMm2: 0 }, { nodeCap: 400 })).toThrow(TooComplexError)
+      // refused after about as many dots as the cap allows, without the long path
+      expect(calls.length).toBeLessThan(400 / Math.min(...curves) + 2)
+      expect(Math.max(...calls)).toBeLessThan(20_000)
+    } finally {
+      spy.mockRestore()
+    }
   })
 })
 
