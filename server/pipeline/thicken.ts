@@ -7,7 +7,10 @@
 // diameter, while wider strokes and large shapes keep every pixel as it was (their corners
 // are end tapers, not stroke bodies, so they are not rounded off). Ink is only ever added.
 // The discs are found with one more distance transform, from the disc centres, so the time is
-// linear in the pixels whatever the width.
+// linear in the pixels whatever the width. A thickened stroke that passes close to other ink
+// can leave a new narrow place between them, so the result is measured again and thickened
+// again where needed, a few rounds at most. Ink closer to the image's edge than half the width
+// cannot grow past the edge: a stroke running along it stays as wide as there is room for.
 import { squaredDistanceTransform } from './distance'
 import { blobWidthPx, strokeWidthPx } from './geometry'
 import { strokeSkeleton } from './skeleton'
@@ -29,21 +32,24 @@ export function thickenStrokes(bitmap: Uint8Array, width: number, height: number
   if (bitmap.length !== width * height) throw new RangeError('Bitmap size does not match width × height.')
   if (!(minWidthPx >= 0)) throw new RangeError('The width to thicken to must be a number of pixels, at least 0.')
   let out = bitmap
-  // A thickened stroke that passes close to other ink can leave a new narrow place between
-  // them: a few more rounds on the result take care of those.
   for (let round = 0; round < MAX_ROUNDS; round++) {
     const next = thickenOnce(out, width, height, minWidthPx, options)
     if (!next) break
-    out = next
+    out = next.bitmap
+    // only narrow places against the image's edge were left: another round cannot widen them
+    if (!next.awayFromEdge) break
   }
   return out === bitmap ? bitmap.slice() : out
 }
 
-/** Rounds of thickening at most (each only adds ink; the second rarely finds anything). */
-const MAX_ROUNDS = 4
+/** Rounds of thickening at most (each only adds ink; a third rarely finds anything). */
+const MAX_ROUNDS = 3
 
-/** One round: the thickened bitmap, or null when nothing is narrower than minWidthPx. */
-function thickenOnce(bitmap: Uint8Array, width: number, height: number, minWidthPx: number, options: ThickenOptions): Uint8Array | null {
+/**
+ * One round: the thickened bitmap, and whether any disc lay wholly inside the image (if not,
+ * another round has nothing it could change); null when nothing is narrower than minWidthPx.
+ */
+function thickenOnce(bitmap: Uint8Array, width: number, height: number, minWidthPx: number, options: ThickenOptions): { bitmap: Uint8Array, awayFromEdge: boolean } | null {
   if (minWidthPx <= 1) return null
   const sk = strokeSkeleton(bitmap, width, height)
   const count = sk.pixels.length
@@ -92,9 +98,11 @@ function thickenOnce(bitmap: Uint8Array, width: number, height: number, minWidth
   const pad = Math.ceil(radius) + 1
   const W = width + 2 * pad, H = height + 2 * pad
   const field = new Uint8Array(W * H).fill(1)
+  let awayFromEdge = false
   for (const i of centres) {
     const x = i % width, y = (i - x) / width
     field[(y + pad) * W + x + pad] = 0
+    if (Math.min(x + 0.5, y + 0.5, width - x - 0.5, height - y - 0.5) >= radius) awayFromEdge = true
   }
   const d2 = squaredDistanceTransform(field, W, H)
   const r2 = radius * radius
@@ -104,7 +112,7 @@ function thickenOnce(bitmap: Uint8Array, width: number, height: number, minWidth
       if (d2[j]! <= r2) out[i] = 1
     }
   }
-  return out
+  return { bitmap: out, awayFromEdge }
 }
 
 /** Pixels in the 8-connected piece of ink at `start`, counted up to just past `limit`. */
