@@ -11,10 +11,11 @@
 //
 // Each path is smoothed into curves as soon as it is found (very long ones last), so the node
 // cap stops a drawing while it is traced, and memory holds the working data of one path at a
-// time (and the points of the very long ones waiting). The port decides a
-// path's sign on its XOR-filled working copy, where every path is "+"; decompose.ts reads it
-// from the original bitmap at the path's first pixel, as potrace does, so holes are marked and,
-// as in potrace, reversed.
+// time (and the points of the very long ones waiting).
+//
+// The port decides a path's sign on its XOR-filled working copy, where every path is "+";
+// decompose.ts reads it from the original bitmap at the path's first pixel, as potrace does,
+// so holes are marked and, as in potrace, reversed.
 //
 // Synchronous and pure: safe to call from a worker thread.
 import { createRequire } from 'node:module'
