@@ -17,6 +17,7 @@ import type { WorkerAnswer } from '../server/pipeline/worker'
 import { benchBrowserRoundTrip } from './lib/bench-browser'
 import { benchCutSheets } from './lib/bench-cutsheet'
 import { benchPlates } from './lib/bench-plates'
+import { benchGeometry } from './lib/bench-geometry'
 
 const RUNS = Number(process.env.BENCH_RUNS ?? 5)
 const WIDTH_MM = 150
@@ -107,6 +108,8 @@ async function main() {
   } else {
     console.log('  Debian potrace is not installed (apt-get install potrace) — no comparison.')
   }
+
+  await benchGeometry(twelve, RUNS)
 
   // The worker pool as the server uses it.
   // Inside the project, so the worker finds sharp, potrace and svgo in node_modules.

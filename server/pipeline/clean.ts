@@ -75,7 +75,7 @@ export function cleanVector(outline: Pick<Outline, 'curves' | 'width' | 'height'
   const widthMm = outline.width / outline.pxPerMm
   const heightMm = outline.height / outline.pxPerMm
   const curvesMm = curvesToMm(outline.curves, outline.pxPerMm)
-  const pathDataMm = curvesToPathData(curvesMm, formatMm)
+  const pathDataMm = curvesToPathData(curvesMm, 2)
   const w = formatMm(widthMm), h = formatMm(heightMm)
   const raw = `<svg xmlns="http://www.w3.org/2000/svg" width="${w}mm" height="${h}mm" viewBox="0 0 ${w} ${h}">`
     + (pathDataMm ? `<path d="${pathDataMm}" fill="#000" fill-rule="evenodd"/>` : '')

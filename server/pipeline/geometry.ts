@@ -1,4 +1,5 @@
 // Measurements of an outline at its physical size, and the narrowest feature of a bitmap.
+import { strokeSkeleton } from './skeleton'
 import type { ClosedCurve, Point, Segment } from './trace'
 
 // ---------------------------------------------------------------------------------------
@@ -199,95 +200,10 @@ export function smallPieces(curves: ClosedCurve[], pxPerMm: number, minAreaMm2: 
 }
 
 // ---------------------------------------------------------------------------------------
-// Exact Euclidean distance transform with nearest-paper feature
-// (P. F. Felzenszwalb and D. P. Huttenlocher, "Distance Transforms of Sampled Functions",
-// Theory of Computing 8 (2012) 415–428: the 1-D squared-distance transform as the lower
-// envelope of parabolas, applied to columns and then to rows, is exact in 2-D.)
+// Narrowest stroke
 // ---------------------------------------------------------------------------------------
 
-/**
- * 1-D squared distance transform of f[0…n-1] (FH 2012, algorithm DT(f)), also reporting for
- * each q the index of the sample whose parabola is lowest there.
- */
-function dt1d(f: Float64Array, n: number, d: Float64Array, arg: Int32Array, v: Int32Array, z: Float64Array): void {
-  let k = 0
-  v[0] = 0
-  z[0] = -Infinity
-  z[1] = Infinity
-  for (let q = 1; q < n; q++) {
-    let vk = v[k]!
-    let s = ((f[q]! + q * q) - (f[vk]! + vk * vk)) / (2 * q - 2 * vk)
-    while (s <= z[k]!) { // z[0] = −∞ ends the loop at k = 0
-      k--
-      vk = v[k]!
-      s = ((f[q]! + q * q) - (f[vk]! + vk * vk)) / (2 * q - 2 * vk)
-    }
-    k++
-    v[k] = q
-    z[k] = s
-    z[k + 1] = Infinity
-  }
-  k = 0
-  for (let q = 0; q < n; q++) {
-    while (z[k + 1]! < q) k++
-    const vk = v[k]!
-    d[q] = (q - vk) * (q - vk) + f[vk]!
-    arg[q] = vk
-  }
-}
-
-export interface FeatureTransform {
-  /** Padded size: the bitmap with a one-pixel paper frame (outside the image is paper). */
-  width: number
-  height: number
-  /** For each padded pixel: x and y of the nearest paper pixel (padded coordinates). */
-  featureX: Int32Array
-  featureY: Int32Array
-}
-
-/** Nearest paper pixel of every pixel of a 1-bit bitmap (1 = ink), exactly, in O(pixels). */
-export function featureTransform(bitmap: Uint8Array, width: number, height: number): FeatureTransform {
-  const W = width + 2, H = height + 2
-  const ink = (x: number, y: number) => x >= 1 && y >= 1 && x <= width && y <= height && bitmap[(y - 1) * width + (x - 1)] === 1
-  // "Infinitely far" for ink samples in the column pass: larger than any squared distance in
-  // the image, yet small enough that every sum stays an exactly representable integer.
-  const FAR = 4 * (W + H) * (W + H)
-  const rowOf = new Int32Array(W * H) // nearest paper row within the column
-  const n = Math.max(W, H)
-  const f = new Float64Array(n), d = new Float64Array(n), z = new Float64Array(n + 1)
-  const arg = new Int32Array(n), v = new Int32Array(n)
-  for (let x = 0; x < W; x++) {
-    for (let y = 0; y < H; y++) f[y] = ink(x, y) ? FAR : 0
-    dt1d(f, H, d, arg, v, z)
-    for (let y = 0; y < H; y++) rowOf[y * W + x] = arg[y]!
-  }
-  const featureX = new Int32Array(W * H)
-  const featureY = new Int32Array(W * H)
-  for (let y = 0; y < H; y++) {
-    const base = y * W
-    for (let x = 0; x < W; x++) { const r = rowOf[base + x]! - y; f[x] = r * r }
-    dt1d(f, W, d, arg, v, z)
-    for (let x = 0; x < W; x++) {
-      const fx = arg[x]!
-      featureX[base + x] = fx
-      featureY[base + x] = rowOf[base + fx]!
-    }
-  }
-  return { width: W, height: H, featureX, featureY }
-}
-
-/** Euclidean distance from each pixel centre to the nearest paper pixel centre (0 on paper). */
-export function distanceTransform(bitmap: Uint8Array, width: number, height: number): Float64Array {
-  const ft = featureTransform(bitmap, width, height)
-  const out = new Float64Array(width * height)
-  for (let y = 0; y < height; y++) {
-    for (let x = 0; x < width; x++) {
-      const i = (y + 1) * ft.width + (x + 1)
-      out[y * width + x] = Math.hypot(ft.featureX[i]! - (x + 1), ft.featureY[i]! - (y + 1))
-    }
-  }
-  return out
-}
+export { distanceTransform, squaredDistanceTransform } from './distance'
 
 export interface NarrowestFeature {
   widthPx: number
@@ -297,153 +213,66 @@ export interface NarrowestFeature {
 }
 
 /**
- * Narrowest feature of the ink, by this definition:
+ * Width of a stroke across a skeleton pixel of its body whose centre lies at squared distance
+ * d2 from the nearest paper pixel's centre: twice that distance less half a pixel. (A stroke n
+ * pixels across along an axis has its middle pixel at distance (n + 1)/2 when n is odd, and
+ * two middle pixels at n/2 when n is even: n is 2D − 1 or 2D, and 2D − 0.5 is within half a
+ * pixel of both.)
+ */
+export function strokeWidthPx(d2: number): number {
+  return 2 * Math.sqrt(d2) - 0.5
+}
+
+/**
+ * Width of a compact piece (a dot, a disc, a square) whose deepest pixel's centre lies at
+ * squared distance d2 from the nearest paper pixel's centre: the diameter of the largest
+ * inscribed disc, twice that distance plus half a pixel (the deepest point of the piece lies
+ * between pixel centres, on average about 0.4 px from the nearest one, which reads that much
+ * less).
+ */
+export function blobWidthPx(d2: number): number {
+  return 2 * Math.sqrt(d2) + 0.5
+}
+
+/**
+ * The narrowest stroke of the ink, by this definition (skeleton, stroke bodies and end tapers
+ * as defined in skeleton.ts, pinholes read as ink; distances exact, between pixel centres,
+ * outside the image counts as paper):
  *
- * For two 8-adjacent ink pixels p and q = p + e (e one of the four directions →, ↓, ↘, ↗),
- * let f(p), f(q) be their nearest paper pixels (exact feature transform above) and
- * d_p = |f(p) − p|, d_q = |f(q) − q|. The ink's medial axis crosses between p and q — p's
- * nearest paper lies behind p, q's beyond q, on opposite walls — when
- *   (a) f(p) − p points along −e and f(q) − q along +e, each within 36.87° (cosine ≥ 0.8), and
- *   (b) |f(p) − f(q)| ≥ 1.6 × max(d_p, d_q) (the two walls' nearest points are far apart).
- * The local width across the axis there is d_p + d_q + |e|·(cos_p + cos_q)/2 − 1 pixels: the
- * distance between the two nearest paper pixel centres measured across the axis, less the
- * half pixel by which each paper centre lies outside its wall. Because every direction is
- * within 22.5° of one of the four axes, each stretch of a stroke is seen by some pair.
- * The conditions drop the axis branches that run into convex corners (a right-angle corner
- * has its two nearest walls at 90°, outside the cone) and the pixel steps of a slanted edge,
- * which are not narrow parts.
- * An ink pixel whose two neighbours along one axis are paper while both neighbours along the
- * other axis are ink lies inside a line one pixel wide: width 1 pixel.
+ *   for each piece of ink, the smallest width (strokeWidthPx) over the skeleton pixels in the
+ *   bodies of its strokes; for a piece whose skeleton is all taper (a dot, a disc, a square, a
+ *   star: nothing in it is long compared with its width) the diameter of its largest inscribed
+ *   disc (blobWidthPx), at its skeleton's deepest pixel. The narrowest stroke is the smallest
+ *   of these over all pieces; null when there is no ink.
  *
- * A width w found at p counts when it is a narrow PART of the ink, not the taper of a point:
- * going k = max(4, round(1.5 w)) pixels along the axis from p in both directions, the axis goes
- * on with widths of at least w − 0.5 px (a stroke of even width, or a neck — the narrowest
- * place between wider parts). Near a pointed tip the width keeps shrinking towards the tip,
- * so tips are not reported (a needle-thin spike still is, once it is nearly parallel-sided).
- * A compact blob (a dot, a disc) has no axis to follow: its width counts at its thickest
- * point, where no ink pixel within k pixels is more than 0.75 px further from the paper than
- * the deeper pixel of the pair.
- *
- * The narrowest feature is the smallest counted width over the whole bitmap; outside the image
- * counts as paper. If nothing counts (a star's points around its core, a single speck), the
- * diameter of the largest disc inside the ink, 2·max(distance) − 1 px. For a straight stroke of whole-pixel width along an axis it is exact; for
- * other directions within about one pixel. null when there is no ink.
+ * So the width across the middle of a stroke counts at any angle, and so does every neck (a
+ * narrowing between wider parts) however short, while the corners of shapes and the points of
+ * stars and serifs, which narrow to nothing at their ends, do not. Widths are read at pixel
+ * centres: within about a pixel and a half of the drawn width at any angle (checked in
+ * geometry.test.ts). Time and memory are linear in the pixels (the taper search runs on the
+ * skeleton only).
  *
  * Pass the bitmap that is actually cut — ideally the clean vector rasterised back (see
  * fidelity.ts) — so specks dropped by the speck filter do not count.
  */
-const DIRS = [1, 0, 0, 1, 1, 1, 1, -1]
-/** For each of DIRS, the direction along the axis (perpendicular to it). */
-const ALONG = [0, 1, 1, 0, 1, -1, 1, 1]
-/** Pixel noise allowed when comparing widths along the axis. */
-const SLACK = 0.5
-/** cos 36.87°: a direction within this angle of the pair's axis counts as "along" it. */
-const CONE_COS = 0.8
-
 export function narrowestFeature(bitmap: Uint8Array, width: number, height: number, pxPerMm: number): NarrowestFeature | null {
-  const ft = featureTransform(bitmap, width, height)
-  const W = ft.width
-  const FX = ft.featureX, FY = ft.featureY
-  const isInk = (x: number, y: number) => x >= 0 && y >= 0 && x < width && y < height && bitmap[y * width + x] === 1
-  // Pass 1: local width across the axis at every pixel where the axis is crossed.
-  const widthAt = new Float32Array(width * height).fill(Infinity)
-  const dirAt = new Int8Array(width * height)
-  const depthAt = new Float32Array(width * height) // max(d_p, d_q) of the pair that gave the width
-  const ridge: number[] = []
-  let anyInk = false
-  for (let y = 0; y < height; y++) {
-    for (let x = 0; x < width; x++) {
-      const i = y * width + x
-      if (bitmap[i] !== 1) continue
-      anyInk = true
-      const ip = (y + 1) * W + (x + 1)
-      const px = x + 1, py = y + 1
-      const fpx = FX[ip]!, fpy = FY[ip]!
-      const vpx = fpx - px, vpy = fpy - py
-      const dp = Math.hypot(vpx, vpy)
-      let best = Infinity, bestDir = 0, bestDepth = 0
-      for (let dir = 0; dir < 4; dir++) {
-        const ex = DIRS[dir * 2]!, ey = DIRS[dir * 2 + 1]!
-        if (!isInk(x + ex, y + ey)) continue
-        const len = dir < 2 ? 1 : Math.SQRT2
-        const iq = ip + ey * W + ex
-        const fqx = FX[iq]!, fqy = FY[iq]!
-        const vqx = fqx - (px + ex), vqy = fqy - (py + ey)
-        const dq = Math.hypot(vqx, vqy)
-        // (a) cosines of the angles between each pixel's way to its nearest paper and the axis
-        const cp = -(vpx * ex + vpy * ey) / (len * dp)
-        const cq = (vqx * ex + vqy * ey) / (len * dq)
-        if (!(cp >= CONE_COS) || !(cq >= CONE_COS)) continue
-        // (b) the two nearest paper pixels far enough apart
-        const sep = Math.hypot(fpx - fqx, fpy - fqy)
-        if (sep < 1.6 * Math.max(dp, dq)) continue
-        const w = dp + dq + (len * (cp + cq)) / 2 - 1
-        if (w < best) { best = w; bestDir = dir; bestDepth = Math.max(dp, dq) }
-      }
-      // a line one pixel wide
-      if (!isInk(x - 1, y) && !isInk(x + 1, y) && isInk(x, y - 1) && isInk(x, y + 1)) { best = 1; bestDir = 0; bestDepth = 1 }
-      else if (!isInk(x, y - 1) && !isInk(x, y + 1) && isInk(x - 1, y) && isInk(x + 1, y)) { best = 1; bestDir = 1; bestDepth = 1 }
-      if (best < Infinity) { widthAt[i] = best; dirAt[i] = bestDir; depthAt[i] = bestDepth; ridge.push(i) }
-    }
+  const sk = strokeSkeleton(bitmap, width, height)
+  if (sk.pixels.length === 0) return null
+  const bodyMin = new Int32Array(sk.pieces).fill(-1) // skeleton pixel with the smallest body width
+  const deepest = new Int32Array(sk.pieces).fill(-1) // skeleton pixel furthest from the paper
+  for (let s = 0; s < sk.pixels.length; s++) {
+    const p = sk.piece[s]!
+    if (sk.body[s] && (bodyMin[p] === -1 || sk.d2[s]! < sk.d2[bodyMin[p]!]!)) bodyMin[p] = s
+    if (deepest[p] === -1 || sk.d2[s]! > sk.d2[deepest[p]!]!) deepest[p] = s
   }
-  if (!anyInk) return null
-
-  // Largest width found in the 3 × 3 pixels around (cx, cy).
-  const widest3 = (cx: number, cy: number) => {
-    let m = -Infinity
-    for (let yy = cy - 1; yy <= cy + 1; yy++) {
-      if (yy < 0 || yy >= height) continue
-      for (let xx = cx - 1; xx <= cx + 1; xx++) {
-        if (xx < 0 || xx >= width) continue
-        const v = widthAt[yy * width + xx]!
-        if (v < Infinity && v > m) m = v
-      }
-    }
-    return m
+  let best = -1, widthPx = Infinity
+  for (let p = 0; p < sk.pieces; p++) {
+    const s = bodyMin[p] !== -1 ? bodyMin[p]! : deepest[p]!
+    const w = bodyMin[p] !== -1 ? strokeWidthPx(sk.d2[s]!) : blobWidthPx(sk.d2[s]!)
+    if (w < widthPx) { widthPx = w; best = s }
   }
-  const distAt = (x: number, y: number) => {
-    const i = (y + 1) * W + (x + 1)
-    return Math.hypot(FX[i]! - (x + 1), FY[i]! - (y + 1))
-  }
-  // Pass 2: keep widths that are real narrow parts, not the taper of a pointed tip.
-  let best = Infinity, bx = -1, by = -1
-  for (const i of ridge) {
-    const w = widthAt[i]!
-    const x = i % width, y = (i - x) / width
-    if (w >= best) continue
-    const dir = dirAt[i]!
-    const tx = ALONG[dir * 2]!, ty = ALONG[dir * 2 + 1]!
-    const k = Math.max(4, Math.round(1.5 * w))
-    const ahead = widest3(x + k * tx, y + k * ty)
-    const behind = widest3(x - k * tx, y - k * ty)
-    let keep = ahead >= w - SLACK && behind >= w - SLACK
-    if (!keep) {
-      // the thickest point of a compact blob: no ink within k pixels lies deeper inside the ink
-      keep = true
-      const deepest = depthAt[i]! + 0.75
-      for (let yy = Math.max(0, y - k); yy <= Math.min(height - 1, y + k) && keep; yy++) {
-        for (let xx = Math.max(0, x - k); xx <= Math.min(width - 1, x + k); xx++) {
-          if (bitmap[yy * width + xx] === 1 && distAt(xx, yy) > deepest) { keep = false; break }
-        }
-      }
-    }
-    if (keep) { best = w; bx = x; by = y }
-  }
-  if (!Number.isFinite(best)) {
-    // Nothing counted (only tapers around a core, or single specks): the diameter of the
-    // largest disc that fits in the ink, 2·max(distance) − 1 px.
-    let dMax = 0, mx = 0, my = 0
-    for (let y = 0; y < height; y++) {
-      for (let x = 0; x < width; x++) {
-        if (bitmap[y * width + x] !== 1) continue
-        const d = distAt(x, y)
-        if (d > dMax) { dMax = d; mx = x; my = y }
-      }
-    }
-    const w = Math.max(1, 2 * dMax - 1)
-    return { widthPx: w, widthMm: w / pxPerMm, at: { x: mx, y: my } }
-  }
-  return { widthPx: best, widthMm: best / pxPerMm, at: { x: bx, y: by } }
+  const i = sk.pixels[best]!
+  return { widthPx, widthMm: widthPx / pxPerMm, at: { x: i % width, y: Math.floor(i / width) } }
 }
 
 /** The narrowest feature in mm (see narrowestFeature for the definition), null without ink. */

@@ -1,21 +1,25 @@
 // Outline: the prepared bitmap traced into closed curves with the npm port of potrace.
 //
-// The port normally decodes an image with Jimp and thresholds its own luminance copy. We skip
-// that: its luminance bitmap (lib/types/Bitmap.js) is filled from our 1-bit bitmap (ink = 0,
-// paper = 255) and thresholded at 128 with blackOnWhite, so that exactly our ink is what the
-// tracer treats as black (the port counts a pixel as black when lum <= threshold). Then its
-// two stages are run directly: _bmToPathlist (decomposition into boundary paths, speck filter)
-// and _processPath (polygon, vertex adjustment, corner/curve smoothing, curve joining).
-// These are private methods of potrace 2.1.8 (pinned in package.json); trace.test.ts fails
-// loudly if they change.
+// Potrace works in two stages: decomposition of the bitmap into closed boundary paths (with
+// the speck filter), then, for each path, the optimal polygon, vertex adjustment, corner and
+// curve smoothing and curve joining. The second stage is the npm port's own (its private
+// method _processPath, potrace 2.1.8, pinned in package.json; trace.test.ts fails loudly if it
+// changes). The first is decompose.ts: the port's decomposition step for step, but with the
+// outside of the image read as paper (the port read the pixel past the right edge as the next
+// row's first, making phantom slivers where ink touched the left edge), on a typed working
+// copy, with objects only for the paths kept.
 //
-// One correction: the port decides a path's sign (outer boundary of ink, or boundary of a
-// hole) from its working copy, which it XOR-fills as it goes, so every path comes out as "+".
-// Potrace's algorithm reads the sign from the original bitmap at the path's first pixel; we do
-// that ourselves between the two stages, so holes are marked and, as in potrace, reversed.
+// Each path is smoothed into curves as soon as it is found (very long ones last), so the node
+// cap stops a drawing while it is traced, and memory holds the working data of one path at a
+// time (and the points of the very long ones waiting).
+//
+// The port decides a path's sign on its XOR-filled working copy, where every path is "+";
+// decompose.ts reads it from the original bitmap at the path's first pixel, as potrace does,
+// so holes are marked and, as in potrace, reversed.
 //
 // Synchronous and pure: safe to call from a worker thread.
 import { createRequire } from 'node:module'
+import { decompose, type PortPath } from './decompose'
 import { DEFAULT_NODE_CAP, TooComplexError } from './errors'
 import type { PipelineSettings } from '../../shared/utils/settings'
 
@@ -23,22 +27,14 @@ const require = createRequire(import.meta.url)
 
 interface PtPoint { x: number, y: number }
 interface PtCurve { n: number, tag: Array<'CURVE' | 'CORNER'>, c: PtPoint[] }
-interface PtPath { pt: PtPoint[], sign: '+' | '-', area: number, len: number, curve: PtCurve }
-interface PtBitmap { width: number, height: number, size: number, data: Uint8Array }
+type PtPath = PortPath & { curve: PtCurve }
 interface PtInstance {
-  _luminanceData: PtBitmap | null
-  _imageLoaded: boolean
-  _processed: boolean
-  _pathlist: PtPath[]
-  _bmToPathlist(): void
-  _processPath(): void
+  _params: Record<string, unknown>
+  _processPath(this: object): void
 }
 type PtConstructor = new (options: Record<string, unknown>) => PtInstance
-type PtBitmapConstructor = new (w: number, h: number) => PtBitmap
 
-const potraceModule = require('potrace') as { Potrace: PtConstructor }
-const PotraceBitmap = require('potrace/lib/types/Bitmap.js') as PtBitmapConstructor
-const Potrace = potraceModule.Potrace
+const Potrace = (require('potrace') as { Potrace: PtConstructor }).Potrace
 
 export interface Point { x: number, y: number }
 export type Segment =
@@ -73,8 +69,6 @@ export interface TraceParameters {
 export interface Outline {
   /** Curves in prepared-bitmap pixels, y down, pixel (x, y) spans [x, x+1] × [y, y+1]. */
   curves: ClosedCurve[]
-  /** SVG path data of all curves in pixels (3 decimals). */
-  pathData: string
   width: number
   height: number
   pxPerMm: number
@@ -105,48 +99,123 @@ export function traceParameters(
   }
 }
 
-function fmt(v: number): string {
-  const s = v.toFixed(3)
-  return s.includes('.') ? s.replace(/0+$/, '').replace(/\.$/, '') : s
+// Path data is written as bytes into one buffer and decoded once: on a page of text (tens of
+// thousands of segments) building it from number strings cost more than tracing.
+/** The three ASCII digits of 0…999, with leading zeros. */
+const DIGITS3 = (() => {
+  const t = new Uint8Array(3000)
+  for (let n = 0; n < 1000; n++) { t[3 * n] = 48 + Math.floor(n / 100); t[3 * n + 1] = 48 + (Math.floor(n / 10) % 10); t[3 * n + 2] = 48 + (n % 10) }
+  return t
+})()
+
+class PathText {
+  private buf = new Uint8Array(1 << 16)
+  private len = 0
+
+  private room(n: number): void {
+    if (this.len + n <= this.buf.length) return
+    const bigger = new Uint8Array(Math.max(this.buf.length * 2, this.len + n))
+    bigger.set(this.buf.subarray(0, this.len))
+    this.buf = bigger
+  }
+
+  char(c: number): void {
+    this.room(1)
+    this.buf[this.len++] = c
+  }
+
+  /** v rounded half up to `decimals` places (on v·10^decimals), without trailing zeros or "-0". */
+  number(v: number, decimals: number, scale: number): void {
+    const k = Math.round(v * scale)
+    this.room(24 + decimals)
+    const b = this.buf
+    if (k === 0) { b[this.len++] = 48; return }
+    if (!Number.isSafeInteger(k)) throw new RangeError(`Coordinate ${v} is out of range.`)
+    let a = k
+    if (a < 0) { b[this.len++] = 45; a = -a }
+    const whole = Math.floor(a / scale)
+    let frac = a - whole * scale
+    this.digits(whole)
+    if (frac === 0) return
+    let places = decimals
+    while (frac % 10 === 0) { frac /= 10; places-- }
+    b[this.len++] = 46
+    let end = this.len + places
+    this.len = end
+    while (places >= 3) { end -= 3; places -= 3; const t = (frac % 1000) * 3; b[end] = DIGITS3[t]!; b[end + 1] = DIGITS3[t + 1]!; b[end + 2] = DIGITS3[t + 2]!; frac = Math.floor(frac / 1000) }
+    while (places > 0) { b[--end] = 48 + (frac % 10); frac = Math.floor(frac / 10); places-- }
+  }
+
+  private digits(n: number): void {
+    const b = this.buf
+    if (n < 1000) {
+      // the usual case: a coordinate below 1000, written from the table without leading zeros
+      const t = n * 3
+      if (n >= 100) b[this.len++] = DIGITS3[t]!
+      if (n >= 10) b[this.len++] = DIGITS3[t + 1]!
+      b[this.len++] = DIGITS3[t + 2]!
+      return
+    }
+    let m = n, count = 1
+    while (m >= 10) { m = Math.floor(m / 10); count++ }
+    const end = this.len + count
+    for (let i = end - 1; i >= this.len; i--) { b[i] = 48 + (n % 10); n = Math.floor(n / 10) }
+    this.len = end
+  }
+
+  toString(): string {
+    return Buffer.from(this.buf.buffer, this.buf.byteOffset, this.len).toString('latin1')
+  }
 }
 
-export function curvesToPathData(curves: ClosedCurve[], format: (v: number) => string = fmt): string {
-  const parts: string[] = []
+const M = 77, L = 76, C = 67, Z = 90, SPACE = 32
+
+/**
+ * SVG path data of closed curves, absolute commands, each coordinate rounded half up to
+ * `decimals` places and printed without trailing zeros (so the same curves give the same text).
+ */
+export function curvesToPathData(curves: ClosedCurve[], decimals = 3): string {
+  const out = new PathText()
+  const scale = 10 ** decimals
+  const pt = (p: Point, lead: number) => {
+    out.char(lead)
+    out.number(p.x, decimals, scale)
+    out.char(SPACE)
+    out.number(p.y, decimals, scale)
+  }
   for (const curve of curves) {
     if (curve.segments.length === 0) continue
-    const s0 = curve.segments[0]!.from
-    let d = `M${format(s0.x)} ${format(s0.y)}`
+    pt(curve.segments[0]!.from, M)
     for (const seg of curve.segments) {
-      if (seg.kind === 'line') d += `L${format(seg.to.x)} ${format(seg.to.y)}`
-      else d += `C${format(seg.c1.x)} ${format(seg.c1.y)} ${format(seg.c2.x)} ${format(seg.c2.y)} ${format(seg.to.x)} ${format(seg.to.y)}`
+      if (seg.kind === 'line') pt(seg.to, L)
+      else { pt(seg.c1, C); pt(seg.c2, SPACE); pt(seg.to, SPACE) }
     }
-    parts.push(d + 'Z')
+    out.char(Z)
   }
-  return parts.join('')
+  return out.toString()
 }
 
+// The port's points are used as they are (each is made for its curve and not changed after).
 function toCurve(path: PtPath, sign: 1 | -1): ClosedCurve {
   const { n, tag, c } = path.curve
   const segments: Segment[] = []
-  let prev: Point = { x: c[(n - 1) * 3 + 2]!.x, y: c[(n - 1) * 3 + 2]!.y }
+  let prev: Point = c[(n - 1) * 3 + 2]!
   for (let i = 0; i < n; i++) {
-    const p0 = c[i * 3]!
-    const p1 = c[i * 3 + 1]!
-    const p2 = c[i * 3 + 2]!
+    const to = c[i * 3 + 2]!
     if (tag[i] === 'CURVE') {
-      const to = { x: p2.x, y: p2.y }
-      segments.push({ kind: 'cubic', from: prev, c1: { x: p0.x, y: p0.y }, c2: { x: p1.x, y: p1.y }, to })
-      prev = to
+      segments.push({ kind: 'cubic', from: prev, c1: c[i * 3]!, c2: c[i * 3 + 1]!, to })
     } else {
-      const v = { x: p1.x, y: p1.y }
-      const to = { x: p2.x, y: p2.y }
+      const v = c[i * 3 + 1]!
       segments.push({ kind: 'line', from: prev, to: v })
       segments.push({ kind: 'line', from: v, to })
-      prev = to
     }
+    prev = to
   }
   return { sign, segments }
 }
+
+/** Boundary points from which a path counts as very long (smoothed last). */
+const LONG_PATH_POINTS = 20_000
 
 /** Trace a 1-bit bitmap (1 = ink). Throws TooComplexError when over the node cap. */
 export function traceBitmap(
@@ -165,45 +234,41 @@ export function traceBitmap(
     alphaMax: parameters.alphaMax,
     optCurve: parameters.optCurve,
     optTolerance: parameters.optTolerance,
-    threshold: 128,
-    blackOnWhite: true,
   })
-  if (typeof potrace._bmToPathlist !== 'function' || typeof potrace._processPath !== 'function') {
-    throw new Error('The installed potrace package lacks the internal stages this pipeline calls (expected potrace 2.1.8).')
+  if (typeof potrace._processPath !== 'function' || !potrace._params) {
+    throw new Error('The installed potrace package lacks the internal stage this pipeline calls (expected potrace 2.1.8).')
   }
-  const lum = new PotraceBitmap(width, height)
-  for (let i = 0; i < bitmap.length; i++) lum.data[i] = bitmap[i] ? 0 : 255
-  potrace._luminanceData = lum
-  potrace._imageLoaded = true
-  potrace._bmToPathlist()
-  const paths = potrace._pathlist
-  // Every closed curve has at least three segments: refuse early, before the costly stage.
-  if (paths.length * 3 > nodeCap) throw new TooComplexError(paths.length * 3, nodeCap)
-  for (const path of paths) {
-    const p = path.pt[0]!
-    path.sign = bitmap[p.y * width + p.x] ? '+' : '-'
-  }
-  potrace._processPath()
-  potrace._processed = true
-
   const curves: ClosedCurve[] = []
   let nodeCount = 0
-  for (const path of paths) {
-    const curve = toCurve(path, path.sign === '+' ? 1 : -1)
+  // _processPath smooths every path of this._pathlist: here a list of one.
+  const single = { _params: potrace._params, _pathlist: [] as PortPath[] }
+  const smooth = (path: PortPath, index: number) => {
+    single._pathlist[0] = path
+    potrace._processPath.call(single)
+    const curve = toCurve(path as PtPath, path.sign === '+' ? 1 : -1)
     nodeCount += curve.segments.length
-    curves.push(curve)
+    if (nodeCount > nodeCap) throw new TooComplexError(nodeCap, nodeCap)
+    curves[index] = curve
   }
-  if (nodeCount > nodeCap) throw new TooComplexError(nodeCount, nodeCap)
+  // Very long paths (a ragged blob of paper texture) take seconds each to smooth: they wait
+  // until the rest is done, so a drawing that is over the cap anyway is refused without them.
+  const long: Array<{ path: PortPath, index: number }> = []
+  let found = 0
+  decompose(bitmap, width, height, parameters.turdSize, (path) => {
+    const index = found++
+    if (path.len > LONG_PATH_POINTS) long.push({ path, index })
+    else smooth(path, index)
+  })
+  for (const { path, index } of long) smooth(path, index)
   return {
     curves,
-    pathData: curvesToPathData(curves),
     width, height, pxPerMm, nodeCount, parameters,
     timings: { traceMs: performance.now() - t0 },
   }
 }
 
-/** The raw outline as an SVG in prepared-bitmap pixels (for storage and debugging). */
-export function outlineToSvg(outline: Outline): string {
+/** The raw outline as an SVG in prepared-bitmap pixels, 3 decimals (for storage and debugging). */
+export function outlineToSvg(outline: Pick<Outline, 'curves' | 'width' | 'height'>): string {
   return `<svg xmlns="http://www.w3.org/2000/svg" width="${outline.width}" height="${outline.height}" viewBox="0 0 ${outline.width} ${outline.height}">`
-    + `<path d="${outline.pathData}" fill="#000" fill-rule="evenodd"/></svg>\n`
+    + `<path d="${curvesToPathData(outline.curves)}" fill="#000" fill-rule="evenodd"/></svg>\n`
 }

@@ -1,9 +1,6 @@
-import { execFileSync } from 'node:child_process'
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join } from 'node:path'
 import { svgPathProperties } from 'svg-path-properties'
-import { afterAll, describe, expect, it } from 'vitest'
+import { createRequire } from 'node:module'
+import { describe, expect, it, vi } from 'vitest'
 import { cleanVector } from '../../../server/pipeline/clean'
 import { TooComplexError } from '../../../server/pipeline/errors'
 import { fidelity, intersectionOverUnion, rasteriseSvg } from '../../../server/pipeline/fidelity'
@@ -11,9 +8,7 @@ import { curveLength, measureCurves } from '../../../server/pipeline/geometry'
 import { prepareBitmap } from '../../../server/pipeline/prepare'
 import { parsePathData } from '../../../server/pipeline/svgpath'
 import { speckFilterToTurdSize, traceBitmap } from '../../../server/pipeline/trace'
-import { mulberry32, svgDoc, svgToPng } from './helpers'
-
-const POTRACE = '/usr/bin/potrace'
+import { mulberry32, runPotrace, svgDoc, svgToPng } from './helpers'
 
 // A test drawing: a disc with a hole, a letter-like A with its counter, a tilted bar, a thick
 // stroked curve, a star, an ellipse with an elliptical hole, and three specks.
@@ -29,9 +24,6 @@ const SETTINGS = { speckFilterMm2: 0.3, cornerRounding: 1, curveTolerance: 0.2 }
 function pathDataOf(svg: string): string[] {
   return [...svg.matchAll(/\sd="([^"]*)"/g)].map((m) => m[1]!)
 }
-
-const dirs: string[] = []
-afterAll(() => { for (const d of dirs) rmSync(d, { recursive: true, force: true }) })
 
 describe('trace', () => {
   it('feeds the bitmap straight to the tracer and marks holes', async () => {
@@ -59,27 +51,13 @@ describe('trace', () => {
   it('matches Debian\'s potrace on the same bitmap with the same parameters', async () => {
     // Reference implementation: P. Selinger's potrace (Debian package "potrace"), same bitmap as
     // PBM, same turdsize (-t), alphamax (-a), opttolerance (-O), default turn policy (minority).
-    if (!existsSync(POTRACE)) {
-      throw new Error(`${POTRACE} is missing: this test compares against the reference tracer. Install it with: apt-get install potrace`)
-    }
     const prep = await prepareBitmap(await svgToPng(DRAWING), SETTINGS, 64)
     const outline = traceBitmap(prep, prep.settings)
     const clean = cleanVector(outline)
-
-    const dir = mkdtempSync(join(tmpdir(), 'decalwright-ref-'))
-    dirs.push(dir)
-    // PBM (P4): 1 = black, rows padded to whole bytes, most significant bit first.
-    const rowBytes = Math.ceil(prep.width / 8)
-    const bits = Buffer.alloc(rowBytes * prep.height)
-    for (let y = 0; y < prep.height; y++) {
-      for (let x = 0; x < prep.width; x++) if (prep.bitmap[y * prep.width + x]) bits[y * rowBytes + (x >> 3)]! |= 0x80 >> (x & 7)
-    }
-    writeFileSync(join(dir, 'in.pbm'), Buffer.concat([Buffer.from(`P4\n${prep.width} ${prep.height}\n`), bits]))
     const dpi = prep.pxPerMm * 25.4 // one bitmap pixel = 1/dpi inch, so the output is in real size
     const p = outline.parameters
-    execFileSync(POTRACE, ['-s', '-t', String(p.turdSize), '-a', String(p.alphaMax), '-O', String(p.optTolerance),
-      '-r', String(dpi), '-o', join(dir, 'out.svg'), join(dir, 'in.pbm')])
-    const theirs = readFileSync(join(dir, 'out.svg'), 'utf8')
+    const theirs = runPotrace(prep.bitmap, prep.width, prep.height,
+      ['-s', '-t', String(p.turdSize), '-a', String(p.alphaMax), '-O', String(p.optTolerance), '-r', String(dpi)])
 
     // Identical physical size. Their size is in pt: W3C CSS Values and Units Level 3, 1in = 25.4mm;
     // 1pt = 1/72in (from memory).
@@ -181,6 +159,39 @@ describe('clean vector', () => {
     const t0 = performance.now()
     expect(() => cleanVector({ curves: [{ sign: 1, segments }], width: 500, height: 500, pxPerMm: 10 })).toThrow(TooComplexError)
     expect(performance.now() - t0).toBeLessThan(200)
+  })
+})
+
+describe('the node cap', () => {
+  it('stops a drawing while it is traced, smoothing long paths last', () => {
+    // Counted on the port's second stage (Potrace#_processPath), one call per path.
+    const port = (createRequire(import.meta.url)('potrace') as { Potrace: { prototype: { _processPath: (this: { _pathlist: Array<{ len: number }> }) => void } } }).Potrace.prototype
+    const calls: number[] = []
+    const original = port._processPath
+    const spy = vi.spyOn(port, '_processPath').mockImplementation(function (this: { _pathlist: Array<{ len: number }> }) {
+      calls.push(this._pathlist[0]!.len)
+      original.call(this)
+    })
+    try {
+      // a ragged band across the top (one path of over 20,000 points), then 40 × 40 dots below
+      const width = 1200, height = 1000
+      const bitmap = new Uint8Array(width * height)
+      for (let x = 0; x < width; x++) for (let y = 0; y < 40 + 30 * ((x >> 1) & 1); y++) bitmap[y * width + x] = 1
+      for (let i = 0; i < 40; i++) for (let j = 0; j < 40; j++) {
+        for (let y = 0; y < 8; y++) for (let x = 0; x < 8; x++) bitmap[(120 + j * 20 + y) * width + 20 + i * 25 + x] = 1
+      }
+      const all = traceBitmap({ bitmap, width, height, pxPerMm: 10 }, { ...SETTINGS, speckFilterMm2: 0 })
+      expect(all.curves).toHaveLength(1601)
+      expect(calls[calls.length - 1]).toBeGreaterThan(20_000) // the long path went last
+      const curves = all.curves.map((c) => c.segments.length)
+      calls.length = 0
+      expect(() => traceBitmap({ bitmap, width, height, pxPerMm: 10 }, { ...SETTINGS, speckFilterMm2: 0 }, { nodeCap: 400 })).toThrow(TooComplexError)
+      // refused after about as many dots as the cap allows, without the long path
+      expect(calls.length).toBeLessThan(400 / Math.min(...curves) + 2)
+      expect(Math.max(...calls)).toBeLessThan(20_000)
+    } finally {
+      spy.mockRestore()
+    }
   })
 })
 
