@@ -12,6 +12,7 @@ try {
     { pkg: 'potrace', present: () => existsSync('/usr/bin/potrace'), why: 'the reference tracer the outline is checked against' },
     { pkg: 'python3-shapely', present: () => existsSync('/usr/lib/python3/dist-packages/shapely'), why: 'the independent geometry library the cut sheets are measured with' },
     { pkg: 'python3-ezdxf', present: () => existsSync('/usr/lib/python3/dist-packages/ezdxf'), why: 'the independent DXF reader and auditor the cut sheets are checked with' },
+    { pkg: 'python3-skimage', present: () => existsSync('/usr/lib/python3/dist-packages/skimage'), why: 'the image library the colour conversion (sRGB to CIELAB) is checked against' },
     { pkg: 'python3-fonttools', present: () => existsSync('/usr/lib/python3/dist-packages/fontTools'), why: 'the second font library the plate font is checked against' },
   ])
 } catch (err) {
