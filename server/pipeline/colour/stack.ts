@@ -66,6 +66,12 @@ export function layerRegion(curves: CutCurve[], toleranceMm = STACK_FLATTEN_TOLE
   return clipRegions(flat, [], 'union', 'even-odd')
 }
 
+/** Curves with their signs: kept where they have one (a traced outline), else read from their nesting. */
+export function signedCurves(curves: Array<CutCurve | ClosedCurve>): ClosedCurve[] {
+  if (curves.every((c): c is ClosedCurve => 'sign' in c)) return curves
+  return signByNesting(curves)
+}
+
 /** Closed polygons as closed curves of straight segments, signed by their direction. */
 export function polygonsToCurves(polygons: Point[][]): ClosedCurve[] {
   return polygons.filter((p) => p.length >= 3).map((p) => {
@@ -84,7 +90,7 @@ export function layerVector(curves: ClosedCurve[], canvas: Canvas): { svg: strin
  * The layers reshaped for stacking, bottom first. `settings` holds for every layer, or is given
  * per layer (bottom first; the top layer's is not used). Curves are in mm on one canvas.
  */
-export function stackLayers(layers: Array<{ curves: CutCurve[] }>, canvas: Canvas, settings: StackSettings | StackSettings[] = DEFAULT_STACK): StackedLayer[] {
+export function stackLayers(layers: Array<{ curves: Array<CutCurve | ClosedCurve> }>, canvas: Canvas, settings: StackSettings | StackSettings[] = DEFAULT_STACK): StackedLayer[] {
   const per = Array.isArray(settings) ? settings : layers.map(() => settings)
   if (per.length !== layers.length) throw new RangeError(`Stack settings are given for ${per.length} layers, not ${layers.length}.`)
   per.forEach(checkSettings)
@@ -100,7 +106,7 @@ export function stackLayers(layers: Array<{ curves: CutCurve[] }>, canvas: Canva
     const { mode, overlapMm: d } = per[i]!
     const upper = above[i]!
     if (upper.length === 0 || (mode === 'under' && d === 0)) {
-      return { ...layerVector(signByNesting(layer.curves), canvas), reshaped: false }
+      return { ...layerVector(signedCurves(layer.curves), canvas), reshaped: false }
     }
     let region = regions[i]!
     if (d > 0) {
