@@ -11,6 +11,12 @@
 // d = 0 gives the plain layer under, or the plain knock-out L − U. The grown part lies wholly
 // under U, so at perfect register nothing of a lower layer shows beyond its drawn outline.
 //
+// Seams: two inks that touch on paper are outlined one mask at a time, and each outline
+// smooths its own corners, so between them runs a seam belonging to neither, up to a pixel or
+// two of the prepared bitmap wide. Given a seam width s, the growth reaches into U grown by s,
+// L ∪ (grow(L, d) ∩ grow(U, s)), so the lower layer fills the seam; it may then show by up to
+// s beyond U where the two meet the paper. s = 0 (the default) is the plain rule above.
+//
 // Geometry goes through the project's Clipper helpers (server/cutsheet/clipper.ts) on curves
 // flattened within STACK_FLATTEN_TOLERANCE_MM; a reshaped layer comes out as straight
 // segments on the clean vector's 0.01 mm grid. A layer nothing changes keeps its curves.
@@ -72,6 +78,11 @@ export function signedCurves(curves: Array<CutCurve | ClosedCurve>): ClosedCurve
   return signByNesting(curves)
 }
 
+export interface StackOptions {
+  /** Width of the seam between touching layers that the growth fills, mm (see above). */
+  seamMm?: number
+}
+
 /** Closed polygons as closed curves of straight segments, signed by their direction. */
 export function polygonsToCurves(polygons: Point[][]): ClosedCurve[] {
   return polygons.filter((p) => p.length >= 3).map((p) => {
@@ -90,7 +101,9 @@ export function layerVector(curves: ClosedCurve[], canvas: Canvas): { svg: strin
  * The layers reshaped for stacking, bottom first. `settings` holds for every layer, or is given
  * per layer (bottom first; the top layer's is not used). Curves are in mm on one canvas.
  */
-export function stackLayers(layers: Array<{ curves: Array<CutCurve | ClosedCurve> }>, canvas: Canvas, settings: StackSettings | StackSettings[] = DEFAULT_STACK): StackedLayer[] {
+export function stackLayers(layers: Array<{ curves: Array<CutCurve | ClosedCurve> }>, canvas: Canvas, settings: StackSettings | StackSettings[] = DEFAULT_STACK, options: StackOptions = {}): StackedLayer[] {
+  const seam = options.seamMm ?? 0
+  if (!(seam >= 0 && seam <= MAX_OVERLAP_MM)) throw new RangeError(`The seam must be between 0 and ${MAX_OVERLAP_MM} mm.`)
   const per = Array.isArray(settings) ? settings : layers.map(() => settings)
   if (per.length !== layers.length) throw new RangeError(`Stack settings are given for ${per.length} layers, not ${layers.length}.`)
   per.forEach(checkSettings)
@@ -110,7 +123,8 @@ export function stackLayers(layers: Array<{ curves: Array<CutCurve | ClosedCurve
     }
     let region = regions[i]!
     if (d > 0) {
-      const grown = clipRegions(offsetRegion(region, d, STACK_ARC_TOLERANCE_MM), upper, 'intersection')
+      const reach = seam > 0 ? offsetRegion(upper, seam, STACK_ARC_TOLERANCE_MM) : upper
+      const grown = clipRegions(offsetRegion(region, d, STACK_ARC_TOLERANCE_MM), reach, 'intersection')
       region = clipRegions(region, grown, 'union')
     }
     if (mode === 'knock-out') {

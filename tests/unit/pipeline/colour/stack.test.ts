@@ -151,3 +151,25 @@ describe('the layers\' files', () => {
     expect(() => stack({ mode: 'sideways' as 'under', overlapMm: 1 })).toThrow(RangeError)
   })
 })
+
+describe('seams between touching layers', () => {
+  // Two inks outlined one at a time leave a seam: here a 0.1 mm gap between a lower and an upper bar.
+  const paths = [[rectPathData(5, 5, 20, 10)], [rectPathData(25.1, 5, 20, 10)]]
+  const canvas = { widthMm: 50, heightMm: 20 }
+  const read = () => paths.map((p) => readCleanVector(svgMm(canvas.widthMm, canvas.heightMm, p)))
+
+  it('are filled by the lower layer given their width, and not otherwise (Shapely)', () => {
+    const d = 0.5
+    for (const seam of [0, 0.2]) {
+      const out = stackLayers(read(), canvas, { mode: 'under', overlapMm: d }, { seamMm: seam })
+      const r = shapely<{ gapLeft: number, beyond: number }>(`${REGION}
+got, upper, orig = region(data["got"]), region(data["upper"]), region(data["orig"])
+gap = box(25, 5.05, 25.1, 14.95)
+print(json.dumps({"gapLeft": gap.difference(got).area, "beyond": got.difference(orig.union(upper).buffer(data["seam"] + 0.02, 64)).area}))
+`, { got: readRings(out[0]!.svg), upper: sampleRings(paths[1]!), orig: sampleRings(paths[0]!), seam })
+      if (seam === 0) expect(r.gapLeft).toBeGreaterThan(0.5) // the 0.1 × 9.9 mm seam stays paper
+      else expect(r.gapLeft).toBeLessThan(1e-6)
+      expect(r.beyond).toBeLessThan(1e-6)
+    }
+  })
+})

@@ -1,0 +1,227 @@
+// A coloured drawing from its source to cut-ready layers: decode at the prepared resolution,
+// separate the inks, outline each ink's mask, clean each outline, stack the layers (overlap or
+// knock-out), frame them with registration marks, and measure each layer. Pure (no Nuxt, no
+// storage), like run.ts, so a worker thread or a test can run it.
+//
+// A drawing of one ink (or none) is not separated: the answer says so ('single') and the
+// caller runs the ordinary single-colour pipeline (run.ts) on the same request, so a
+// one-colour drawing comes out exactly as it always has.
+import sharp, { type Metadata } from 'sharp'
+import type { EngineVersions, Measurements } from '../../../shared/types/pipeline'
+import { parseSettings, type PipelineSettings, type PipelineSettingsInput } from '../../../shared/utils/settings'
+import { preparedSize } from '../../../shared/utils/units'
+import { cleanVector } from '../clean'
+import { PrepareError } from '../errors'
+import { fidelity } from '../fidelity'
+import { measureCurves, narrowestFeatureMm, smallPieces } from '../geometry'
+import { bitmapToPng, type PrepareOptions } from '../prepare'
+import { DEFAULT_SMALL_PIECE_MM2, PREVIEW_OPTIONS } from '../run'
+import { outlineToSvg, traceBitmap } from '../trace'
+import { ENGINE_VERSIONS_BASE } from '../versions'
+import type { Lab } from './lab'
+import { DEFAULT_MARKS, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
+import { stackedPreviewSvg } from './preview'
+import { separateColours, type FoundInk, type PaperInfo, type Separation, type SeparationChoices } from './separate'
+import { DEFAULT_STACK, layerVector, stackLayers, type StackSettings } from './stack'
+
+/** Width of the seam between touching inks that the overlap fills, in prepared pixels (see stack.ts). */
+export const SEAM_PX = 2
+
+export interface ColourSettings {
+  /** The designer's separation choices (automatic when empty). */
+  choices: SeparationChoices
+  /** How lower layers meet the ones above: for all, or per layer bottom first. */
+  stack: StackSettings | StackSettings[]
+  marks: MarkSettings
+}
+
+export const DEFAULT_COLOUR_SETTINGS: ColourSettings = Object.freeze({ choices: {}, stack: DEFAULT_STACK, marks: DEFAULT_MARKS }) as ColourSettings
+
+export interface LayeredRunRequest {
+  source: Uint8Array
+  /** The ordinary settings that apply to colour: crop, speck filter, corner rounding, curve tolerance. */
+  settings: PipelineSettingsInput
+  colour?: Partial<ColourSettings>
+  widthMm: number
+  purpose: 'revision' | 'preview'
+  smallPieceMm2?: number
+}
+
+/** A layer's measurements: the single-colour ones less the grey threshold. */
+export type LayerMeasurements = Omit<Measurements, 'threshold'>
+
+export interface LayerResult {
+  name: string
+  hex: string
+  lab: Lab
+  /** Indices of the found inks this layer is made of. */
+  from: number[]
+  /** Share of the picture's pixels. */
+  share: number
+  /** The ink's mask as a prepared bitmap PNG (black ink on white). */
+  preparedPng: Uint8Array
+  rawOutlineSvg: string
+  /** The clean vector as traced, on the drawing's own canvas (before stacking and marks). */
+  drawnSvg: string
+  /** The clean vector as cut: stacked, on the framed canvas, with the marks. */
+  cleanSvg: string
+  /** Of the layer as cut (stacked, without the marks); fidelity and the narrowest stroke of the layer as traced. */
+  measurements: LayerMeasurements
+}
+
+export interface SeparationSummary {
+  sentence: string
+  found: FoundInk[]
+  paper: PaperInfo
+}
+
+export interface LayeredTimings {
+  decodeMs: number
+  separateMs: number
+  traceMs: number
+  cleanMs: number
+  stackMs: number
+  measureMs: number
+  totalMs: number
+}
+
+export type LayeredRunResult =
+  | { kind: 'single', separation: SeparationSummary, timings: LayeredTimings }
+  | {
+    kind: 'layers'
+    separation: SeparationSummary
+    /** Bottom first. */
+    layers: LayerResult[]
+    /** Every layer in its ink's colour, bottom first, on the framed canvas. */
+    stackedSvg: string
+    frame: RegistrationFrame
+    pxPerMm: number
+    timings: LayeredTimings
+    engineVersions: EngineVersions
+  }
+
+/** The source upright, cropped and resampled to the prepared size, as 8-bit sRGB. */
+export async function decodeColourSource(source: Uint8Array, settings: PipelineSettings, widthMm: number, options: PrepareOptions = {}) {
+  const maxSourcePixels = options.maxSourcePixels ?? 100_000_000
+  let meta: Metadata
+  try {
+    meta = await sharp(source, { limitInputPixels: maxSourcePixels }).metadata()
+  } catch (e) {
+    throw new PrepareError('The file could not be read as an image (JPEG, PNG, WebP, TIFF, GIF or AVIF).', { cause: e })
+  }
+  const orientedWidth = meta.autoOrient?.width ?? meta.width
+  const orientedHeight = meta.autoOrient?.height ?? meta.height
+  if (!orientedWidth || !orientedHeight) throw new PrepareError('The image has no pixel size.')
+  let img = sharp(source, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
+  let srcW = orientedWidth, srcH = orientedHeight
+  const crop = settings.crop
+  if (crop) {
+    if (crop.x + crop.width > orientedWidth || crop.y + crop.height > orientedHeight) {
+      throw new PrepareError(`The crop rectangle (${crop.x}, ${crop.y}, ${crop.width} × ${crop.height}) lies outside the upright source of ${orientedWidth} × ${orientedHeight} pixels.`)
+    }
+    img = img.extract({ left: crop.x, top: crop.y, width: crop.width, height: crop.height })
+    srcW = crop.width
+    srcH = crop.height
+  }
+  const size = preparedSize({
+    sourceWidthPx: srcW, sourceHeightPx: srcH, targetWidthMm: widthMm,
+    minPxPerMm: options.minPxPerMm, maxPxPerMm: options.maxPxPerMm, maxUpscale: options.maxUpscale, maxPixels: options.maxPixels,
+  })
+  const shrinking = size.widthPx * size.heightPx < srcW * srcH
+  try {
+    const { data, info } = await img
+      .resize(size.widthPx, size.heightPx, { fit: 'fill', kernel: shrinking ? 'lanczos3' : 'cubic' })
+      .toColourspace('srgb').raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
+    if (info.width !== size.widthPx || info.height !== size.heightPx || info.channels < 1 || info.channels > 4) {
+      throw new PrepareError(`Decoded ${info.width} × ${info.height} × ${info.channels}, not the expected ${size.widthPx} × ${size.heightPx}.`)
+    }
+    return { data: new Uint8Array(data.buffer, data.byteOffset, data.length), width: info.width, height: info.height, channels: info.channels as 1 | 2 | 3 | 4, size }
+  } catch (e) {
+    if (e instanceof PrepareError) throw e
+    throw new PrepareError('The image could not be decoded.', { cause: e })
+  }
+}
+
+function summary(sep: Separation): SeparationSummary {
+  return { sentence: sep.sentence, found: sep.found, paper: sep.paper }
+}
+
+export async function runColourLayers(req: LayeredRunRequest): Promise<LayeredRunResult> {
+  const t0 = performance.now()
+  const settings = parseSettings(req.settings)
+  const colour = { ...DEFAULT_COLOUR_SETTINGS, ...req.colour }
+  const image = await decodeColourSource(req.source, settings, req.widthMm, req.purpose === 'preview' ? PREVIEW_OPTIONS : {})
+  const { width, height } = image
+  const pxPerMm = image.size.pxPerMm
+  const t1 = performance.now()
+  // Always relative to the paper under the ink: on an evenly lit scan the paper estimate is
+  // flat and dividing by it changes nothing; on a photo it is what tells shading from ink.
+  const sep = await separateColours(image, colour.choices)
+  const t2 = performance.now()
+  if (sep.inks.length <= 1) {
+    const t = performance.now()
+    return { kind: 'single', separation: summary(sep), timings: { decodeMs: t1 - t0, separateMs: t2 - t1, traceMs: 0, cleanMs: 0, stackMs: 0, measureMs: 0, totalMs: t - t0 } }
+  }
+
+  let traceMs = 0, cleanMs = 0
+  const traced = sep.inks.map((ink) => {
+    const a = performance.now()
+    const outline = traceBitmap({ bitmap: ink.mask, width, height, pxPerMm }, settings)
+    const b = performance.now()
+    const clean = cleanVector(outline)
+    cleanMs += performance.now() - b
+    traceMs += b - a
+    return { ink, outline, clean }
+  })
+  const t3 = performance.now()
+  const canvas = { widthMm: width / pxPerMm, heightMm: height / pxPerMm }
+  // The seam between touching inks, each outlined alone: two prepared pixels.
+  const stacked = stackLayers(traced.map((t) => ({ curves: t.clean.curvesMm })), canvas, colour.stack, { seamMm: SEAM_PX / pxPerMm })
+  const frame = registrationFrame(stacked, canvas, colour.marks)
+  const framed = stacked.map((l) => layerVector(withRegistrationMarks(l.curves, frame), frame))
+  const t4 = performance.now()
+
+  const limit = req.smallPieceMm2 ?? DEFAULT_SMALL_PIECE_MM2
+  const layers: LayerResult[] = []
+  for (let i = 0; i < traced.length; i++) {
+    const { ink, outline, clean } = traced[i]!
+    const cut = stacked[i]!
+    const geometry = measureCurves(cut.curves, 1)
+    const fid = await fidelity(clean.svg, { bitmap: ink.mask, width, height })
+    const png = await bitmapToPng(ink.mask, width, height, req.purpose === 'preview')
+    layers.push({
+      name: ink.name, hex: ink.hex, lab: ink.lab, from: ink.from, share: ink.share,
+      preparedPng: new Uint8Array(png.buffer, png.byteOffset, png.byteLength),
+      rawOutlineSvg: outlineToSvg(outline),
+      drawnSvg: clean.svg,
+      cleanSvg: framed[i]!.svg,
+      measurements: {
+        widthMm: clean.widthMm,
+        heightMm: clean.heightMm,
+        inkAreaMm2: geometry.inkAreaMm2,
+        cutLengthMm: geometry.cutLengthMm,
+        pieces: geometry.pieces,
+        holes: geometry.holes,
+        nodes: geometry.nodeCount,
+        narrowestFeatureMm: narrowestFeatureMm(fid.raster, width, height, pxPerMm),
+        smallPieces: smallPieces(cut.curves, 1, limit).length,
+        smallPieceLimitMm2: limit,
+        fidelity: fid.iou,
+        pxPerMm,
+        preparedWidthPx: width,
+        preparedHeightPx: height,
+      },
+    })
+  }
+  const t5 = performance.now()
+  return {
+    kind: 'layers',
+    separation: summary(sep),
+    layers,
+    stackedSvg: stackedPreviewSvg(framed.map((f, i) => ({ svg: f.svg, hex: layers[i]!.hex }))),
+    frame,
+    pxPerMm,
+    timings: { decodeMs: t1 - t0, separateMs: t2 - t1, traceMs, cleanMs, stackMs: t4 - t3, measureMs: t5 - t4, totalMs: t5 - t0 },
+    engineVersions: { ...ENGINE_VERSIONS_BASE, sharp: sharp.versions.sharp ?? '', vips: sharp.versions.vips },
+  }
+}
