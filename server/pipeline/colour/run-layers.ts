@@ -16,7 +16,7 @@ import { fidelity } from '../fidelity'
 import { measureCurves, narrowestFeatureMm, smallPieces } from '../geometry'
 import { bitmapToPng, type PrepareOptions } from '../prepare'
 import { DEFAULT_SMALL_PIECE_MM2, PREVIEW_OPTIONS } from '../run'
-import { outlineToSvg, traceBitmap } from '../trace'
+import { curvesToPathData, outlineToSvg, traceBitmap, type ClosedCurve, type Outline, type Point } from '../trace'
 import { ENGINE_VERSIONS_BASE } from '../versions'
 import type { Lab } from './lab'
 import { DEFAULT_MARKS, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
@@ -26,6 +26,9 @@ import { DEFAULT_STACK, layerVector, stackLayers, type StackSettings } from './s
 
 /** Width of the seam between touching inks that the overlap fills, in prepared pixels (see stack.ts). */
 export const SEAM_PX = 2
+
+/** A preview finds the inks on a smaller copy: it answers while a control moves. */
+export const PREVIEW_ANALYSIS_PIXELS = 200_000
 
 export interface ColourSettings {
   /** The designer's separation choices (automatic when empty). */
@@ -142,6 +145,52 @@ export async function decodeColourSource(source: Uint8Array, settings: PipelineS
   }
 }
 
+/** The part of a bitmap holding its ink, with `margin` pixels of paper round it (clipped at the edges). */
+export function inkWindow(bitmap: Uint8Array, width: number, height: number, margin = 2): { x0: number, y0: number, width: number, height: number, bitmap: Uint8Array } {
+  let x0 = width, y0 = height, x1 = -1, y1 = -1
+  for (let y = 0; y < height; y++) {
+    const row = y * width
+    let first = -1, last = -1
+    for (let x = 0; x < width; x++) if (bitmap[row + x]) { if (first < 0) first = x; last = x }
+    if (first < 0) continue
+    if (y < y0) y0 = y
+    y1 = y
+    if (first < x0) x0 = first
+    if (last > x1) x1 = last
+  }
+  if (x1 < 0) return { x0: 0, y0: 0, width, height, bitmap }
+  x0 = Math.max(0, x0 - margin); y0 = Math.max(0, y0 - margin)
+  x1 = Math.min(width - 1, x1 + margin); y1 = Math.min(height - 1, y1 + margin)
+  const w = x1 - x0 + 1, h = y1 - y0 + 1
+  const out = new Uint8Array(w * h)
+  for (let y = 0; y < h; y++) out.set(bitmap.subarray((y0 + y) * width + x0, (y0 + y) * width + x0 + w), y * w)
+  return { x0, y0, width: w, height: h, bitmap: out }
+}
+
+/**
+ * Outline of one ink's mask, traced on the window holding its ink (the tracer and the narrowest
+ * stroke both cost in proportion to the pixels they scan; a small ink on a big sheet is
+ * cheap), then moved back to the whole bitmap's coordinates.
+ */
+function traceWindow(mask: Uint8Array, width: number, height: number, pxPerMm: number, settings: PipelineSettings): Outline {
+  const win = inkWindow(mask, width, height)
+  const o = traceBitmap({ bitmap: win.bitmap, width: win.width, height: win.height, pxPerMm }, settings)
+  const p = (q: Point): Point => ({ x: q.x + win.x0, y: q.y + win.y0 })
+  const curves: ClosedCurve[] = o.curves.map((c) => ({
+    sign: c.sign,
+    segments: c.segments.map((s) => s.kind === 'line'
+      ? { kind: 'line', from: p(s.from), to: p(s.to) }
+      : { kind: 'cubic', from: p(s.from), c1: p(s.c1), c2: p(s.c2), to: p(s.to) }),
+  }))
+  return { ...o, curves, pathData: curvesToPathData(curves), width, height }
+}
+
+/** The narrowest stroke of a layer rasterised back, measured on the window holding its ink. */
+function narrowestInWindow(raster: Uint8Array, width: number, height: number, pxPerMm: number): number | null {
+  const win = inkWindow(raster, width, height)
+  return narrowestFeatureMm(win.bitmap, win.width, win.height, pxPerMm)
+}
+
 function summary(sep: Separation): SeparationSummary {
   return { sentence: sep.sentence, found: sep.found, paper: sep.paper }
 }
@@ -156,22 +205,26 @@ export async function runColourLayers(req: LayeredRunRequest): Promise<LayeredRu
   const t1 = performance.now()
   // Always relative to the paper under the ink: on an evenly lit scan the paper estimate is
   // flat and dividing by it changes nothing; on a photo it is what tells shading from ink.
-  const sep = await separateColours(image, colour.choices)
+  const sep = await separateColours(image, colour.choices, { analysisPixels: req.purpose === 'preview' ? PREVIEW_ANALYSIS_PIXELS : undefined })
   const t2 = performance.now()
   if (sep.inks.length <= 1) {
     const t = performance.now()
     return { kind: 'single', separation: summary(sep), timings: { decodeMs: t1 - t0, separateMs: t2 - t1, traceMs: 0, cleanMs: 0, stackMs: 0, measureMs: 0, totalMs: t - t0 } }
   }
 
+  // Sharp's work (the masks' PNGs, each clean vector rasterised back for fidelity) runs on its
+  // own threads: start it as soon as its input exists and collect it at the end, so it
+  // overlaps the outlining and measuring done here.
+  const pngs = sep.inks.map((ink) => bitmapToPng(ink.mask, width, height, req.purpose === 'preview'))
   let traceMs = 0, cleanMs = 0
   const traced = sep.inks.map((ink) => {
     const a = performance.now()
-    const outline = traceBitmap({ bitmap: ink.mask, width, height, pxPerMm }, settings)
+    const outline = traceWindow(ink.mask, width, height, pxPerMm, settings)
     const b = performance.now()
     const clean = cleanVector(outline)
     cleanMs += performance.now() - b
     traceMs += b - a
-    return { ink, outline, clean }
+    return { ink, outline, clean, fidelity: fidelity(clean.svg, { bitmap: ink.mask, width, height }) }
   })
   const t3 = performance.now()
   const canvas = { widthMm: width / pxPerMm, heightMm: height / pxPerMm }
@@ -187,8 +240,8 @@ export async function runColourLayers(req: LayeredRunRequest): Promise<LayeredRu
     const { ink, outline, clean } = traced[i]!
     const cut = stacked[i]!
     const geometry = measureCurves(cut.curves, 1)
-    const fid = await fidelity(clean.svg, { bitmap: ink.mask, width, height })
-    const png = await bitmapToPng(ink.mask, width, height, req.purpose === 'preview')
+    const fid = await traced[i]!.fidelity
+    const png = await pngs[i]!
     layers.push({
       name: ink.name, hex: ink.hex, lab: ink.lab, from: ink.from, share: ink.share,
       preparedPng: new Uint8Array(png.buffer, png.byteOffset, png.byteLength),
@@ -203,7 +256,7 @@ export async function runColourLayers(req: LayeredRunRequest): Promise<LayeredRu
         pieces: geometry.pieces,
         holes: geometry.holes,
         nodes: geometry.nodeCount,
-        narrowestFeatureMm: narrowestFeatureMm(fid.raster, width, height, pxPerMm),
+        narrowestFeatureMm: narrowestInWindow(fid.raster, width, height, pxPerMm),
         smallPieces: smallPieces(cut.curves, 1, limit).length,
         smallPieceLimitMm2: limit,
         fidelity: fid.iou,

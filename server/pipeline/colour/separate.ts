@@ -180,14 +180,24 @@ async function paperRgb(rgb: Uint8Array, width: number, height: number, even: bo
   return { data: out, width: pw, height: ph }
 }
 
+let divisions: Uint8Array | null = null
+
+/** v × 255 ÷ p, rounded and clamped to 255, at [p × 256 + v]: the evening of one value by its paper. */
+function divisionTable(): Uint8Array {
+  if (!divisions) {
+    divisions = new Uint8Array(256 * 256)
+    for (let p = 0; p < 256; p++) {
+      for (let v = 0; v < 256; v++) divisions[(p << 8) | v] = Math.min(255, Math.round((v * 255) / (p || 1)))
+    }
+  }
+  return divisions
+}
+
 /** The image divided by the paper, channel by channel: paper → white. */
 function evened(rgb: Uint8Array, paper: Uint8Array): Uint8Array {
+  const div = divisionTable()
   const out = new Uint8Array(rgb.length)
-  for (let i = 0; i < rgb.length; i++) {
-    const p = paper[i]! || 1
-    const v = (rgb[i]! * 255) / p
-    out[i] = v >= 255 ? 255 : v + 0.5
-  }
+  for (let i = 0; i < rgb.length; i++) out[i] = div[(paper[i]! << 8) | rgb[i]!]!
   return out
 }
 
@@ -267,8 +277,9 @@ function near(rgb: Uint8Array, p: number, q: number): boolean {
 
 /** Evened colours of the flat ink patches of the shrunk copy, in CIELAB. */
 function inkSample(even: Uint8Array, width: number, height: number): Lab[] {
-  const pure: number[] = []
-  const loose: number[] = []
+  const pure = new Int32Array(width * height)
+  const loose = new Int32Array(width * height)
+  let nPure = 0, nLoose = 0
   const row = width * 3
   for (let y = 1; y < height - 1; y++) {
     for (let x = 1; x < width - 1; x++) {
@@ -276,16 +287,16 @@ function inkSample(even: Uint8Array, width: number, height: number): Lab[] {
       const p = i * 3
       const key = key6(even[p]!, even[p + 1]!, even[p + 2]!)
       if (whiteDistance(key) <= PAPER_DE00) continue
-      loose.push(key)
+      loose[nLoose++] = key
       const flat = near(even, p, p - 3) && near(even, p, p + 3) && near(even, p, p - row) && near(even, p, p + row)
-      if (flat) pure.push(key)
+      if (flat) pure[nPure++] = key
     }
   }
   // A drawing of thin lines only has no flat patches at this size: take every ink pixel then.
-  const keys = pure.length >= 50 ? pure : loose
-  const step = Math.max(1, Math.ceil(keys.length / SAMPLE))
+  const [keys, count] = nPure >= 50 ? [pure, nPure] : [loose, nLoose]
+  const step = Math.max(1, Math.ceil(count / SAMPLE))
   const out: Lab[] = []
-  for (let i = 0; i < keys.length; i += step) out.push(cells.get(keys[i]!))
+  for (let i = 0; i < count; i += step) out.push(cells.get(keys[i]!))
   return out
 }
 
@@ -520,23 +531,20 @@ export async function separateColours(image: RgbImage, choices: SeparationChoice
   const paperFull = await resizeRgb(paperEst.data, paperEst.width, paperEst.height, width, height)
   const n = width * height
   const labels = new Uint8Array(n)
+  const masks = groups.map(() => new Uint8Array(n))
   const pixels = new Array<number>(groups.length).fill(0)
+  const div = divisionTable()
   for (let i = 0, p = 0; i < n; i++, p += 3) {
-    const r = (rgb[p]! * 255) / (paperFull[p]! || 1)
-    const g = (rgb[p + 1]! * 255) / (paperFull[p + 1]! || 1)
-    const b = (rgb[p + 2]! * 255) / (paperFull[p + 2]! || 1)
-    const key = key6(r >= 255 ? 255 : r, g >= 255 ? 255 : g, b >= 255 ? 255 : b)
-    const v = lut[key]
-    const label = v === UNKNOWN ? classify(key) : v!
+    const key = key6(div[(paperFull[p]! << 8) | rgb[p]!]!, div[(paperFull[p + 1]! << 8) | rgb[p + 1]!]!, div[(paperFull[p + 2]! << 8) | rgb[p + 2]!]!)
+    const v = lut[key]!
+    const label = v === UNKNOWN ? classify(key) : v
     labels[i] = label
-    if (label !== PAPER) pixels[label]!++
+    if (label !== PAPER) { masks[label]![i] = 1; pixels[label]!++ }
   }
   const names = distinctNames(groups.map((g) => meanLab(g.map((i) => found[i]!.lab), g.map((i) => clusters[i]!.weight || 1))))
   const inks: InkLayer[] = groups.map((g, k) => {
     const lab = meanLab(g.map((i) => found[i]!.lab), g.map((i) => clusters[i]!.weight || 1))
-    const mask = new Uint8Array(n)
-    for (let i = 0; i < n; i++) if (labels[i] === k) mask[i] = 1
-    return { from: g, lab, hex: labToHex(lab), name: names[k]!, mask, pixels: pixels[k]!, share: pixels[k]! / n }
+    return { from: g, lab, hex: labToHex(lab), name: names[k]!, mask: masks[k]!, pixels: pixels[k]!, share: pixels[k]! / n }
   })
   const paper = paperInfo(paperEst.data)
   const merged = groups.reduce((s, g) => s + g.length - 1, 0)
