@@ -5,9 +5,15 @@
 // and the tuning bench's preview from the shrunk source it keeps. Wall time and this process's
 // CPU time (libvips threads included), beside a floor measured in the same run: decoding the
 // 12 MP JPEG once, so a busy machine shows as a slower floor too.
+import os from 'node:os'
+import path from 'node:path'
+import { fileURLToPath } from 'node:url'
 import { performance } from 'node:perf_hooks'
+import { build } from 'esbuild'
+import Piscina from 'piscina'
 import sharp from 'sharp'
-import { runColourLayers, type LayeredTimings } from '../../server/pipeline/colour/run-layers'
+import type { LayeredTimings } from '../../server/pipeline/colour/run-layers'
+import { runColourLayers, runColourLayersWith, type ColourAnswer, type ColourTask } from '../../server/pipeline/colour/tasks'
 import { separateColours } from '../../server/pipeline/colour/separate'
 import { PREVIEW_SOURCE_SIDE } from '../../shared/utils/settings'
 
@@ -64,6 +70,18 @@ export async function threeColourPhoto(megapixels: number): Promise<Buffer> {
   return sharp(d, { raw: base.info }).jpeg({ quality: 88 }).toBuffer()
 }
 
+/** The colour worker bundled for piscina (sharp, potrace and svgo external, as the server has them). */
+async function buildColourWorker(): Promise<string> {
+  const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..')
+  const file = path.join(root, 'node_modules/.cache/decalwright-bench/colour-worker.mjs')
+  await build({
+    entryPoints: [path.join(root, 'server/pipeline/colour/worker.ts')],
+    outfile: file, bundle: true, platform: 'node', format: 'esm', target: 'node20', logLevel: 'warning',
+    external: ['sharp', 'potrace', 'svgo'],
+  })
+  return file
+}
+
 const ms = (x: number) => `${x.toFixed(0).padStart(6)} ms`
 
 export async function benchColour(runs: number): Promise<void> {
@@ -90,4 +108,14 @@ export async function benchColour(runs: number): Promise<void> {
   const preview = await timed(runs * 2, () => runColourLayers({ source: previewSource, settings: {}, widthMm: WIDTH_MM, purpose: 'preview' }))
   line('preview of the layered drawing, source loaded', preview, PREVIEW_TARGET_MS)
   if (preview.last.kind === 'layers') console.log(`    ${stages(preview.last.timings)}`)
+
+  // Through a pool of worker threads as the server would run it: the inks outlined side by side.
+  const threads = os.availableParallelism()
+  const pool = new Piscina({ filename: await buildColourWorker(), maxThreads: threads, minThreads: threads })
+  const run = (task: ColourTask) => pool.run(task) as Promise<ColourAnswer>
+  await runColourLayersWith(run, { source: previewSource, settings: {}, widthMm: WIDTH_MM, purpose: 'preview' }) // warm the threads
+  console.log(`  through a pool of ${threads} worker threads (CPU: the whole process, its threads included):`)
+  line('  JPEG → layered revision files (no storage)', await timed(runs, () => runColourLayersWith(run, { source: photo, settings: {}, widthMm: WIDTH_MM, purpose: 'revision' })), REVISION_TARGET_MS)
+  line('  preview of the layered drawing, source loaded', await timed(runs * 2, () => runColourLayersWith(run, { source: previewSource, settings: {}, widthMm: WIDTH_MM, purpose: 'preview' })), PREVIEW_TARGET_MS)
+  await pool.destroy()
 }

@@ -1,4 +1,5 @@
-// A coloured drawing from its source to cut-ready layers: decode at the prepared resolution,
+// A coloured drawing from its source to cut-ready layers (the steps; tasks.ts runs them):
+// decode at the prepared resolution,
 // separate the inks, outline each ink's mask, clean each outline, stack the layers (overlap or
 // knock-out), frame them with registration marks, and measure each layer. Pure (no Nuxt, no
 // storage), like run.ts, so a worker thread or a test can run it.
@@ -14,14 +15,14 @@ import { cleanVector } from '../clean'
 import { PrepareError } from '../errors'
 import { fidelity } from '../fidelity'
 import { measureCurves, narrowestFeatureMm, smallPieces } from '../geometry'
+import { round2 } from '../../cutsheet/path'
 import { bitmapToPng, type PrepareOptions } from '../prepare'
 import { DEFAULT_SMALL_PIECE_MM2, PREVIEW_OPTIONS } from '../run'
 import { curvesToPathData, outlineToSvg, traceBitmap, type ClosedCurve, type Outline, type Point } from '../trace'
-import { ENGINE_VERSIONS_BASE } from '../versions'
 import type { Lab } from './lab'
 import { DEFAULT_MARKS, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
 import { stackedPreviewSvg } from './preview'
-import { separateColours, type FoundInk, type PaperInfo, type Separation, type SeparationChoices } from './separate'
+import { separateColours, type FoundInk, type InkLayer, type PaperInfo, type Separation, type SeparationChoices } from './separate'
 import { DEFAULT_STACK, layerVector, stackLayers, type StackSettings } from './stack'
 
 /** Width of the seam between touching inks that the overlap fills, in prepared pixels (see stack.ts). */
@@ -195,86 +196,107 @@ function summary(sep: Separation): SeparationSummary {
   return { sentence: sep.sentence, found: sep.found, paper: sep.paper }
 }
 
-export async function runColourLayers(req: LayeredRunRequest): Promise<LayeredRunResult> {
+// ---------------------------------------------------------------------------------------
+// Three steps, each a unit of work a worker thread can take (their inputs and outputs are plain
+// data and typed arrays): separate (one task), outline each ink (one task per ink, in
+// parallel), assemble (one task). tasks.ts strings them together.
+// ---------------------------------------------------------------------------------------
+
+export interface SeparatedSource {
+  separation: SeparationSummary
+  inks: Array<Pick<InkLayer, 'name' | 'hex' | 'lab' | 'from' | 'share' | 'mask'>>
+  width: number
+  height: number
+  pxPerMm: number
+  timings: { decodeMs: number, separateMs: number }
+}
+
+/** Step 1: decode at the prepared resolution and separate the inks. */
+export async function separateSource(req: LayeredRunRequest): Promise<SeparatedSource> {
   const t0 = performance.now()
   const settings = parseSettings(req.settings)
-  const colour = { ...DEFAULT_COLOUR_SETTINGS, ...req.colour }
+  const choices = req.colour?.choices ?? DEFAULT_COLOUR_SETTINGS.choices
   const image = await decodeColourSource(req.source, settings, req.widthMm, req.purpose === 'preview' ? PREVIEW_OPTIONS : {})
-  const { width, height } = image
-  const pxPerMm = image.size.pxPerMm
   const t1 = performance.now()
   // Always relative to the paper under the ink: on an evenly lit scan the paper estimate is
   // flat and dividing by it changes nothing; on a photo it is what tells shading from ink.
-  const sep = await separateColours(image, colour.choices, { analysisPixels: req.purpose === 'preview' ? PREVIEW_ANALYSIS_PIXELS : undefined })
+  const sep = await separateColours(image, choices, { analysisPixels: req.purpose === 'preview' ? PREVIEW_ANALYSIS_PIXELS : undefined })
   const t2 = performance.now()
-  if (sep.inks.length <= 1) {
-    const t = performance.now()
-    return { kind: 'single', separation: summary(sep), timings: { decodeMs: t1 - t0, separateMs: t2 - t1, traceMs: 0, cleanMs: 0, stackMs: 0, measureMs: 0, totalMs: t - t0 } }
+  return {
+    separation: summary(sep),
+    inks: sep.inks.map(({ name, hex, lab, from, share, mask }) => ({ name, hex, lab, from, share, mask })),
+    width: image.width, height: image.height, pxPerMm: image.size.pxPerMm,
+    timings: { decodeMs: t1 - t0, separateMs: t2 - t1 },
   }
+}
 
-  // Sharp's work (the masks' PNGs, each clean vector rasterised back for fidelity) runs on its
-  // own threads: start it as soon as its input exists and collect it at the end, so it
-  // overlaps the outlining and measuring done here.
-  const pngs = sep.inks.map((ink) => bitmapToPng(ink.mask, width, height, req.purpose === 'preview'))
-  let traceMs = 0, cleanMs = 0
-  const traced = sep.inks.map((ink) => {
-    const a = performance.now()
-    const outline = traceWindow(ink.mask, width, height, pxPerMm, settings)
-    const b = performance.now()
-    const clean = cleanVector(outline)
-    cleanMs += performance.now() - b
-    traceMs += b - a
-    return { ink, outline, clean, fidelity: fidelity(clean.svg, { bitmap: ink.mask, width, height }) }
-  })
-  const t3 = performance.now()
+export interface OutlinedInk {
+  rawOutlineSvg: string
+  /** The clean vector as traced, on the drawing's own canvas. */
+  drawnSvg: string
+  curvesMm: ClosedCurve[]
+  fidelity: number
+  narrowestFeatureMm: number | null
+  preparedPng: Uint8Array
+  timings: { traceMs: number, cleanMs: number, measureMs: number }
+}
+
+/** Step 2, for each ink: outline its mask, clean it, and measure what needs the bitmap. */
+export async function outlineInk(mask: Uint8Array, width: number, height: number, pxPerMm: number, settingsInput: PipelineSettingsInput, purpose: LayeredRunRequest['purpose']): Promise<OutlinedInk> {
+  const settings = parseSettings(settingsInput)
+  // Sharp's work (the PNG, the clean vector rasterised back) runs on its own threads: started
+  // as soon as its input exists, it overlaps the outlining done here.
+  const png = bitmapToPng(mask, width, height, purpose === 'preview')
+  const t0 = performance.now()
+  const outline = traceWindow(mask, width, height, pxPerMm, settings)
+  const t1 = performance.now()
+  const clean = cleanVector(outline)
+  const t2 = performance.now()
+  const fid = await fidelity(clean.svg, { bitmap: mask, width, height })
+  const narrowest = narrowestInWindow(fid.raster, width, height, pxPerMm)
+  const pngBytes = await png
+  return {
+    rawOutlineSvg: outlineToSvg(outline), drawnSvg: clean.svg, curvesMm: clean.curvesMm,
+    fidelity: fid.iou, narrowestFeatureMm: narrowest,
+    preparedPng: new Uint8Array(pngBytes.buffer, pngBytes.byteOffset, pngBytes.byteLength),
+    timings: { traceMs: t1 - t0, cleanMs: t2 - t1, measureMs: performance.now() - t2 },
+  }
+}
+
+export interface AssembledLayers {
+  layers: LayerResult[]
+  stackedSvg: string
+  frame: RegistrationFrame
+  stackMs: number
+}
+
+/** Step 3: stack the outlined inks, frame them with the marks, and measure each layer as cut. */
+export function assembleLayers(sep: SeparatedSource, outlined: OutlinedInk[], colourInput: Partial<ColourSettings> = {}, smallPieceMm2 = DEFAULT_SMALL_PIECE_MM2): AssembledLayers {
+  const t0 = performance.now()
+  const colour = { ...DEFAULT_COLOUR_SETTINGS, ...colourInput }
+  const { width, height, pxPerMm } = sep
   const canvas = { widthMm: width / pxPerMm, heightMm: height / pxPerMm }
   // The seam between touching inks, each outlined alone: two prepared pixels.
-  const stacked = stackLayers(traced.map((t) => ({ curves: t.clean.curvesMm })), canvas, colour.stack, { seamMm: SEAM_PX / pxPerMm })
+  const stacked = stackLayers(outlined.map((o) => ({ curves: o.curvesMm })), canvas, colour.stack, { seamMm: SEAM_PX / pxPerMm })
   const frame = registrationFrame(stacked, canvas, colour.marks)
   const framed = stacked.map((l) => layerVector(withRegistrationMarks(l.curves, frame), frame))
-  const t4 = performance.now()
-
-  const limit = req.smallPieceMm2 ?? DEFAULT_SMALL_PIECE_MM2
-  const layers: LayerResult[] = []
-  for (let i = 0; i < traced.length; i++) {
-    const { ink, outline, clean } = traced[i]!
+  const layers: LayerResult[] = outlined.map((o, i) => {
+    const ink = sep.inks[i]!
     const cut = stacked[i]!
     const geometry = measureCurves(cut.curves, 1)
-    const fid = await traced[i]!.fidelity
-    const png = await pngs[i]!
-    layers.push({
+    return {
       name: ink.name, hex: ink.hex, lab: ink.lab, from: ink.from, share: ink.share,
-      preparedPng: new Uint8Array(png.buffer, png.byteOffset, png.byteLength),
-      rawOutlineSvg: outlineToSvg(outline),
-      drawnSvg: clean.svg,
-      cleanSvg: framed[i]!.svg,
+      preparedPng: o.preparedPng, rawOutlineSvg: o.rawOutlineSvg, drawnSvg: o.drawnSvg, cleanSvg: framed[i]!.svg,
       measurements: {
-        widthMm: clean.widthMm,
-        heightMm: clean.heightMm,
-        inkAreaMm2: geometry.inkAreaMm2,
-        cutLengthMm: geometry.cutLengthMm,
-        pieces: geometry.pieces,
-        holes: geometry.holes,
-        nodes: geometry.nodeCount,
-        narrowestFeatureMm: narrowestInWindow(fid.raster, width, height, pxPerMm),
-        smallPieces: smallPieces(cut.curves, 1, limit).length,
-        smallPieceLimitMm2: limit,
-        fidelity: fid.iou,
-        pxPerMm,
-        preparedWidthPx: width,
-        preparedHeightPx: height,
+        widthMm: round2(canvas.widthMm), heightMm: round2(canvas.heightMm),
+        inkAreaMm2: geometry.inkAreaMm2, cutLengthMm: geometry.cutLengthMm,
+        pieces: geometry.pieces, holes: geometry.holes, nodes: geometry.nodeCount,
+        narrowestFeatureMm: o.narrowestFeatureMm,
+        smallPieces: smallPieces(cut.curves, 1, smallPieceMm2).length, smallPieceLimitMm2: smallPieceMm2,
+        fidelity: o.fidelity, pxPerMm, preparedWidthPx: width, preparedHeightPx: height,
       },
-    })
-  }
-  const t5 = performance.now()
-  return {
-    kind: 'layers',
-    separation: summary(sep),
-    layers,
-    stackedSvg: stackedPreviewSvg(framed.map((f, i) => ({ svg: f.svg, hex: layers[i]!.hex }))),
-    frame,
-    pxPerMm,
-    timings: { decodeMs: t1 - t0, separateMs: t2 - t1, traceMs, cleanMs, stackMs: t4 - t3, measureMs: t5 - t4, totalMs: t5 - t0 },
-    engineVersions: { ...ENGINE_VERSIONS_BASE, sharp: sharp.versions.sharp ?? '', vips: sharp.versions.vips },
-  }
+    }
+  })
+  const stackedSvg = stackedPreviewSvg(framed.map((f, i) => ({ svg: f.svg, hex: layers[i]!.hex })))
+  return { layers, stackedSvg, frame, stackMs: performance.now() - t0 }
 }

@@ -6,7 +6,8 @@ import { beforeAll, describe, expect, it } from 'vitest'
 import { readCleanVector, readSvgRoot } from '../../../../server/cutsheet/path'
 import { deltaE00, srgbToLab } from '../../../../server/pipeline/colour/lab'
 import { layerPreviewSvg, stackedPreviewSvg } from '../../../../server/pipeline/colour/preview'
-import { runColourLayers, type LayeredRunResult } from '../../../../server/pipeline/colour/run-layers'
+import type { LayeredRunResult } from '../../../../server/pipeline/colour/run-layers'
+import { runColourLayers } from '../../../../server/pipeline/colour/tasks'
 import { blackDrawing, photograph, threeInkDrawing, trueMasks } from './drawing'
 
 const WIDTH_MM = 120
