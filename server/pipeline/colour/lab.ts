@@ -67,14 +67,14 @@ export function colourName(c: Lab): string {
     if (l < 92) return 'light grey'
     return 'white'
   }
-  if (h < 15 || h >= 345) return l > 65 ? 'pink' : 'red'
+  if (h < 15 || h >= 340) return l > 50 ? 'pink' : 'red'
   if (h < 47) return l > 72 ? 'pink' : 'red'
   if (h < 75) return l < 50 ? 'brown' : 'orange'
   if (h < 110) return l >= 70 ? 'yellow' : h < 90 ? 'brown' : 'olive'
   if (h < 190) return l > 75 ? 'light green' : 'green'
   if (h < 235) return 'teal'
   if (h < 315) return l > 70 ? 'light blue' : 'blue'
-  return l < 55 ? 'purple' : 'pink'
+  return l < 50 ? 'purple' : 'pink'
 }
 
 /**

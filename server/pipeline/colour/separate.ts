@@ -22,10 +22,10 @@
 // 3. Classification of every pixel of the image given, in one pass: the evened colour, cut to
 //    6 bits a channel, looks its answer up in a table filled as colours first occur (a photo
 //    of a drawing has few distinct colours once evened). The answer: the nearest centre by
-//    CIEDE2000 and the nearest centre meaning something else; between those two, the one
-//    covering at least half the pixel (see halfCover). Every cluster an ink is made of is a
-//    centre of its own, so a shaded ink is matched by its nearest shade; white and the paper's
-//    tint are centres that mean paper.
+//    CIEDE2000 when it is within SAME_COLOUR_DE00; otherwise the pixel is a blend of two
+//    centres, and goes to the one covering at least half of it (see nearestBlend). Every
+//    cluster an ink is made of is a centre of its own, so a shaded ink is matched by its
+//    nearest shade; white and the paper's tint are centres that mean paper.
 import sharp from 'sharp'
 import { kmeans } from 'ml-kmeans'
 import { paperEstimate } from '../lighting'
@@ -41,6 +41,8 @@ export const ANALYSIS_PIXELS = 500_000
 export const MERGE_DE00 = 12
 /** Colours within this CIEDE2000 of white are the paper (its noise and leftover shading). */
 export const PAPER_DE00 = 10
+/** A colour within this CIEDE2000 of a centre is that centre's colour; further off, a blend of two. */
+const SAME_COLOUR_DE00 = 7
 /** Flat patch: the four neighbours within this many levels in every channel. */
 const PURE_STEP = 24
 /** A cluster holding less than this share of the inks' own pixels is a mixture, not an ink. */
@@ -413,20 +415,30 @@ export function separationSentence(inkNames: string[], paper: Pick<PaperInfo, 't
 }
 
 /**
- * Where two colours blend (an edge, anti-aliased or blurred by the lens), whether the pixel is
- * at least half the first: its projection on the line between the two in sRGB values, where
- * the blend is a weighted mean. Nearest by ΔE00 alone would not split at half: CIEDE2000
- * shrinks chroma differences of strong colours, so a yellow edge would grow into the paper.
+ * A colour near no centre is a blend of two (an edge, anti-aliased or blurred by the lens):
+ * the pair whose mixing line in sRGB values passes nearest to it (a blend is a weighted mean of
+ * the two), and of the two the one covering at least half of the pixel. Nearest by ΔE00 alone
+ * would not split edges at half: CIEDE2000 shrinks chroma differences of strong colours, so a
+ * yellow edge would grow into the paper, and the grey edge of a black line would read as
+ * whichever ink lies nearest to grey.
  */
-function halfCover(key: number, first: [number, number, number], second: [number, number, number]): boolean {
+function nearestBlend(key: number, centres: Array<[number, number, number]>, target: number[]): number {
   const p = [(key >> 12) * 4 + 1.5, ((key >> 6) & 63) * 4 + 1.5, (key & 63) * 4 + 1.5]
-  let dot = 0, len2 = 0
-  for (let c = 0; c < 3; c++) {
-    const axis = first[c]! - second[c]!
-    dot += (p[c]! - second[c]!) * axis
-    len2 += axis * axis
+  let best = Infinity, label = PAPER
+  const dist2 = (q: number[]) => (p[0]! - q[0]!) ** 2 + (p[1]! - q[1]!) ** 2 + (p[2]! - q[2]!) ** 2
+  centres.forEach((c, i) => { const d = dist2(c); if (d < best) { best = d; label = target[i]! } })
+  for (let i = 0; i < centres.length; i++) {
+    for (let j = i + 1; j < centres.length; j++) {
+      if (target[i] === target[j]) continue
+      const a = centres[i]!, b = centres[j]!
+      let dot = 0, len2 = 0
+      for (let c = 0; c < 3; c++) { const axis = a[c]! - b[c]!; dot += (p[c]! - b[c]!) * axis; len2 += axis * axis }
+      const t = len2 === 0 ? 1 : Math.min(1, Math.max(0, dot / len2))
+      const d = dist2([0, 1, 2].map((c) => b[c]! + t * (a[c]! - b[c]!)))
+      if (d < best) { best = d; label = t >= 0.5 ? target[i]! : target[j]! }
+    }
   }
-  return len2 === 0 || dot / len2 >= 0.5
+  return label
 }
 
 // ---------------------------------------------------------------------------------------
@@ -521,12 +533,9 @@ export async function separateColours(image: RgbImage, choices: SeparationChoice
   const centreRgb = centres.map(labToSrgb255)
   const classify = (key: number): number => {
     const c = cells.get(key)
-    const d = centres.map((centre) => deltaE00(c, centre))
-    let first = 0
-    for (let j = 1; j < d.length; j++) if (d[j]! < d[first]!) first = j
-    let second = -1
-    for (let j = 0; j < d.length; j++) if (target[j] !== target[first] && (second < 0 || d[j]! < d[second]!)) second = j
-    return (lut[key] = second < 0 ? target[first]! : target[halfCover(key, centreRgb[first]!, centreRgb[second]!) ? first : second]!)
+    let first = 0, best = Infinity
+    centres.forEach((centre, j) => { const d = deltaE00(c, centre); if (d < best) { best = d; first = j } })
+    return (lut[key] = best <= SAME_COLOUR_DE00 ? target[first]! : nearestBlend(key, centreRgb, target))
   }
   const paperFull = await resizeRgb(paperEst.data, paperEst.width, paperEst.height, width, height)
   const n = width * height

@@ -107,7 +107,7 @@ describe('colour words', () => {
   const lab = (hex: string): Lab => { const n = parseInt(hex.slice(1), 16); return srgbToLab(n >> 16, (n >> 8) & 255, n & 255) }
   it.each([
     ['#ff0000', 'red'], ['#d8262e', 'red'], ['#ff8000', 'orange'], ['#ffff00', 'yellow'], ['#f7d417', 'yellow'],
-    ['#00a000', 'green'], ['#0000ff', 'blue'], ['#1d4fb8', 'blue'], ['#800080', 'purple'], ['#ff69b4', 'pink'],
+    ['#00a000', 'green'], ['#0000ff', 'blue'], ['#1d4fb8', 'blue'], ['#800080', 'purple'], ['#ff69b4', 'pink'], ['#e04a8a', 'pink'],
     ['#8b4513', 'brown'], ['#00a0a0', 'teal'], ['#1c1b1f', 'black'], ['#808080', 'grey'], ['#ffffff', 'white'],
   ])('%s reads as %s', (hex, name) => {
     expect(colourName(lab(hex))).toBe(name)

@@ -164,6 +164,26 @@ describe('a one-colour drawing', () => {
   })
 })
 
+describe('a line drawing: thin strokes in three inks', () => {
+  it('finds black, green and pink, each layer within 2 % though its strokes are 7–12 pixels wide', async () => {
+    const d: ColourDrawing = {
+      width: 1000, height: 750,
+      inks: [
+        { hex: '#1c1b1f', body: '<path d="M100 100 L900 120 L880 650 L120 620 Z" fill="none" stroke-width="9"/><circle cx="500" cy="370" r="180" fill="none" stroke-width="7"/>' },
+        { hex: '#2a8f3a', body: '<path d="M200 300 Q500 100 800 300" fill="none" stroke-width="12"/><rect x="420" y="300" width="160" height="140" stroke="none"/>' },
+        { hex: '#e04a8a', body: '<path d="M200 500 Q500 700 800 500" fill="none" stroke-width="10"/>' },
+      ],
+    }
+    const truth = await trueMasks(d)
+    const { rgb } = await photograph(d)
+    const sep = await separateColours({ data: rgb, width: d.width, height: d.height, channels: 3 })
+    expect(new Set(sep.inks.map((i) => i.name))).toEqual(new Set(['black', 'green', 'pink']))
+    const m = matchLayers(sep, d)
+    // The grey edge of a black line is a blend of black and paper, not the ink nearest to grey.
+    d.inks.forEach((_, k) => expect(wrongShare(sep.inks[m[k]!]!.mask, truth[k]!)).toBeLessThanOrEqual(0.02))
+  })
+})
+
 describe('bare paper and bad choices', () => {
   it('finds no ink on a shaded blank sheet', async () => {
     const d: ColourDrawing = { width: 400, height: 300, inks: [] }
