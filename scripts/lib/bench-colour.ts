@@ -99,7 +99,7 @@ export async function benchColour(runs: number): Promise<void> {
 
   const revision = await timed(runs, () => runColourLayers({ source: photo, settings: {}, widthMm: WIDTH_MM, purpose: 'revision' }))
   line('JPEG → layered revision files (no storage)', revision, REVISION_TARGET_MS)
-  const stages = (t: LayeredTimings) => `decode ${t.decodeMs.toFixed(0)}, separate ${t.separateMs.toFixed(0)}, outline ${t.traceMs.toFixed(0)}, clean ${t.cleanMs.toFixed(0)}, stack + marks ${t.stackMs.toFixed(0)}, measure ${t.measureMs.toFixed(0)} ms`
+  const stages = (t: LayeredTimings) => `decode ${t.decodeMs.toFixed(0)}, separate ${t.separateMs.toFixed(0)}, outline ${t.traceMs.toFixed(0)}, clean ${t.cleanMs.toFixed(0)}, stack + marks ${t.stackMs.toFixed(0)}, measure and PNG ${t.measureMs.toFixed(0)} ms`
   const r = revision.last
   if (r.kind === 'layers') console.log(`    ${stages(r.timings)}; ${r.layers.length} layers at ${r.pxPerMm.toFixed(1)} px/mm`)
 

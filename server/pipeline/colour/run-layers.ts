@@ -22,7 +22,7 @@ import { curvesToPathData, outlineToSvg, traceBitmap, type ClosedCurve, type Out
 import type { Lab } from './lab'
 import { DEFAULT_MARKS, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
 import { stackedPreviewSvg } from './preview'
-import { separateColours, type FoundInk, type InkLayer, type PaperInfo, type Separation, type SeparationChoices } from './separate'
+import { separateColours, type ColourPick, type FoundInk, type InkLayer, type PaperInfo, type Separation, type SeparationChoices } from './separate'
 import { DEFAULT_STACK, layerVector, stackLayers, type StackSettings } from './stack'
 
 /** Width of the seam between touching inks that the overlap fills, in prepared pixels (see stack.ts). */
@@ -31,9 +31,18 @@ export const SEAM_PX = 2
 /** A preview finds the inks on a smaller copy: it answers while a control moves. */
 export const PREVIEW_ANALYSIS_PIXELS = 200_000
 
+/**
+ * A colour picked on the source, as fractions of the upright source's width and height (the
+ * radius as a fraction of its width), so a pick made on the bench's shrunk copy means the same
+ * place in the full source.
+ */
+export interface SourcePick { x: number, y: number, radius?: number }
+
+export type SourceChoices = Omit<SeparationChoices, 'picks'> & { picks?: SourcePick[] }
+
 export interface ColourSettings {
   /** The designer's separation choices (automatic when empty). */
-  choices: SeparationChoices
+  choices: SourceChoices
   /** How lower layers meet the ones above: for all, or per layer bottom first. */
   stack: StackSettings | StackSettings[]
   marks: MarkSettings
@@ -139,7 +148,13 @@ export async function decodeColourSource(source: Uint8Array, settings: PipelineS
     if (info.width !== size.widthPx || info.height !== size.heightPx || info.channels < 1 || info.channels > 4) {
       throw new PrepareError(`Decoded ${info.width} × ${info.height} × ${info.channels}, not the expected ${size.widthPx} × ${size.heightPx}.`)
     }
-    return { data: new Uint8Array(data.buffer, data.byteOffset, data.length), width: info.width, height: info.height, channels: info.channels as 1 | 2 | 3 | 4, size }
+    // Where a point of the upright source (fractions of its size) lands in the decoded image.
+    const fromSource = (p: SourcePick): ColourPick => ({
+      x: Math.min(info.width - 1, Math.max(0, ((p.x * orientedWidth - (crop?.x ?? 0)) * info.width) / srcW)),
+      y: Math.min(info.height - 1, Math.max(0, ((p.y * orientedHeight - (crop?.y ?? 0)) * info.height) / srcH)),
+      radius: p.radius === undefined ? undefined : (p.radius * orientedWidth * info.width) / srcW,
+    })
+    return { data: new Uint8Array(data.buffer, data.byteOffset, data.length), width: info.width, height: info.height, channels: info.channels as 1 | 2 | 3 | 4, size, fromSource }
   } catch (e) {
     if (e instanceof PrepareError) throw e
     throw new PrepareError('The image could not be decoded.', { cause: e })
@@ -215,8 +230,14 @@ export interface SeparatedSource {
 export async function separateSource(req: LayeredRunRequest): Promise<SeparatedSource> {
   const t0 = performance.now()
   const settings = parseSettings(req.settings)
-  const choices = req.colour?.choices ?? DEFAULT_COLOUR_SETTINGS.choices
+  const { picks, ...rest } = req.colour?.choices ?? DEFAULT_COLOUR_SETTINGS.choices
   const image = await decodeColourSource(req.source, settings, req.widthMm, req.purpose === 'preview' ? PREVIEW_OPTIONS : {})
+  for (const p of picks ?? []) {
+    if (!(p.x >= 0 && p.x <= 1 && p.y >= 0 && p.y <= 1) || (p.radius !== undefined && !(p.radius >= 0 && p.radius <= 1))) {
+      throw new RangeError('A picked point is given as fractions (0–1) of the source\'s width and height.')
+    }
+  }
+  const choices: SeparationChoices = { ...rest, picks: picks?.map(image.fromSource) }
   const t1 = performance.now()
   // Always relative to the paper under the ink: on an evenly lit scan the paper estimate is
   // flat and dividing by it changes nothing; on a photo it is what tells shading from ink.

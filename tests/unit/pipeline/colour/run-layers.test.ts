@@ -89,6 +89,18 @@ describe('a three-ink photo to layers', () => {
     }
   })
 
+  it('takes picks as fractions of the source, the same on the full photo and on a shrunk copy', async () => {
+    // The red disc's centre (380, 470) and the blue block (670, 540) of the 1200 × 900 drawing.
+    const picks = [{ x: 380 / 1200, y: 470 / 900, radius: 0.005 }, { x: 670 / 1200, y: 540 / 900 }]
+    const small = await sharp(jpeg).resize(600).jpeg({ quality: 90 }).toBuffer()
+    for (const source of [jpeg, small]) {
+      const r = await runColourLayers({ source, settings: {}, widthMm: WIDTH_MM, purpose: 'preview', colour: { choices: { picks } } })
+      if (r.kind !== 'layers') throw new Error('expected layers')
+      expect(r.layers.map((l) => l.name).sort()).toEqual(['blue', 'red'])
+    }
+    await expect(runColourLayers({ source: jpeg, settings: {}, widthMm: WIDTH_MM, purpose: 'preview', colour: { choices: { picks: [{ x: 380, y: 470 }] } } })).rejects.toMatchObject({ kind: 'settings' })
+  })
+
   it('draws one layer alone, and the stack as groups in order, in mm', () => {
     const layers = run.layers.map((l) => ({ svg: l.cleanSvg, hex: l.hex }))
     const all = stackedPreviewSvg(layers, '#ffffff')
