@@ -18,6 +18,7 @@ import { benchBrowserRoundTrip } from './lib/bench-browser'
 import { benchCutSheets } from './lib/bench-cutsheet'
 import { benchPlates } from './lib/bench-plates'
 import { benchGeometry } from './lib/bench-geometry'
+import { benchColour } from './lib/bench-colour'
 
 const RUNS = Number(process.env.BENCH_RUNS ?? 5)
 const WIDTH_MM = 150
@@ -169,6 +170,7 @@ async function main() {
 
   await benchCutSheets(RUNS)
   await benchPlates(RUNS)
+  await benchColour(RUNS)
 
   // The tuning bench, end to end in a real browser (skip with BENCH_BROWSER=0).
   if (process.env.BENCH_BROWSER !== '0') {

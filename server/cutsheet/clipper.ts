@@ -81,3 +81,27 @@ export function grownOutline(polygons: Point[][], deltaMm: number, arcToleranceM
   c.Execute(ClipperLib.ClipType.ctUnion, filled, ClipperLib.PolyFillType.pftNonZero, ClipperLib.PolyFillType.pftNonZero)
   return offsetPaths(filled, deltaMm, arcToleranceMm)
 }
+
+export type RegionOperation = 'union' | 'intersection' | 'difference'
+
+/**
+ * A boolean operation between two regions, each the set of closed polygons filled by the given
+ * rule ('even-odd' for curves read from an SVG, 'non-zero' for Clipper's own results, whose
+ * outer boundaries and holes run opposite ways). The result comes back as non-overlapping outer
+ * boundaries and holes, which either rule fills alike.
+ */
+export function clipRegions(subject: Point[][], clip: Point[][], op: RegionOperation, fill: 'even-odd' | 'non-zero' = 'non-zero'): Point[][] {
+  const c = new ClipperLib.Clipper()
+  c.AddPaths(subject.map(toInt), ClipperLib.PolyType.ptSubject, true)
+  c.AddPaths(clip.map(toInt), ClipperLib.PolyType.ptClip, true)
+  const type = op === 'union' ? ClipperLib.ClipType.ctUnion : op === 'intersection' ? ClipperLib.ClipType.ctIntersection : ClipperLib.ClipType.ctDifference
+  const rule = fill === 'even-odd' ? ClipperLib.PolyFillType.pftEvenOdd : ClipperLib.PolyFillType.pftNonZero
+  const out: IntPath[] = []
+  c.Execute(type, out, rule, rule)
+  return out.map(toMm)
+}
+
+/** Whether a polygon from clipRegions or offsetRegion is an outer boundary (else a hole). */
+export function isOuterBoundary(poly: Point[]): boolean {
+  return ClipperLib.Clipper.Orientation(toInt(poly))
+}

@@ -1,0 +1,118 @@
+// Coloured drawings made in code, with the true mask of every ink, and the same drawing as a
+// phone would photograph it: light falling off across the sheet, a vignette, a tinted paper,
+// a little lens blur, noise and JPEG.
+import sharp from 'sharp'
+import { gaussian, mulberry32 } from '../helpers'
+
+export interface InkShape {
+  /** The ink as drawn, sRGB hex. */
+  hex: string
+  /** SVG elements (no fill: the ink's colour is given to them). */
+  body: string
+}
+
+export interface ColourDrawing {
+  width: number
+  height: number
+  /** Inks in painting order: a later ink covers an earlier one where they overlap. */
+  inks: InkShape[]
+}
+
+/** The drawing as SVG: white paper, then every ink in order. */
+export function drawingSvg(d: ColourDrawing): string {
+  return `<svg xmlns="http://www.w3.org/2000/svg" width="${d.width}" height="${d.height}" viewBox="0 0 ${d.width} ${d.height}">`
+    + `<rect width="${d.width}" height="${d.height}" fill="#fff"/>`
+    + d.inks.map((ink) => `<g fill="${ink.hex}" stroke="${ink.hex}">${ink.body}</g>`).join('')
+    + '</svg>'
+}
+
+/**
+ * The visible part of each ink as a 0/1 mask (an ink covered by a later one is not visible
+ * there), rendered alone in black with every later ink in white over it, split at half cover.
+ */
+export async function trueMasks(d: ColourDrawing): Promise<Uint8Array[]> {
+  const out: Uint8Array[] = []
+  for (let k = 0; k < d.inks.length; k++) {
+    const svg = `<svg xmlns="http://www.w3.org/2000/svg" width="${d.width}" height="${d.height}" viewBox="0 0 ${d.width} ${d.height}">`
+      + `<rect width="${d.width}" height="${d.height}" fill="#fff"/>`
+      + d.inks.map((ink, j) => (j < k ? '' : `<g fill="${j === k ? '#000' : '#fff'}" stroke="${j === k ? '#000' : '#fff'}">${ink.body}</g>`)).join('')
+      + '</svg>'
+    const { data, info } = await sharp(Buffer.from(svg)).greyscale().raw().toBuffer({ resolveWithObject: true })
+    const mask = new Uint8Array(d.width * d.height)
+    for (let i = 0; i < mask.length; i++) mask[i] = data[i * info.channels]! < 128 ? 1 : 0
+    out.push(mask)
+  }
+  return out
+}
+
+export interface PhotoOptions {
+  /** Paper tint, a factor per channel. */
+  tint?: [number, number, number]
+  /** Darkest light across the sheet, as a factor (1 = even light). */
+  falloff?: number
+  /** Light lost towards the corners, as a factor of the squared distance from the centre. */
+  vignette?: number
+  noise?: number
+  blur?: number
+  quality?: number
+  seed?: number
+}
+
+/** The drawing photographed: raw RGB after a JPEG round trip, and the JPEG itself. */
+export async function photograph(d: ColourDrawing, o: PhotoOptions = {}): Promise<{ rgb: Uint8Array, jpeg: Buffer }> {
+  const { tint = [1, 0.96, 0.86], falloff = 0.55, vignette = 0.3, noise = 5, blur = 1, quality = 82, seed = 5 } = o
+  const { width: W, height: H } = d
+  const base = await sharp(Buffer.from(drawingSvg(d))).removeAlpha().blur(blur).raw().toBuffer()
+  const rnd = mulberry32(seed)
+  const out = Buffer.alloc(W * H * 3)
+  for (let y = 0; y < H; y++) {
+    for (let x = 0; x < W; x++) {
+      const gradient = 1 - (1 - falloff) * (0.7 * x / W + 0.3 * y / H)
+      const dx = (x - W * 0.4) / W, dy = (y - H * 0.4) / H
+      const light = gradient * (1 - vignette * (dx * dx + dy * dy))
+      const i = (y * W + x) * 3
+      for (let c = 0; c < 3; c++) {
+        const v = base[i + c]! * tint[c]! * light + noise * gaussian(rnd)
+        out[i + c] = Math.max(0, Math.min(255, Math.round(v)))
+      }
+    }
+  }
+  const jpeg = await sharp(out, { raw: { width: W, height: H, channels: 3 } }).jpeg({ quality }).toBuffer()
+  const rgb = await sharp(jpeg).raw().toBuffer()
+  return { rgb: new Uint8Array(rgb.buffer, rgb.byteOffset, rgb.length), jpeg }
+}
+
+/** Three marker inks: a red disc, a blue block touching it (drawn over its edge), a yellow star on bare paper. */
+export function threeInkDrawing(width = 1200, height = 900): ColourDrawing {
+  const s = width / 1200
+  const star: string[] = []
+  for (let i = 0; i < 10; i++) {
+    const r = (i % 2 ? 62 : 150) * s
+    const t = -Math.PI / 2 + (i * Math.PI) / 5
+    star.push(`${(960 * s + r * Math.cos(t)).toFixed(2)},${(300 * s + r * Math.sin(t)).toFixed(2)}`)
+  }
+  return {
+    width, height,
+    inks: [
+      { hex: '#d8262e', body: `<circle cx="${380 * s}" cy="${470 * s}" r="${220 * s}"/>` },
+      { hex: '#1d4fb8', body: `<rect x="${560 * s}" y="${330 * s}" width="${230 * s}" height="${420 * s}" stroke="none"/><path d="M${820 * s} ${600 * s} L${1120 * s} ${760 * s}" stroke-width="${34 * s}" fill="none"/>` },
+      { hex: '#f7d417', body: `<polygon points="${star.join(' ')}" stroke="none"/>` },
+    ],
+  }
+}
+
+/** One black marker drawing: a ring, a bar and a stroke. */
+export function blackDrawing(width = 1000, height = 750): ColourDrawing {
+  const s = width / 1000
+  const v = (x: number) => (x * s).toFixed(2)
+  return {
+    width, height,
+    inks: [{
+      hex: '#1c1b1f',
+      body: `<circle cx="${v(300)}" cy="${v(370)}" r="${v(200)}" stroke="none"/><circle cx="${v(300)}" cy="${v(370)}" r="${v(90)}" fill="#fff" stroke="none"/>`
+        + `<rect x="${v(560)}" y="${v(150)}" width="${v(90)}" height="${v(450)}" stroke="none"/><path d="M${v(700)} ${v(620)} Q${v(820)} ${v(300)} ${v(940)} ${v(600)}" stroke-width="${v(26)}" fill="none"/>`,
+    }],
+  }
+}
+
+export { gaussian, mulberry32 }
