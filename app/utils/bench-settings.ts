@@ -33,7 +33,18 @@ export const SETTING_LIMITS = {
   widthMm: { min: WIDTH_MM_MIN, max: WIDTH_MM_MAX },
 } as const
 
-const DEFAULTS: BenchSettings = DEFAULT_SETTINGS
+// The bench's controls still know lighting evening as on/off and the threshold as automatic
+// or manual; the pipeline's newer automatic choices are left to the server's defaults.
+const DEFAULTS: BenchSettings = {
+  luma: DEFAULT_SETTINGS.luma,
+  lightingEvening: { enabled: false, strength: DEFAULT_SETTINGS.lightingEvening.strength },
+  threshold: { mode: 'auto' },
+  swapInkAndPaper: DEFAULT_SETTINGS.swapInkAndPaper,
+  crop: DEFAULT_SETTINGS.crop,
+  speckFilterMm2: DEFAULT_SETTINGS.speckFilterMm2,
+  cornerRounding: DEFAULT_SETTINGS.cornerRounding,
+  curveTolerance: DEFAULT_SETTINGS.curveTolerance,
+}
 export const BENCH_DEFAULTS: Readonly<BenchSettings> = Object.freeze(DEFAULTS)
 
 export function clampNumber(v: unknown, min: number, max: number, fallback: number): number {
