@@ -22,7 +22,7 @@ import { fromSheet, sourceFrame, turnFrame, type Frame } from './frame'
 import { multiply, scaling, warpBilinear, type Pt } from './homography'
 import { paperEstimate } from './lighting'
 import { findPaperLines, removeLines, type LineFamily } from './lines'
-import { toGrey } from './luma'
+import { LUMA, toGrey } from './luma'
 import { histogram, otsuDetails } from './otsu'
 import { sauvolaBitmap, windowPx } from './sauvola'
 import { findSheet, sheetFrame, type Quad } from './sheet'
@@ -99,37 +99,66 @@ export interface DrawingFacts {
   smallPieces: number
   /** Share of the ink area in pieces under 1 mm². */
   smallInkShare: number
+  /**
+   * How much the paper's hue varies: the 75th percentile of the distance between the paper
+   * pixels' channel ratios and the paper's own (0 for paper of one colour, however lit).
+   */
+  paperHueSpread: number
 }
 
 const pct = (v: number) => `${Math.round(v * 100)} %`
 const mm = (v: number) => (Math.round(v * 10) / 10).toFixed(1)
 
 function regionName(cells: number[]): string {
-  // cells: 3 × 3 mean brightness, row-major
+  // cells: 3 × 3 mean brightness of the paper, row-major; NaN where there is no paper
   const names = ['top left', 'top', 'top right', 'left', 'middle', 'right', 'bottom left', 'bottom', 'bottom right']
+  const known = cells.map((v, i) => [v, i] as const).filter(([v]) => !Number.isNaN(v))
+  if (!known.length) return 'middle'
   const centre = cells[4]!
-  const border = cells.filter((_, i) => i !== 4)
-  if (border.every((v) => v < centre) && Math.max(...border) - Math.min(...border) < 0.5 * (centre - Math.min(...border))) return 'edges'
-  let dark = 0
-  for (let i = 1; i < 9; i++) if (cells[i]! < cells[dark]!) dark = i
-  return names[dark]!
+  const border = known.filter(([, i]) => i !== 4).map(([v]) => v)
+  if (!Number.isNaN(centre) && border.length >= 6 && border.every((v) => v < centre)
+    && Math.max(...border) - Math.min(...border) < 0.5 * (centre - Math.min(...border))) return 'edges'
+  let dark = known[0]!
+  for (const k of known) if (k[0] < dark[0]) dark = k
+  return names[dark[1]]!
 }
 
-/** Lighting: how much the paper's brightness varies, and where it is darkest. */
-function lightingChoice(map: Uint8Array, w: number, h: number, settings: PipelineSettings): { choice: LightingChoice, reason: string } {
-  const hist = histogram(map)
-  let acc = 0, p5 = 0, p95 = 255
-  for (let v = 0; v < 256; v++) { acc += hist[v]!; if (acc >= 0.05 * map.length) { p5 = v; break } }
-  acc = 0
-  for (let v = 0; v < 256; v++) { acc += hist[v]!; if (acc >= 0.95 * map.length) { p95 = v; break } }
-  const drop = p95 > 0 ? 1 - p5 / p95 : 0
-  const cells = new Array<number>(9).fill(0), counts = new Array<number>(9).fill(0)
-  for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) {
-    const c = Math.min(2, Math.floor((3 * y) / h)) * 3 + Math.min(2, Math.floor((3 * x) / w))
-    cells[c]! += map[y * w + x]!; counts[c]!++
+/**
+ * Lighting: how much the bare paper's brightness varies over the sheet, and where it is
+ * darkest. Measured on the paper itself (pixels within a tenth of the paper estimate there),
+ * as the median of each cell of a 9 × 9 grid, so ink (also ink along the edges, where the
+ * estimate has nothing to go by) does not count.
+ */
+function lightingChoice(luma: Uint8Array, map: Uint8Array, w: number, h: number, settings: PipelineSettings): { choice: LightingChoice, reason: string } {
+  const G = 9
+  const hists = Array.from({ length: G * G }, () => new Uint32Array(256))
+  const counts = new Uint32Array(G * G), totals = new Uint32Array(G * G)
+  for (let y = 0; y < h; y++) {
+    const row = Math.min(G - 1, Math.floor((G * y) / h)) * G
+    for (let x = 0; x < w; x++) {
+      const c = row + Math.min(G - 1, Math.floor((G * x) / w))
+      const i = y * w + x
+      totals[c]!++
+      if (luma[i]! * 10 >= map[i]! * 9) { hists[c]![luma[i]!]!++; counts[c]!++ }
+    }
   }
-  for (let i = 0; i < 9; i++) cells[i] = counts[i] ? cells[i]! / counts[i]! : 0
-  const where = regionName(cells)
+  const cells: (number | null)[] = hists.map((hist, c) => {
+    if (!counts[c] || counts[c]! < 0.05 * totals[c]!) return null
+    let acc = 0
+    for (let v = 0; v < 256; v++) { acc += hist[v]!; if (acc * 2 >= counts[c]!) return v }
+    return 255
+  })
+  const known = cells.filter((v): v is number => v !== null).sort((a, b) => a - b)
+  const drop = known.length && known[known.length - 1]! > 0 ? 1 - known[0]! / known[known.length - 1]! : 0
+  // 3 × 3 regions for naming where it is darkest
+  const region = new Array<number>(9).fill(0), rn = new Array<number>(9).fill(0)
+  cells.forEach((v, c) => {
+    if (v === null) return
+    const r = Math.floor(Math.floor(c / G) / 3) * 3 + Math.floor((c % G) / 3)
+    region[r]! += v; rn[r]!++
+  })
+  const means = region.map((v, r) => (rn[r] ? v / rn[r]! : Number.NaN))
+  const where = regionName(means)
   const strength = settings.lightingEvening.strength
   const seen = drop >= UNEVEN_PAPER
     ? `The paper is ${pct(drop)} darker ${where === 'edges' ? 'towards the edges' : `at the ${where}`} than where it is brightest`
@@ -293,8 +322,15 @@ function thresholdChoice(facts: ThresholdFacts, settings: PipelineSettings): { v
     return { value: t, reason: `The grey levels: ${seen}; ${what}, as set.` }
   }
   if (facts.contrast < FAINT_INK) {
+    // Where the paper is plain the level is m (1 − k): k = half the contrast puts it half-way
+    // between paper and strokes, at a blurred stroke's edge. R, the spread counted as full
+    // contrast, is the spread a neighbourhood of paper and these strokes really has (their
+    // difference, and a tenth for noise), not the whole 8-bit range: so where strokes crowd
+    // together and pull the window's mean down, their spread lifts the level back up.
+    const k = Math.round(Math.min(0.3, Math.max(0.05, facts.contrast / 2)) * 100) / 100
+    const r = Math.round(Math.min(127.5, Math.max(16, 1.1 * (facts.paperLevel - facts.inkCore))))
     return {
-      value: { mode: 'adaptive', windowMm: ADAPTIVE_DEFAULTS.windowMm, k: ADAPTIVE_DEFAULTS.k },
+      value: { mode: 'adaptive', windowMm: ADAPTIVE_DEFAULTS.windowMm, k, r },
       reason: `The drawing is faint (its darkest strokes are only ${pct(facts.contrast)} darker than the paper): a threshold for every spot from its surroundings (${ADAPTIVE_DEFAULTS.windowMm} mm window).`,
     }
   }
@@ -307,7 +343,7 @@ function thresholdChoice(facts: ThresholdFacts, settings: PipelineSettings): { v
 /** Threshold a grey image by a pinned threshold setting (ink = 1), at pxPerMm for the adaptive window. */
 export function applyThreshold(grey: Uint8Array, w: number, h: number, t: Analysis['threshold'], pxPerMm: number): { bitmap: Uint8Array, level: number } {
   if (t.mode === 'adaptive') {
-    return { bitmap: sauvolaBitmap(grey, w, h, { window: windowPx(t.windowMm, pxPerMm), k: t.k }), level: otsuDetails(histogram(grey)).threshold }
+    return { bitmap: sauvolaBitmap(grey, w, h, { window: windowPx(t.windowMm, pxPerMm), k: t.k, r: t.r }), level: otsuDetails(histogram(grey)).threshold }
   }
   const level = t.mode === 'manual' ? t.value : otsuDetails(histogram(grey)).threshold
   const bm = new Uint8Array(grey.length)
@@ -325,6 +361,23 @@ function pieceFacts(pieces: readonly Piece[], minArea: number, pxPerMm: number):
     if (p.area < weedable) { small++; smallArea += p.area }
   }
   return { pieces: count, small, smallInkShare: area ? smallArea / area : 0 }
+}
+
+function hueSpread(rgb: Uint8Array, bitmap: Uint8Array, paper: PaperColour, standard: PipelineSettings['luma']): number {
+  const k = LUMA[standard]
+  const hist = new Uint32Array(200)
+  let n = 0
+  for (let i = 0, j = 0; i < bitmap.length; i++, j += 3) {
+    if (bitmap[i]) continue
+    const l = k.r * rgb[j]! + k.g * rgb[j + 1]! + k.b * rgb[j + 2]!
+    if (l < 16) continue
+    const d = Math.hypot(rgb[j]! / l - paper.ratio[0], rgb[j + 1]! / l - paper.ratio[1], rgb[j + 2]! / l - paper.ratio[2])
+    hist[Math.min(199, Math.floor(d * 200))]!++
+    n++
+  }
+  let acc = 0
+  for (let b = 0; b < 200; b++) { acc += hist[b]!; if (acc >= 0.75 * n) return b / 200 }
+  return 1
 }
 
 function frameFor(input: AnalysisInput, luma: Uint8Array): { frame: Frame, choice: CleanUpChoice } {
@@ -394,16 +447,17 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
   const paper = estimatePaperColour(rgb, n, s.luma)
   const paperMap = await paperEstimate(luma, w, h)
 
-  const lighting = lightingChoice(paperMap, w, h, s)
+  const lighting = lightingChoice(luma, paperMap, w, h, s)
   choices.push({ setting: 'lightingEvening', automatic: s.lightingEvening.mode === 'auto', value: { mode: lighting.choice.on ? 'on' : 'off', strength: lighting.choice.strength }, reason: lighting.reason })
 
   // Darkness against the local paper, every colour counted: for finding lines and ink colours.
   const d = densities(rgb, n, paper, paperMap)
   const darkness = densityGrey(rgb, n, { paper, paperLuma: paperMap, dropped: [] })
   for (let i = 0; i < n; i++) darkness[i] = 255 - darkness[i]!
-  const lines = s.paperLines === 'keep' && s.dropoutColour.mode !== 'auto' ? [] : findPaperLines(darkness, w, h)
-  const lineColours = lines.map((f) => lineDensity(d, w, h, f))
-  const colours = inkColours(d, n, lineMask(w, h, lines), paper)
+  const allLines = s.paperLines === 'keep' && s.dropoutColour.mode !== 'auto' ? [] : findPaperLines(darkness, w, h)
+  const lines = allLines.filter((f) => f.regular)
+  const lineColours = allLines.map((f) => lineDensity(d, w, h, f))
+  const colours = inkColours(d, n, lineMask(w, h, allLines), paper)
 
   // Ink colour
   const colourInk = colours.colouredShare >= 0.1
@@ -425,21 +479,39 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
   let droppedColours: Rgb[] = []
   if (s.dropoutColour.mode === 'auto') {
     const candidates: { colour: Rgb, dir: Rgb, name: string }[] = []
-    lines.forEach((f, i) => {
+    // The ink's own colours (grey ink: equal in every channel) must keep most of their
+    // strength once the dropped colours are taken out, or the drawing would go with them.
+    const inkDirs: Rgb[] = colourInk ? colours.directions : [[1 / Math.sqrt(3), 1 / Math.sqrt(3), 1 / Math.sqrt(3)]]
+    const keeps = (drops: Rgb[]) => {
+      const basis = orthonormal(drops)
+      return inkDirs.every((u) => {
+        const v: Rgb = [...u]
+        for (const b of basis) {
+          const a = v[0] * b[0] + v[1] * b[1] + v[2] * b[2]
+          if (a > 0) { v[0] -= a * b[0]; v[1] -= a * b[1]; v[2] -= a * b[2] }
+        }
+        return Math.max(...v) >= 0.4 * Math.max(...u)
+      })
+    }
+    // Regular families first: they are the sheet's lines for sure.
+    const order = allLines.map((f, i) => i).sort((a, b) => Number(allLines[b]!.regular) - Number(allLines[a]!.regular))
+    for (const i of order) {
       const dens = lineColours[i]!
-      if (chroma(...dens) < 0.4) return
-      const dir = densityDirection(colourOfDensity(dens, paper), paper)
-      if (!dir) return
-      // Not when the ink itself is that colour.
-      const likeInk = colours.directions.some((u) => u[0] * dir[0] + u[1] * dir[1] + u[2] * dir[2] > 0.93)
-      if (likeInk) return
+      if (chroma(...dens) < 0.4) continue
       const colour = colourOfDensity(dens, paper)
-      if (!candidates.some((c) => c.dir[0] * dir[0] + c.dir[1] * dir[1] + c.dir[2] * dir[2] > 0.97)) candidates.push({ colour, dir, name: colourName(colour) })
-    })
+      const dir = densityDirection(colour, paper)
+      if (!dir) continue
+      // Not when the ink itself is that colour.
+      if (colours.directions.some((u) => u[0] * dir[0] + u[1] * dir[1] + u[2] * dir[2] > 0.93)) continue
+      if (candidates.some((c) => c.dir[0] * dir[0] + c.dir[1] * dir[1] + c.dir[2] * dir[2] > 0.97)) { allLines[i]!.dropped = true; continue }
+      if (!keeps([...candidates.map((c) => c.dir), dir])) continue
+      candidates.push({ colour, dir, name: colourName(colour) })
+      allLines[i]!.dropped = true
+    }
     droppedColours = candidates.map((c) => c.colour)
     choices.push(candidates.length
       ? { setting: 'dropoutColour', automatic: true, value: { mode: 'colours', colours: candidates.map((c) => toHex(c.colour)) }, reason: `The sheet's lines are ${listWords(candidates.map((c) => c.name))} and the drawing is not: that colour is read as paper.` }
-      : { setting: 'dropoutColour', automatic: true, value: { mode: 'none' }, reason: lines.length ? 'The sheet\'s lines are the same colour as the drawing: no colour can be dropped.' : 'No coloured lines on the sheet: no colour is dropped.' })
+      : { setting: 'dropoutColour', automatic: true, value: { mode: 'none' }, reason: allLines.some((f, i) => chroma(...lineColours[i]!) >= 0.4) ? 'The sheet\'s lines are the same colour as the drawing: no colour can be dropped.' : 'No coloured lines on the sheet: no colour is dropped.' })
   } else if (s.dropoutColour.mode === 'colours') {
     droppedColours = s.dropoutColour.colours.map(fromHex)
     choices.push({ setting: 'dropoutColour', automatic: false, value: s.dropoutColour, reason: `${listWords(s.dropoutColour.colours)} read as paper, as set.` })
@@ -480,7 +552,7 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
   }
   const { bitmap } = applyThreshold(grey, w, h, threshold.value, pxPerMm)
   if (s.swapInkAndPaper) for (let i = 0; i < n; i++) bitmap[i] = 1 - bitmap[i]!
-  if (removeFound) for (const f of lines) removeLines(bitmap, w, h, f)
+  if (removeFound) for (const f of lines) if (!f.dropped) removeLines(bitmap, w, h, f)
   let inkPixels = 0
   for (let i = 0; i < n; i++) inkPixels += bitmap[i]!
   const found = findPieces(bitmap, w, h)
@@ -492,6 +564,7 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
     pxPerMm = (box.x1 - box.x0 + 1) / input.widthMm
   }
   const pf = pieceFacts(found.pieces, Math.max(1, s.speckFilterMm2 * pxPerMm * pxPerMm), pxPerMm)
+  const paperHueSpread = hueSpread(rgb, bitmap, paper, s.luma)
   const sx = w / frame.width, sy = h / frame.height
   const ink = box ? { x0: box.x0 / sx, y0: box.y0 / sy, x1: (box.x1 + 1) / sx, y1: (box.y1 + 1) / sy } : null
   if (input.widthOf === 'drawing' && ink) {
@@ -506,7 +579,7 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
     threshold: threshold.value, ink, pxPerMm, choices,
     facts: {
       inkShare: inkPixels / n, midShare: facts.midShare, separability: facts.separability,
-      pieces: pf.pieces, smallPieces: pf.small, smallInkShare: pf.smallInkShare,
+      pieces: pf.pieces, smallPieces: pf.small, smallInkShare: pf.smallInkShare, paperHueSpread,
     },
   }
 }

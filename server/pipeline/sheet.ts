@@ -150,6 +150,29 @@ function intersect(a: Line, b: Line): Pt | null {
   return { x: (a.c * b.ny - a.ny * b.c) / det, y: (a.nx * b.c - a.c * b.nx) / det }
 }
 
+/**
+ * Grow the sheet's piece into neighbours that differ little from it (a soft shadow across
+ * the paper changes its brightness slowly; the paper's edge is a step), so a shadow does not
+ * bite into the sheet. Pixels of other pieces are taken over too; nothing darker than `floor`
+ * (where the background begins, and ink: a tapering stroke or a blurred corner would
+ * otherwise make a gentle slope into them).
+ */
+function growSoftly(img: Uint8Array, w: number, h: number, labels: Int32Array, id: number, floor: number): void {
+  const step = 10
+  const queue = new Int32Array(w * h)
+  let head = 0, tail = 0
+  for (let i = 0; i < labels.length; i++) if (labels[i] === id) queue[tail++] = i
+  while (head < tail) {
+    const i = queue[head++]!
+    const x = i % w, v = img[i]!
+    const next = [x > 0 ? i - 1 : -1, x < w - 1 ? i + 1 : -1, i >= w ? i - w : -1, i < w * (h - 1) ? i + w : -1]
+    for (const j of next) {
+      if (j < 0 || labels[j] === id) continue
+      if (img[j]! >= floor && Math.abs(img[j]! - v) <= step) { labels[j] = id; queue[tail++] = j }
+    }
+  }
+}
+
 /** Sub-pixel points of the sheet's edge near the side from a to b (outward away from `centre`). */
 function edgePoints(img: Uint8Array, w: number, h: number, a: Pt, b: Pt, centre: Pt): Pt[] {
   const len = Math.hypot(b.x - a.x, b.y - a.y)
@@ -225,8 +248,13 @@ export function findSheet(luma: Uint8Array, w: number, h: number): SheetFound | 
   let id = -1
   for (let i = 0; i < pieces.length; i++) if (id < 0 || pieces[i]!.area > pieces[id]!.area) id = i
   if (id < 0) return null
-  const piece = pieces[id]!
-  if (piece.area < w * h / 6) return null
+  // Never below half-way from Otsu's level down to the background's mean.
+  let darkSum = 0, darkN = 0
+  for (let i = 0; i < smooth.length; i++) if (smooth[i]! <= t) { darkSum += smooth[i]!; darkN++ }
+  growSoftly(smooth, w, h, labels, id + 1, darkN ? (t + darkSum / darkN) / 2 : t)
+  let area = 0
+  for (let i = 0; i < labels.length; i++) if (labels[i] === id + 1) area++
+  if (area < w * h / 6) return null
   // Touching the picture's edge over more than a sliver: the sheet runs off the picture.
   let touching = 0
   for (let x = 0; x < w; x++) { if (labels[x] === id + 1) touching++; if (labels[(h - 1) * w + x] === id + 1) touching++ }
@@ -260,7 +288,47 @@ export function findSheet(luma: Uint8Array, w: number, h: number): SheetFound | 
   const angles = interiorAngles(refined)
   if (angles.some((a) => a < 35 || a > 145)) return null
   if (refined.some((p) => p.x < -1 || p.y < -1 || p.x > w + 1 || p.y > h + 1)) return null
+  if (looksLikeDrawnFrame(smooth, w, h, refined, labels, id + 1)) return null
   return { corners: orderCorners(refined), coverage: polygonArea(refined) / (w * h) }
+}
+
+function insideConvex(q: readonly Pt[], x: number, y: number): boolean {
+  let sign = 0
+  for (let i = 0; i < q.length; i++) {
+    const c = cross(q[i]!, q[(i + 1) % q.length]!, { x, y })
+    if (c === 0) continue
+    if (sign === 0) sign = Math.sign(c)
+    else if (Math.sign(c) !== sign) return false
+  }
+  return true
+}
+
+/**
+ * A light rectangle square to the picture inside a uniform, ink-dark surround is a drawing's
+ * own frame running off the edges of a tight scan, not a sheet on a table: a table is seldom
+ * as dark and even as ink, and a photo of a sheet is seldom square to the picture.
+ */
+function looksLikeDrawnFrame(img: Uint8Array, w: number, h: number, q: readonly Pt[], labels: Int32Array, id: number): boolean {
+  const square = q.every((p, i) => {
+    const r = q[(i + 1) % 4]!
+    const deg = (Math.atan2(Math.abs(r.y - p.y), Math.abs(r.x - p.x)) * 180) / Math.PI
+    return Math.min(deg, 90 - deg) < 1.5
+  })
+  if (!square) return false
+  const inside: number[] = []
+  let n = 0, sum = 0, sq = 0
+  for (let y = 0; y < h; y += 2) {
+    for (let x = 0; x < w; x += 2) {
+      const v = img[y * w + x]!
+      if (insideConvex(q, x + 0.5, y + 0.5)) { if (labels[y * w + x] === id) inside.push(v); continue }
+      n++; sum += v; sq += v * v
+    }
+  }
+  if (!n || !inside.length) return false
+  inside.sort((a, b) => a - b)
+  const paper = inside[inside.length >> 1]!
+  const mean = sum / n, sd = Math.sqrt(Math.max(0, sq / n - mean * mean))
+  return mean < 0.35 * paper && sd < 15
 }
 
 /** A typical phone camera's focal length, in pixels of the long side (from memory: about 26 mm equivalent). */

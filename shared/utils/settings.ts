@@ -23,12 +23,17 @@ export const SETTING_LIMITS = {
   adaptiveWindowMm: { min: 1, max: 100 },
   /** Sauvola's k: how far below the local mean the threshold sits where the paper is plain. */
   adaptiveK: { min: 0.05, max: 0.5 },
+  /** Sauvola's R: the spread of grey levels (standard deviation) that counts as full contrast. */
+  adaptiveR: { min: 8, max: 255 },
   fineAngleDeg: { min: -45, max: 45 },
   marginMm: { min: 0, max: 50 },
 } as const
 
-/** Defaults of the adaptive threshold: a window of 8 mm at the decal's size, k = 0.2. */
-export const ADAPTIVE_DEFAULTS = { windowMm: 8, k: 0.2 } as const
+/**
+ * Defaults of the adaptive threshold: a window of 8 mm at the decal's size, and Sauvola's own
+ * k = 0.2 and R = 127.5 (half the 8-bit range).
+ */
+export const ADAPTIVE_DEFAULTS = { windowMm: 8, k: 0.2, r: 127.5 } as const
 
 export const cropSchema = z.object({
   // Source pixels, measured on the source after it has been turned upright by its
@@ -49,6 +54,7 @@ export const thresholdSchema = z.discriminatedUnion('mode', [
     mode: z.literal('adaptive'),
     windowMm: z.number().min(SETTING_LIMITS.adaptiveWindowMm.min).max(SETTING_LIMITS.adaptiveWindowMm.max).default(ADAPTIVE_DEFAULTS.windowMm),
     k: z.number().min(SETTING_LIMITS.adaptiveK.min).max(SETTING_LIMITS.adaptiveK.max).default(ADAPTIVE_DEFAULTS.k),
+    r: z.number().min(SETTING_LIMITS.adaptiveR.min).max(SETTING_LIMITS.adaptiveR.max).default(ADAPTIVE_DEFAULTS.r),
   }),
   z.object({ mode: z.literal('manual'), value: z.number().int().min(SETTING_LIMITS.threshold.min).max(SETTING_LIMITS.threshold.max) }),
 ])

@@ -39,7 +39,7 @@ describe('settings', () => {
     // Settings stored before evening could be automatic still read as they were meant.
     expect(parseSettings({ lightingEvening: { enabled: true, strength: 0.7 } }).lightingEvening).toEqual({ mode: 'on', strength: 0.7 })
     expect(parseSettings({ lightingEvening: { enabled: false } }).lightingEvening).toEqual({ mode: 'off', strength: 1 })
-    expect(parseSettings({ threshold: { mode: 'adaptive' } }).threshold).toEqual({ mode: 'adaptive', windowMm: 8, k: 0.2 })
+    expect(parseSettings({ threshold: { mode: 'adaptive' } }).threshold).toEqual({ mode: 'adaptive', windowMm: 8, k: 0.2, r: 127.5 })
     expect(() => parseSettings({ dropoutColour: { mode: 'colours', colours: ['blue'] } })).toThrow()
     expect(() => parseSettings({ corners: { mode: 'manual', points: [{ x: 0, y: 0 }] } })).toThrow()
     expect(() => parseSettings({ threshold: { mode: 'manual', value: 300 } })).toThrow()
