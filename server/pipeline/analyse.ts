@@ -14,7 +14,7 @@ import type { CleanUpChoice } from '../../shared/types/pipeline'
 import type { PipelineSettings, ThresholdSetting } from '../../shared/utils/settings'
 import { ADAPTIVE_DEFAULTS } from '../../shared/utils/settings'
 import {
-  chroma, colourName, colourOfDensity, densities, densityDirection, densityGrey, estimatePaperColour, fromHex,
+  chroma, colourName, colourOfDensity, densityReader, densityDirection, densityGrey, estimatePaperColour, fromHex,
   hue, orthonormal, toHex, type PaperColour, type Rgb,
 } from './colour'
 import { findPieces, inkBox, type Box, type Piece } from './components'
@@ -28,7 +28,7 @@ import { sauvolaBitmap, windowPx } from './sauvola'
 import { findSheet, sheetFrame, type Quad } from './sheet'
 
 /** Long side of the shrunk copy the analysis works on, px. */
-export const ANALYSIS_SIDE = 1024
+export const ANALYSIS_SIDE = 800
 
 /** The paper is uneven when its darkest part is this much darker than its brightest. */
 export const UNEVEN_PAPER = 0.12
@@ -59,6 +59,8 @@ export interface AnalysisInput {
   widthMm: number
 }
 
+type DensityReader = ReturnType<typeof densityReader>
+
 export interface LightingChoice { on: boolean, strength: number }
 
 export interface Analysis {
@@ -86,6 +88,8 @@ export interface Analysis {
   choices: CleanUpChoice[]
   /** Facts for the checks that this is a drawing at all. */
   facts: DrawingFacts
+  /** Milliseconds spent in each step, for the benchmark. */
+  timings: Record<'sheet' | 'frame' | 'paper' | 'lines' | 'colours' | 'threshold' | 'pieces', number>
 }
 
 export interface DrawingFacts {
@@ -172,7 +176,7 @@ function lightingChoice(luma: Uint8Array, map: Uint8Array, w: number, h: number,
 }
 
 /** Median of each density channel over the pixels along a family's lines. */
-function lineDensity(d: Float32Array, w: number, h: number, f: LineFamily): Rgb {
+function lineDensity(d: DensityReader, w: number, h: number, f: LineFamily): Rgb {
   const vals: number[][] = [[], [], []]
   const horizontal = f.orientation === 'horizontal'
   const along = horizontal ? w : h, across = horizontal ? h : w
@@ -180,8 +184,8 @@ function lineDensity(d: Float32Array, w: number, h: number, f: LineFamily): Rgb 
     for (let a = 0; a < along; a += 2) {
       const c = Math.round(o + f.slope * a)
       if (c < 0 || c >= across) continue
-      const i = horizontal ? c * w + a : a * w + c
-      for (let k = 0; k < 3; k++) vals[k]!.push(d[i * 3 + k]!)
+      const v = d.at(horizontal ? c * w + a : a * w + c)
+      for (let k = 0; k < 3; k++) vals[k]!.push(v[k]!)
     }
   }
   return vals.map((v) => { v.sort((a, b) => a - b); return v.length ? v[v.length >> 1]! : 0 }) as Rgb
@@ -215,14 +219,15 @@ interface InkColours {
   lightShare: number
 }
 
-function inkColours(d: Float32Array, n: number, exclude: Uint8Array, paper: PaperColour): InkColours {
+function inkColours(d: DensityReader, n: number, exclude: Uint8Array, paper: PaperColour): InkColours {
   const bins = 12
   const count = new Array<number>(bins).fill(0)
   const sum = Array.from({ length: bins }, () => [0, 0, 0] as Rgb)
   let ink = 0, coloured = 0, light = 0
   for (let i = 0; i < n; i++) {
     if (exclude[i]) continue
-    const d0 = d[i * 3]!, d1 = d[i * 3 + 1]!, d2 = d[i * 3 + 2]!
+    const v = d.at(i)
+    const d0 = v[0]!, d1 = v[1]!, d2 = v[2]!
     const s = Math.max(d0, d1, d2)
     if (s < 0.35) continue
     ink++
@@ -428,9 +433,12 @@ function skewOf(q: Quad): number {
 export async function analyse(input: AnalysisInput): Promise<Analysis> {
   const s = input.settings
   const choices: CleanUpChoice[] = []
+  let last = performance.now()
+  const lap = () => { const now = performance.now(), d = now - last; last = now; return d }
   const luma0 = toGrey(input.rgb, input.width, input.height, 3, s.luma)
   const { frame, choice: cornersChoice } = frameFor(input, luma0)
   choices.push(cornersChoice)
+  const tSheet = lap()
 
   // The analysis frame: the frame at the analysis copy's scale.
   let rgb = input.rgb, w = input.width, h = input.height
@@ -444,6 +452,7 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
   }
   const n = w * h
   const luma = frame.identity ? luma0 : toGrey(rgb, w, h, 3, s.luma)
+  const tFrame = lap()
   const paper = estimatePaperColour(rgb, n, s.luma)
   const paperMap = await paperEstimate(luma, w, h)
 
@@ -451,11 +460,13 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
   choices.push({ setting: 'lightingEvening', automatic: s.lightingEvening.mode === 'auto', value: { mode: lighting.choice.on ? 'on' : 'off', strength: lighting.choice.strength }, reason: lighting.reason })
 
   // Darkness against the local paper, every colour counted: for finding lines and ink colours.
-  const d = densities(rgb, n, paper, paperMap)
+  const d = densityReader(rgb, paper, paperMap)
   const darkness = densityGrey(rgb, n, { paper, paperLuma: paperMap, dropped: [] })
   for (let i = 0; i < n; i++) darkness[i] = 255 - darkness[i]!
+  const tPaper = lap()
   const allLines = s.paperLines === 'keep' && s.dropoutColour.mode !== 'auto' ? [] : findPaperLines(darkness, w, h)
   const lines = allLines.filter((f) => f.regular)
+  const tLines = lap()
   const lineColours = allLines.map((f) => lineDensity(d, w, h, f))
   const colours = inkColours(d, n, lineMask(w, h, allLines), paper)
 
@@ -539,11 +550,12 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
     : evened > 0 ? evenWithMap(luma, paperMap, evened) : luma
   const facts = thresholdFacts(grey)
   const threshold = thresholdChoice(facts, s)
+  const tColours = lap()
   choices.push({ setting: 'threshold', automatic: s.threshold.mode === 'auto', value: threshold.value, reason: threshold.reason })
 
   // The analysis frame cleaned up as the full one will be.
   let pxPerMm = w / input.widthMm
-  if (input.widthOf === 'drawing') {
+  if (input.widthOf === 'drawing' && threshold.value.mode === 'adaptive') {
     // A first look at the drawing's extent with one level, for the adaptive window's size.
     const first = applyThreshold(grey, w, h, { mode: 'otsu' }, 1).bitmap
     if (s.swapInkAndPaper) for (let i = 0; i < n; i++) first[i] = 1 - first[i]!
@@ -553,6 +565,7 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
   const { bitmap } = applyThreshold(grey, w, h, threshold.value, pxPerMm)
   if (s.swapInkAndPaper) for (let i = 0; i < n; i++) bitmap[i] = 1 - bitmap[i]!
   if (removeFound) for (const f of lines) if (!f.dropped) removeLines(bitmap, w, h, f)
+  const tThreshold = lap()
   let inkPixels = 0
   for (let i = 0; i < n; i++) inkPixels += bitmap[i]!
   const found = findPieces(bitmap, w, h)
@@ -581,5 +594,6 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
       inkShare: inkPixels / n, midShare: facts.midShare, separability: facts.separability,
       pieces: pf.pieces, smallPieces: pf.small, smallInkShare: pf.smallInkShare, paperHueSpread,
     },
+    timings: { sheet: tSheet, frame: tFrame, paper: tPaper, lines: tLines, colours: tColours, threshold: tThreshold, pieces: lap() },
   }
 }

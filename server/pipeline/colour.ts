@@ -135,18 +135,24 @@ export function densityGrey(rgb: Uint8Array, n: number, o: DensityOptions): Uint
   return out
 }
 
-/** Per-pixel densities against the paper (no colour dropped), for analysing ink colours. */
-export function densities(rgb: Uint8Array, n: number, paper: PaperColour, paperLuma: Uint8Array | null): Float32Array {
-  const out = new Float32Array(n * 3)
+/**
+ * Densities against the paper (no colour dropped) of single pixels, for analysing ink
+ * colours: `at(i)` fills and returns the same 3-element buffer each time.
+ */
+export function densityReader(rgb: Uint8Array, paper: PaperColour, paperLuma: Uint8Array | null): { at(i: number): Float64Array } {
+  const out = new Float64Array(3)
   const lnRatio = paper.ratio.map((r) => Math.log(r)) as Rgb
   const lnMean = Math.log(paper.luma)
-  for (let i = 0, j = 0; i < n; i++, j += 3) {
-    const lp = paperLuma ? LN[paperLuma[i]!]! : lnMean
-    out[j] = lnRatio[0] + lp - LN[rgb[j]!]!
-    out[j + 1] = lnRatio[1] + lp - LN[rgb[j + 1]!]!
-    out[j + 2] = lnRatio[2] + lp - LN[rgb[j + 2]!]!
+  return {
+    at(i) {
+      const lp = paperLuma ? LN[paperLuma[i]!]! : lnMean
+      const j = i * 3
+      out[0] = lnRatio[0] + lp - LN[rgb[j]!]!
+      out[1] = lnRatio[1] + lp - LN[rgb[j + 1]!]!
+      out[2] = lnRatio[2] + lp - LN[rgb[j + 2]!]!
+      return out
+    },
   }
-  return out
 }
 
 /** How coloured a density vector is: 0 for grey ink (equal in every channel), towards 1 for one channel only. */

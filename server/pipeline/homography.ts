@@ -185,3 +185,36 @@ export function warpBilinear(
   }
   return out
 }
+
+/**
+ * warpBilinear for a one-channel image and a map that only scales and shifts each axis
+ * (x_in = sx · x_out + tx, likewise y): the same sampling, with the weights worked out once
+ * per column and per row.
+ */
+export function scaleBilinear(src: Uint8Array, sw: number, sh: number, outToIn: Mat3, dw: number, dh: number): Uint8Array {
+  const [sx, b, tx, d, sy, ty, g, h] = outToIn
+  if (b !== 0 || d !== 0 || g !== 0 || h !== 0) throw new RangeError('scaleBilinear takes a scale and a shift only.')
+  const axis = (n: number, s: number, t: number, size: number) => {
+    const i0 = new Int32Array(n), i1 = new Int32Array(n), f = new Float64Array(n)
+    for (let u = 0; u < n; u++) {
+      let x = s * (u + 0.5) + t - 0.5
+      if (x < 0) x = 0
+      if (x > size - 1) x = size - 1
+      const a = Math.floor(x)
+      i0[u] = a; i1[u] = Math.min(size - 1, a + 1); f[u] = x - a
+    }
+    return { i0, i1, f }
+  }
+  const X = axis(dw, sx, tx, sw), Y = axis(dh, sy, ty, sh)
+  const out = new Uint8Array(dw * dh)
+  for (let v = 0; v < dh; v++) {
+    const r0 = Y.i0[v]! * sw, r1 = Y.i1[v]! * sw, fy = Y.f[v]!
+    for (let u = 0; u < dw; u++) {
+      const a = X.i0[u]!, c = X.i1[u]!, fx = X.f[u]!
+      const top = src[r0 + a]! + (src[r0 + c]! - src[r0 + a]!) * fx
+      const bottom = src[r1 + a]! + (src[r1 + c]! - src[r1 + a]!) * fx
+      out[v * dw + u] = Math.round(top + (bottom - top) * fy)
+    }
+  }
+  return out
+}

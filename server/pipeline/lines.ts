@@ -23,6 +23,8 @@
 // crosses the line) or far beyond it on one side (a shape of the drawing lies along the line,
 // or a stroke ends on it).
 
+import { halveGrey } from './rawgrey'
+
 export type LineOrientation = 'horizontal' | 'vertical'
 
 export interface LineFamily {
@@ -60,19 +62,6 @@ function transpose(img: Uint8Array, width: number, height: number): Uint8Array {
   const out = new Uint8Array(width * height)
   for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) out[x * height + y] = img[y * width + x]!
   return out
-}
-
-/** Half-size copy (2 × 2 means), for the slope search. */
-function halve(img: Uint8Array, width: number, height: number): { img: Uint8Array, width: number, height: number } {
-  const w = width >> 1, h = height >> 1
-  const out = new Uint8Array(w * h)
-  for (let y = 0; y < h; y++) {
-    for (let x = 0; x < w; x++) {
-      const i = 2 * y * width + 2 * x
-      out[y * w + x] = (img[i]! + img[i + 1]! + img[i + width]! + img[i + width + 1]! + 2) >> 2
-    }
-  }
-  return { img: out, width: w, height: h }
 }
 
 /** Mean darkness along rows of the given slope; index r is the line through (0, r − pad). */
@@ -123,8 +112,8 @@ function slopeScore(img: Uint8Array, width: number, height: number, slope: numbe
 
 function bestSlope(img: Uint8Array, width: number, height: number): number {
   // Coarse on a quarter-size copy, fine on a half-size one.
-  const half = halve(img, width, height)
-  const quarter = halve(half.img, half.width, half.height)
+  const half = halveGrey(img, width, height)
+  const quarter = halveGrey(half.img, half.width, half.height)
   const maxPad = Math.ceil(Math.tan((3.5 * Math.PI) / 180) * half.width) + 1
   const sum = new Int32Array(half.height + 2 * maxPad + 1)
   const cnt = new Int32Array(half.height + 2 * maxPad + 2)

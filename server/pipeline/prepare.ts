@@ -9,12 +9,12 @@
 // (Otsu, adaptive or manual) → swap ink and paper → paper lines taken out → trimmed to the
 // drawing's ink plus the margin (prepareDrawing) or kept whole (prepareBitmap).
 //
-// The working grid is made before the per-pixel steps, so they all run at the prepared
-// resolution, not the photo's. Where the frame is the source itself and ink is read by luma,
-// the grey image is made as it always was: luma at full size, then resampled (Lanczos-3 when
-// shrinking, cubic when enlarging), so a clean scan comes out exactly as before. Otherwise the
-// colour source is resampled by libvips close to the working scale first, and the frame is
-// read from it by bilinear interpolation through the straightening homography.
+// The source is read by libvips twice, each time straight at the size needed (shrink-on-load
+// for JPEG): once shrunk for the analysis, once at the working grid, so every per-pixel step
+// runs at the prepared resolution, never the photo's. Colour is resampled before grey (luma is
+// linear in R′G′B′, so this equals resampling the grey image, up to rounding). Where the sheet
+// is straightened or turned, the source is read near the working scale and the frame is taken
+// from it by bilinear interpolation through the homography.
 import sharp, { type Metadata, type OutputInfo } from 'sharp'
 import type { CleanUpChoice } from '../../shared/types/pipeline'
 import { preparedSize, type PreparedSize } from '../../shared/utils/units'
@@ -23,11 +23,10 @@ import { densityGrey } from './colour'
 import { findPieces, inkBox } from './components'
 import { NotADrawingError, PrepareError } from './errors'
 import { sourceBox } from './frame'
-import { multiply, scaling, translation, warpBilinear } from './homography'
+import { multiply, scaleBilinear, scaling, translation, warpBilinear } from './homography'
 import { mapFamily, removeLines } from './lines'
 import { toGrey } from './luma'
 import { histogram as makeHistogram } from './otsu'
-import { resizeGrey } from './rawgrey'
 import { parseSettings, type PipelineSettings, type PipelineSettingsInput } from '../../shared/utils/settings'
 
 export interface PrepareOptions {
@@ -44,10 +43,12 @@ export interface PrepareOptions {
 }
 
 export interface PrepareTimings {
+  /** Reading the shrunk copy the analysis works on. */
   decodeMs: number
-  /** The automatic clean-up's analysis of the shrunk copy. */
+  /** The automatic clean-up's analysis of the shrunk copy (its steps in analysisSteps). */
   analysisMs: number
-  /** Resampling (and straightening) to the working grid, and grey. */
+  analysisSteps: Analysis['timings']
+  /** Reading the source at the working scale (and straightening it), and grey. */
   gridMs: number
   eveningMs: number
   thresholdMs: number
@@ -91,28 +92,41 @@ export async function bitmapToPng(bitmap: Uint8Array, width: number, height: num
   return (fast ? img.png({ compressionLevel: 1, adaptiveFiltering: false }) : img.png({ palette: true, colours: 2, dither: 0, compressionLevel: 9 })).toBuffer()
 }
 
-interface Raw { data: Buffer, width: number, height: number, channels: 3 | 4 }
 interface Rect { left: number, top: number, width: number, height: number }
 
-/** R′G′B′ (alpha flattened onto white) of a region of the raw source, resampled to toW × toH. */
-async function rgbOf(raw: Raw, region: Rect | null, toW: number, toH: number): Promise<Uint8Array> {
-  let img = sharp(raw.data, { raw: { width: raw.width, height: raw.height, channels: raw.channels } })
-  if (raw.channels === 4) img = img.flatten({ background: '#ffffff' })
-  const w = region ? region.width : raw.width, h = region ? region.height : raw.height
-  if (region && (region.width !== raw.width || region.height !== raw.height)) img = img.extract(region)
-  if (toW !== w || toH !== h) img = img.resize(toW, toH, { fit: 'fill', kernel: toW * toH < w * h ? 'lanczos3' : 'cubic' })
-  const { data, info } = await img.toColourspace('srgb').removeAlpha().raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
-  if (info.channels !== 3 || info.width !== toW || info.height !== toH) {
-    throw new Error(`Expected a ${toW} × ${toH} colour image, got ${info.width} × ${info.height} × ${info.channels}.`)
-  }
-  return asU8(data)
+/** Reads the upright source (cropped by the settings) through sharp, as often as needed. */
+interface SourceReader {
+  /**
+   * R′G′B′ (alpha flattened onto white) of a region of the upright, cropped source (whole
+   * when null), resampled to toW × toH: Lanczos-3 when shrinking, cubic when enlarging. JPEG
+   * sources are decoded at a reduced size when that is enough (libvips' shrink-on-load), so
+   * no full-size copy of a large photo is ever held.
+   */
+  rgb(region: Rect | null, toW: number, toH: number): Promise<Uint8Array>
 }
 
-function cropGrey(grey: Uint8Array, width: number, r: Rect): Uint8Array {
-  if (r.left === 0 && r.top === 0 && r.width === width) return grey.subarray(0, r.width * r.height)
-  const out = new Uint8Array(r.width * r.height)
-  for (let y = 0; y < r.height; y++) out.set(grey.subarray((r.top + y) * width + r.left, (r.top + y) * width + r.left + r.width), y * r.width)
-  return out
+function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number): SourceReader {
+  return {
+    async rgb(region, toW, toH) {
+      const r = region ?? { left: 0, top: 0, width, height }
+      let img = sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
+      if (crop || r.width !== width || r.height !== height) {
+        img = img.extract({ left: r.left + (crop?.left ?? 0), top: r.top + (crop?.top ?? 0), width: r.width, height: r.height })
+      }
+      img = img.flatten({ background: '#ffffff' })
+      if (toW !== r.width || toH !== r.height) img = img.resize(toW, toH, { fit: 'fill', kernel: toW * toH < r.width * r.height ? 'lanczos3' : 'cubic' })
+      let out: { data: Buffer, info: OutputInfo }
+      try {
+        out = await img.toColourspace('srgb').removeAlpha().raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
+      } catch (e) {
+        throw new PrepareError('The image could not be decoded.', { cause: e })
+      }
+      if (out.info.channels !== 3 || out.info.width !== toW || out.info.height !== toH) {
+        throw new PrepareError(`Expected a ${toW} × ${toH} colour image, got ${out.info.width} × ${out.info.height} × ${out.info.channels}.`)
+      }
+      return asU8(out.data)
+    },
+  }
 }
 
 /** The bitmap cut to box (inclusive) with `margin` pixels of paper around it. */
@@ -201,7 +215,6 @@ async function prepare(
   const orientedHeight = meta.autoOrient?.height ?? meta.height
   if (!orientedWidth || !orientedHeight) throw new PrepareError('The image has no pixel size.')
 
-  let img = sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
   let srcW = orientedWidth
   let srcH = orientedHeight
   const crop = settings.crop
@@ -211,32 +224,21 @@ async function prepare(
         `The crop rectangle (${crop.x}, ${crop.y}, ${crop.width} × ${crop.height}) lies outside the upright source of ${orientedWidth} × ${orientedHeight} pixels.`,
       )
     }
-    img = img.extract({ left: crop.x, top: crop.y, width: crop.width, height: crop.height })
     srcW = crop.width
     srcH = crop.height
   }
   if (widthOf === 'drawing' && (srcW < MIN_SIDE_PX || srcH < MIN_SIDE_PX)) {
     throw new NotADrawingError('too-small', `The image is only ${srcW} × ${srcH} pixels: too small to hold a drawing. Upload a scan or photo of the drawing itself.`)
   }
-  let decoded: { data: Buffer, info: OutputInfo }
-  try {
-    decoded = await img.toColourspace('srgb').raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
-  } catch (e) {
-    throw new PrepareError('The image could not be decoded.', { cause: e })
-  }
-  const t1 = performance.now()
-  if (decoded.info.width !== srcW || decoded.info.height !== srcH) {
-    throw new PrepareError(`Decoded size ${decoded.info.width} × ${decoded.info.height} differs from the expected ${srcW} × ${srcH}.`)
-  }
-  const channels = decoded.info.channels
-  if (channels !== 3 && channels !== 4) throw new PrepareError(`Unexpected channel count ${channels}.`)
-  const raw: Raw = { data: decoded.data, width: srcW, height: srcH, channels }
+  const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH)
 
   // The analysis, on a shrunk copy.
   const aScale = Math.min(1, ANALYSIS_SIDE / Math.max(srcW, srcH))
   const aw = Math.max(1, Math.round(srcW * aScale)), ah = Math.max(1, Math.round(srcH * aScale))
+  const small = await source.rgb(null, aw, ah)
+  const t1 = performance.now()
   const analysis = await analyse({
-    rgb: await rgbOf(raw, null, aw, ah), width: aw, height: ah, scale: aw / srcW,
+    rgb: small, width: aw, height: ah, scale: aw / srcW,
     sourceWidth: srcW, sourceHeight: srcH,
     principal: { x: orientedWidth / 2 - (crop?.x ?? 0), y: orientedHeight / 2 - (crop?.y ?? 0) },
     photoLongSide: Math.max(orientedWidth, orientedHeight),
@@ -278,11 +280,8 @@ async function prepare(
   let rgb: Uint8Array | null = null
   const density = analysis.reading === 'density'
   if (frame.identity) {
-    if (density) rgb = await rgbOf(raw, region, workW, workH)
-    else {
-      const full = toGrey(asU8(raw.data), srcW, srcH, channels, settings.luma)
-      grey = await resizeGrey(cropGrey(full, srcW, region), region.width, region.height, workW, workH)
-    }
+    rgb = await source.rgb(region, workW, workH)
+    if (!density) grey = toGrey(rgb, workW, workH, 3, settings.luma)
   } else {
     const b = sourceBox(frame, region.left, region.top, region.left + region.width, region.top + region.height)
     const sx0 = Math.max(0, Math.floor(b.x0) - 2), sy0 = Math.max(0, Math.floor(b.y0) - 2)
@@ -292,10 +291,12 @@ async function prepare(
     // then read the frame from it bilinearly.
     const si = Math.min(1, workW / region.width)
     const iw = Math.max(1, Math.round(sRect.width * si)), ih = Math.max(1, Math.round(sRect.height * si))
-    const small = await rgbOf(raw, sRect, iw, ih)
+    const near = await source.rgb(sRect, iw, ih)
     const outToIn = multiply(scaling(iw / sRect.width, ih / sRect.height), multiply(translation(-sx0, -sy0), multiply(frame.toSource, workToFrame)))
-    rgb = warpBilinear(small, iw, ih, 3, outToIn, workW, workH, analysis.paper.rgb.map(Math.round))
-    if (!density) grey = toGrey(rgb, workW, workH, 3, settings.luma)
+    const fill = analysis.paper.rgb.map(Math.round)
+    // Luma is linear in R′G′B′: take it first and straighten one channel instead of three.
+    if (density) rgb = warpBilinear(near, iw, ih, 3, outToIn, workW, workH, fill)
+    else grey = warpBilinear(toGrey(near, iw, ih, 3, settings.luma), iw, ih, 1, outToIn, workW, workH, [Math.round(analysis.paper.luma)])
   }
   const t3 = performance.now()
 
@@ -305,7 +306,7 @@ async function prepare(
   let paperLuma: Uint8Array | null = null
   if (evening > 0) {
     const toAnalysis = multiply(scaling(analysis.width / frame.width, analysis.height / frame.height), workToFrame)
-    paperLuma = warpBilinear(analysis.paperMap, analysis.width, analysis.height, 1, toAnalysis, workW, workH, [255])
+    paperLuma = scaleBilinear(analysis.paperMap, analysis.width, analysis.height, toAnalysis, workW, workH)
   }
   if (density) grey = densityGrey(rgb!, n, { paper: analysis.paper, paperLuma, dropped: analysis.dropped, strength: evening })
   else if (paperLuma) grey = evenWithMap(grey!, paperLuma, evening)
@@ -347,7 +348,7 @@ async function prepare(
     settings,
     choices: analysis.choices,
     timings: {
-      decodeMs: t1 - t0, analysisMs: t2 - t1, gridMs: t3 - t2, eveningMs: t4 - t3,
+      decodeMs: t1 - t0, analysisMs: t2 - t1, analysisSteps: analysis.timings, gridMs: t3 - t2, eveningMs: t4 - t3,
       thresholdMs: t5 - t4, pngMs: t6 - t5, totalMs: t6 - t0,
     },
   }

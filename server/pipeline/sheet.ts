@@ -1,9 +1,9 @@
 // The sheet of paper in a photo: its four corners, and the rectangle it really is.
 //
 // Finding the corners (on a shrunk copy's luma):
-//  1. a light blur, then Otsu's threshold: the sheet is the largest light piece, at least a
-//     sixth of the picture, and it must not fill the picture (then there are no corners to
-//     see: a scan, or a close-up);
+//  1. on a half-size copy, Otsu's threshold: the sheet is the largest light piece, grown into
+//     its softly shadowed parts, at least a sixth of the picture, and it must not fill the
+//     picture (then there are no corners to see: a scan, or a close-up);
 //  2. its convex hull (so a drawing on the sheet, or a shadow biting into one edge, does not
 //     matter), and the four hull points enclosing the largest quadrilateral;
 //  3. each side refined to sub-pixel accuracy: along lines across the coarse side, the place
@@ -22,28 +22,9 @@
 import { apply, homographyFromPoints, multiply, translation, type Mat3, type Pt } from './homography'
 import { findPieces } from './components'
 import { histogram, otsuThreshold } from './otsu'
+import { halveGrey } from './rawgrey'
 
 export type Quad = [Pt, Pt, Pt, Pt]
-
-function boxBlur(img: Uint8Array, w: number, h: number, r: number): Uint8Array {
-  const tmp = new Float32Array(w * h)
-  const out = new Uint8Array(w * h)
-  for (let y = 0; y < h; y++) {
-    for (let x = 0; x < w; x++) {
-      let s = 0, n = 0
-      for (let k = Math.max(0, x - r); k <= Math.min(w - 1, x + r); k++) { s += img[y * w + k]!; n++ }
-      tmp[y * w + x] = s / n
-    }
-  }
-  for (let x = 0; x < w; x++) {
-    for (let y = 0; y < h; y++) {
-      let s = 0, n = 0
-      for (let k = Math.max(0, y - r); k <= Math.min(h - 1, y + r); k++) { s += tmp[k * w + x]!; n++ }
-      out[y * w + x] = Math.round(s / n)
-    }
-  }
-  return out
-}
 
 function cross(o: Pt, a: Pt, b: Pt): number {
   return (a.x - o.x) * (b.y - o.y) - (a.y - o.y) * (b.x - o.x)
@@ -162,14 +143,18 @@ function growSoftly(img: Uint8Array, w: number, h: number, labels: Int32Array, i
   const queue = new Int32Array(w * h)
   let head = 0, tail = 0
   for (let i = 0; i < labels.length; i++) if (labels[i] === id) queue[tail++] = i
+  const visit = (j: number, v: number) => {
+    if (labels[j] === id) return
+    const u = img[j]!
+    if (u >= floor && u - v <= step && v - u <= step) { labels[j] = id; queue[tail++] = j }
+  }
   while (head < tail) {
     const i = queue[head++]!
     const x = i % w, v = img[i]!
-    const next = [x > 0 ? i - 1 : -1, x < w - 1 ? i + 1 : -1, i >= w ? i - w : -1, i < w * (h - 1) ? i + w : -1]
-    for (const j of next) {
-      if (j < 0 || labels[j] === id) continue
-      if (img[j]! >= floor && Math.abs(img[j]! - v) <= step) { labels[j] = id; queue[tail++] = j }
-    }
+    if (x > 0) visit(i - 1, v)
+    if (x < w - 1) visit(i + 1, v)
+    if (i >= w) visit(i - w, v)
+    if (i < w * (h - 1)) visit(i + w, v)
   }
 }
 
@@ -237,10 +222,14 @@ export interface SheetFound {
   coverage: number
 }
 
-/** The sheet's corners in a luma image, or null when no sheet with four visible corners is seen. */
-export function findSheet(luma: Uint8Array, w: number, h: number): SheetFound | null {
-  if (w < 32 || h < 32) return null
-  const smooth = boxBlur(luma, w, h, 1)
+/**
+ * The sheet's corners in a luma image, or null when no sheet with four visible corners is
+ * seen. The sheet's piece and hull are found on a half-size copy (fast, and its averaging
+ * calms noise); the sides are placed on the image itself.
+ */
+export function findSheet(luma: Uint8Array, fullW: number, fullH: number): SheetFound | null {
+  if (fullW < 64 || fullH < 64) return null
+  const { img: smooth, width: w, height: h } = halveGrey(luma, fullW, fullH)
   const t = otsuThreshold(histogram(smooth))
   const light = new Uint8Array(w * h)
   for (let i = 0; i < light.length; i++) light[i] = smooth[i]! > t ? 1 : 0
@@ -260,36 +249,32 @@ export function findSheet(luma: Uint8Array, w: number, h: number): SheetFound | 
   for (let x = 0; x < w; x++) { if (labels[x] === id + 1) touching++; if (labels[(h - 1) * w + x] === id + 1) touching++ }
   for (let y = 0; y < h; y++) { if (labels[y * w] === id + 1) touching++; if (labels[y * w + w - 1] === id + 1) touching++ }
   if (touching > 0.02 * 2 * (w + h)) return null
-  // Outer boundary pixels (their corners) → hull
+  // The hull needs only the outermost pixels of each row (their outer corners).
   const pts: Pt[] = []
   for (let y = 0; y < h; y++) {
-    for (let x = 0; x < w; x++) {
-      const i = y * w + x
-      if (labels[i] !== id + 1) continue
-      const edge = x === 0 || y === 0 || x === w - 1 || y === h - 1
-        || labels[i - 1] !== id + 1 || labels[i + 1] !== id + 1 || labels[i - w] !== id + 1 || labels[i + w] !== id + 1
-      if (edge) { pts.push({ x, y }, { x: x + 1, y }, { x, y: y + 1 }, { x: x + 1, y: y + 1 }) }
-    }
+    let first = -1, last = -1
+    for (let x = 0; x < w; x++) if (labels[y * w + x] === id + 1) { if (first < 0) first = x; last = x }
+    if (first >= 0) pts.push({ x: first, y }, { x: first, y: y + 1 }, { x: last + 1, y }, { x: last + 1, y: y + 1 })
   }
-  const hull = convexHull(pts)
+  const hull = convexHull(pts).map((p) => ({ x: 2 * p.x, y: 2 * p.y }))
   if (hull.length < 4) return null
   const hullArea = polygonArea(hull)
   const quadIx = largestQuad(hull)
   const coarse = quadIx.map((i) => hull[i]!)
   if (polygonArea(coarse) < 0.9 * hullArea) return null
   const centre = { x: coarse.reduce((s, p) => s + p.x, 0) / 4, y: coarse.reduce((s, p) => s + p.y, 0) / 4 }
-  const lines = coarse.map((p, i) => fitLine(edgePoints(smooth, w, h, p, coarse[(i + 1) % 4]!, centre)))
+  const lines = coarse.map((p, i) => fitLine(edgePoints(luma, fullW, fullH, p, coarse[(i + 1) % 4]!, centre)))
   const refined: Pt[] = []
   for (let i = 0; i < 4; i++) {
     const a = lines[(i + 3) % 4], b = lines[i]
     const p = a && b ? intersect(a, b) : null
-    refined.push(p && Math.hypot(p.x - coarse[i]!.x, p.y - coarse[i]!.y) < 0.05 * Math.max(w, h) ? p : coarse[i]!)
+    refined.push(p && Math.hypot(p.x - coarse[i]!.x, p.y - coarse[i]!.y) < 0.05 * Math.max(fullW, fullH) ? p : coarse[i]!)
   }
   const angles = interiorAngles(refined)
   if (angles.some((a) => a < 35 || a > 145)) return null
-  if (refined.some((p) => p.x < -1 || p.y < -1 || p.x > w + 1 || p.y > h + 1)) return null
-  if (looksLikeDrawnFrame(smooth, w, h, refined, labels, id + 1)) return null
-  return { corners: orderCorners(refined), coverage: polygonArea(refined) / (w * h) }
+  if (refined.some((p) => p.x < -1 || p.y < -1 || p.x > fullW + 1 || p.y > fullH + 1)) return null
+  if (looksLikeDrawnFrame(smooth, w, h, refined.map((p) => ({ x: p.x / 2, y: p.y / 2 })), labels, id + 1)) return null
+  return { corners: orderCorners(refined), coverage: polygonArea(refined) / (fullW * fullH) }
 }
 
 function insideConvex(q: readonly Pt[], x: number, y: number): boolean {
