@@ -15,6 +15,7 @@ import { traceBitmap } from '../server/pipeline/trace'
 import { buildPipelineWorker, PIPELINE_WORKER_FILE } from './lib/pipeline-worker-build'
 import type { WorkerAnswer } from '../server/pipeline/worker'
 import { benchBrowserRoundTrip } from './lib/bench-browser'
+import { benchCleanup } from './lib/bench-cleanup'
 
 const RUNS = Number(process.env.BENCH_RUNS ?? 5)
 const WIDTH_MM = 150
@@ -161,6 +162,8 @@ async function main() {
   console.log(`  longest event-loop pause: ${(delay.max / 1e6).toFixed(1)} ms (histogram), ${longest.toFixed(1)} ms (timer gap) (target ≤ 50 ms)`)
   console.log(`  peak memory (RSS, this process and its worker threads): ${(peak / 1024 / 1024).toFixed(0)} MB (target ≤ 700 MB); ${(baseline / 1024 / 1024).toFixed(0)} MB of it was there before (the benchmark's own photos and earlier runs)`)
   await pool.destroy()
+
+  await benchCleanup(RUNS)
 
   // The tuning bench, end to end in a real browser (skip with BENCH_BROWSER=0).
   if (process.env.BENCH_BROWSER !== '0') {
