@@ -448,7 +448,8 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
     h = Math.max(1, Math.round(frame.height * scale))
     const outToIn = multiply(scaling(scale), multiply(frame.toSource, scaling((frame.width / w), (frame.height / h))))
     const paperGuess = estimatePaperColour(input.rgb, input.width * input.height, s.luma)
-    rgb = warpBilinear(input.rgb, input.width, input.height, 3, outToIn, w, h, paperGuess.rgb.map(Math.round))
+    const toBase = multiply(frame.base.toBase, scaling(frame.width / w, frame.height / h))
+    rgb = warpBilinear(input.rgb, input.width, input.height, 3, outToIn, w, h, paperGuess.rgb.map(Math.round), { map: toBase, width: frame.base.width, height: frame.base.height })
   }
   const n = w * h
   const luma = frame.identity ? luma0 : toGrey(rgb, w, h, 3, s.luma)

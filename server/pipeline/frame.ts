@@ -12,11 +12,16 @@ export interface Frame {
   toSource: Mat3
   /** True when the frame is the source as it is (no straightening, no turn). */
   identity: boolean
+  /**
+   * The frame before turning (the source, or the cut-out sheet): frame pixel → its pixel,
+   * and its size. Points of the frame outside it are paper.
+   */
+  base: { toBase: Mat3, width: number, height: number }
 }
 
 export function turnFrame(base: { width: number, height: number, toSource: Mat3 }, quarterTurns: number, fineAngleDeg: number): Frame {
   const deg = ((quarterTurns % 4) + 4) % 4 * 90 + fineAngleDeg
-  if (deg === 0) return { ...base, identity: isIdentity(base.toSource) }
+  if (deg === 0) return { ...base, identity: isIdentity(base.toSource), base: { toBase: IDENTITY, width: base.width, height: base.height } }
   const { width: w, height: h } = base
   const t = (deg * Math.PI) / 180
   const c = Math.abs(Math.cos(t)), s = Math.abs(Math.sin(t))
@@ -26,11 +31,12 @@ export function turnFrame(base: { width: number, height: number, toSource: Mat3 
   const height = exact ? (quarterTurns % 2 ? w : h) : Math.max(1, Math.round(w * s + h * c))
   // base → turned: move the centre to the origin, turn, move to the new centre
   const forward = multiply(translation(width / 2, height / 2), multiply(rotation(deg), translation(-w / 2, -h / 2)))
-  return { width, height, toSource: multiply(base.toSource, invert(forward)), identity: false }
+  const back = invert(forward)
+  return { width, height, toSource: multiply(base.toSource, back), identity: false, base: { toBase: back, width: w, height: h } }
 }
 
 export function sourceFrame(width: number, height: number): Frame {
-  return { width, height, toSource: IDENTITY, identity: true }
+  return { width, height, toSource: IDENTITY, identity: true, base: { toBase: IDENTITY, width, height } }
 }
 
 export function fromSheet(sheet: SheetFrame): { width: number, height: number, toSource: Mat3 } {

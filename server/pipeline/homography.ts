@@ -147,15 +147,18 @@ export function isIdentity(m: Mat3, tolerance = 1e-12): boolean {
  * centre (u + ½, v + ½) is mapped by `outToIn` into the input, which is read there by
  * bilinear interpolation between the four nearest pixel centres. Points outside the input
  * take `fill` (one value per channel); within half a pixel of its edge the edge pixel is
- * repeated.
+ * repeated. With `within`, output points that this other map does not take into its
+ * width × height rectangle take `fill` too (the corners a turn of a cut-out sheet uncovers).
  */
 export function warpBilinear(
   src: Uint8Array, sw: number, sh: number, channels: number,
   outToIn: Mat3, dw: number, dh: number, fill: readonly number[],
+  within?: { map: Mat3, width: number, height: number },
 ): Uint8Array {
   const out = new Uint8Array(dw * dh * channels)
   const [a, b, c, d, e, f, g, h, i] = outToIn
   const affine = g === 0 && h === 0
+  const W = within?.map
   for (let v = 0; v < dh; v++) {
     const yc = v + 0.5
     for (let u = 0; u < dw; u++) {
@@ -165,7 +168,13 @@ export function warpBilinear(
       const x = (a * xc + b * yc + c) / w - 0.5
       const y = (d * xc + e * yc + f) / w - 0.5
       const o = (v * dw + u) * channels
-      if (!(x > -1 && y > -1 && x < sw && y < sh)) {
+      let outside = !(x > -1 && y > -1 && x < sw && y < sh)
+      if (W && !outside) {
+        const ww = W[6] * xc + W[7] * yc + W[8]
+        const bx = (W[0] * xc + W[1] * yc + W[2]) / ww, by = (W[3] * xc + W[4] * yc + W[5]) / ww
+        outside = !(bx >= 0 && by >= 0 && bx <= within!.width && by <= within!.height)
+      }
+      if (outside) {
         for (let k = 0; k < channels; k++) out[o + k] = fill[k]!
         continue
       }

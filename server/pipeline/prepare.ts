@@ -294,9 +294,10 @@ async function prepare(
     const near = await source.rgb(sRect, iw, ih)
     const outToIn = multiply(scaling(iw / sRect.width, ih / sRect.height), multiply(translation(-sx0, -sy0), multiply(frame.toSource, workToFrame)))
     const fill = analysis.paper.rgb.map(Math.round)
+    const within = { map: multiply(frame.base.toBase, workToFrame), width: frame.base.width, height: frame.base.height }
     // Luma is linear in R′G′B′: take it first and straighten one channel instead of three.
-    if (density) rgb = warpBilinear(near, iw, ih, 3, outToIn, workW, workH, fill)
-    else grey = warpBilinear(toGrey(near, iw, ih, 3, settings.luma), iw, ih, 1, outToIn, workW, workH, [Math.round(analysis.paper.luma)])
+    if (density) rgb = warpBilinear(near, iw, ih, 3, outToIn, workW, workH, fill, within)
+    else grey = warpBilinear(toGrey(near, iw, ih, 3, settings.luma), iw, ih, 1, outToIn, workW, workH, [Math.round(analysis.paper.luma)], within)
   }
   const t3 = performance.now()
 
