@@ -94,6 +94,10 @@ export interface Analysis {
 
 export interface DrawingFacts {
   inkShare: number
+  /** Grey levels between the paper and the darkest strokes (Otsu's classes); little means no ink at all. */
+  contrastLevels: number
+  /** Mean grey level of the reading. */
+  meanGrey: number
   /** Share of pixels between ink and paper (neither): high in photographs of scenes. */
   midShare: number
   /** Otsu's separability η = σ_B² / σ_T² of the grey reading. */
@@ -291,6 +295,7 @@ export interface ThresholdFacts {
   contrast: number
   /** Share of pixels between the two class means' quarter points. */
   midShare: number
+  mean: number
 }
 
 export function thresholdFacts(grey: Uint8Array): ThresholdFacts {
@@ -313,7 +318,7 @@ export function thresholdFacts(grey: Uint8Array): ThresholdFacts {
   for (let v = Math.ceil(lo); v <= Math.floor(hi); v++) mid += h[v]!
   return {
     otsu: t, separability: varT > 0 ? varB / varT : 1,
-    paperLevel: mu1, inkCore, contrast: mu1 > 0 ? (mu1 - inkCore) / mu1 : 0, midShare: n ? mid / n : 0,
+    paperLevel: mu1, inkCore, contrast: mu1 > 0 ? (mu1 - inkCore) / mu1 : 0, midShare: n ? mid / n : 0, mean: mu,
   }
 }
 
@@ -401,9 +406,11 @@ function frameFor(input: AnalysisInput, luma: Uint8Array): { frame: Frame, choic
   } else {
     const found = findSheet(luma, input.width, input.height)
     if (found) {
-      const q = found.corners.map((p) => ({ x: p.x / input.scale, y: p.y / input.scale })) as Quad
+      // Rounded to a tenth of a pixel as reported, so pinning the reported corners gives the same result.
+      const points = onWhole(found.corners.map((p) => ({ x: p.x / input.scale, y: p.y / input.scale })) as Quad)
+        .map((p) => ({ x: Math.round(p.x * 10) / 10, y: Math.round(p.y * 10) / 10 })) as Quad
+      const q = points.map((p) => ({ x: p.x - input.cropOffset.x, y: p.y - input.cropOffset.y })) as Quad
       base = straighten(q)
-      const points = onWhole(q).map((p) => ({ x: Math.round(p.x * 10) / 10, y: Math.round(p.y * 10) / 10 })) as Quad
       const angled = skewOf(q)
       choice = {
         setting: 'corners', automatic: true, value: { mode: 'manual', points },
@@ -515,10 +522,9 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
       if (!dir) continue
       // Not when the ink itself is that colour.
       if (colours.directions.some((u) => u[0] * dir[0] + u[1] * dir[1] + u[2] * dir[2] > 0.93)) continue
-      if (candidates.some((c) => c.dir[0] * dir[0] + c.dir[1] * dir[1] + c.dir[2] * dir[2] > 0.97)) { allLines[i]!.dropped = true; continue }
+      if (candidates.some((c) => c.dir[0] * dir[0] + c.dir[1] * dir[1] + c.dir[2] * dir[2] > 0.97)) continue
       if (!keeps([...candidates.map((c) => c.dir), dir])) continue
       candidates.push({ colour, dir, name: colourName(colour) })
-      allLines[i]!.dropped = true
     }
     droppedColours = candidates.map((c) => c.colour)
     choices.push(candidates.length
@@ -530,7 +536,13 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
   } else {
     choices.push({ setting: 'dropoutColour', automatic: false, value: s.dropoutColour, reason: 'No colour is dropped, as set.' })
   }
-  const dropped = orthonormal(droppedColours.map((c) => densityDirection(c, paper)).filter((v): v is Rgb => v !== null))
+  const droppedDirs = droppedColours.map((c) => densityDirection(c, paper)).filter((v): v is Rgb => v !== null)
+  const dropped = orthonormal(droppedDirs)
+  // Lines of a dropped colour are gone from the grey reading: nothing left to take out by shape.
+  allLines.forEach((f, i) => {
+    const dir = densityDirection(colourOfDensity(lineColours[i]!, paper), paper)
+    f.dropped = !!dir && droppedDirs.some((u) => u[0] * dir[0] + u[1] * dir[1] + u[2] * dir[2] > 0.97)
+  })
 
   // Paper lines
   const removeFound = s.paperLines === 'remove' || (s.paperLines === 'auto' && lines.length > 0)
@@ -592,7 +604,7 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
     lighting: lighting.choice, reading: useDensity ? 'density' : 'luma', dropped, lines, removeLines: removeFound,
     threshold: threshold.value, ink, pxPerMm, choices,
     facts: {
-      inkShare: inkPixels / n, midShare: facts.midShare, separability: facts.separability,
+      inkShare: inkPixels / n, contrastLevels: facts.paperLevel - facts.inkCore, meanGrey: facts.mean, midShare: facts.midShare, separability: facts.separability,
       pieces: pf.pieces, smallPieces: pf.small, smallInkShare: pf.smallInkShare, paperHueSpread,
     },
     timings: { sheet: tSheet, frame: tFrame, paper: tPaper, lines: tLines, colours: tColours, threshold: tThreshold, pieces: lap() },

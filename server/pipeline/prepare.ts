@@ -141,6 +141,7 @@ function trimBitmap(bm: Uint8Array, width: number, box: { x0: number, y0: number
 }
 
 const MIN_SIDE_PX = 8
+const ALL_INK = 'Nearly the whole picture reads as ink, so there is no paper to cut the shapes from. If the drawing is light on a dark background, swap ink and paper; if the photo is dark, take it again in better light.'
 
 /**
  * Refuse what cannot become a decal, saying plainly what is wrong and what to do. Facts come
@@ -152,12 +153,14 @@ const MIN_SIDE_PX = 8
  */
 export function checkDrawing(a: Analysis, smallPieceMm2: number): void {
   const f = a.facts
-  if (!a.ink) {
+  // Barely two grey levels apart: noise split in two, not ink on paper.
+  if (f.contrastLevels < 16 && f.meanGrey < 100) {
+    throw new NotADrawingError('all-ink', ALL_INK)
+  }
+  if (!a.ink || f.contrastLevels < 16) {
     throw new NotADrawingError('blank', 'No drawing was found: the picture reads as blank paper. Check that it shows the drawing, in focus and in good light; a very faint pencil drawing can be gone over with a darker pen first.')
   }
-  if (f.inkShare > 0.97) {
-    throw new NotADrawingError('all-ink', 'Nearly the whole picture reads as ink, so there is no paper to cut the shapes from. If the drawing is light on a dark background, swap ink and paper; if the photo is dark, take it again in better light.')
-  }
+  if (f.inkShare > 0.97) throw new NotADrawingError('all-ink', ALL_INK)
   if (f.paperHueSpread > 0.15 && (f.midShare > 0.03 || f.inkShare > 0.4)) {
     throw new NotADrawingError('scene', 'This looks like a photograph of a scene, not a drawing: there is no plain paper around clear ink (what would be paper comes in many colours). Draw the design on plain paper with a dark pen, and upload a photo or scan of that.')
   }
