@@ -223,13 +223,16 @@ interface InkColours {
   lightShare: number
 }
 
-function inkColours(d: DensityReader, n: number, exclude: Uint8Array, paper: PaperColour): InkColours {
+/** Darkness (255 · (1 − e^−s)) at the ink level s = 0.35 the colour census counts from. */
+const INK_DARKNESS = Math.ceil(255 * (1 - Math.exp(-0.35)))
+
+function inkColours(d: DensityReader, darkness: Uint8Array, n: number, exclude: Uint8Array, paper: PaperColour): InkColours {
   const bins = 12
   const count = new Array<number>(bins).fill(0)
   const sum = Array.from({ length: bins }, () => [0, 0, 0] as Rgb)
   let ink = 0, coloured = 0, light = 0
   for (let i = 0; i < n; i++) {
-    if (exclude[i]) continue
+    if (darkness[i]! < INK_DARKNESS - 1 || exclude[i]) continue
     const v = d.at(i)
     const d0 = v[0]!, d1 = v[1]!, d2 = v[2]!
     const s = Math.max(d0, d1, d2)
@@ -454,14 +457,14 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
     w = Math.max(1, Math.round(frame.width * scale))
     h = Math.max(1, Math.round(frame.height * scale))
     const outToIn = multiply(scaling(scale), multiply(frame.toSource, scaling((frame.width / w), (frame.height / h))))
-    const paperGuess = estimatePaperColour(input.rgb, input.width * input.height, s.luma)
+    const paperGuess = estimatePaperColour(input.rgb, input.width * input.height, s.luma, luma0)
     const toBase = multiply(frame.base.toBase, scaling(frame.width / w, frame.height / h))
     rgb = warpBilinear(input.rgb, input.width, input.height, 3, outToIn, w, h, paperGuess.rgb.map(Math.round), { map: toBase, width: frame.base.width, height: frame.base.height })
   }
   const n = w * h
   const luma = frame.identity ? luma0 : toGrey(rgb, w, h, 3, s.luma)
   const tFrame = lap()
-  const paper = estimatePaperColour(rgb, n, s.luma)
+  const paper = estimatePaperColour(rgb, n, s.luma, luma)
   const paperMap = await paperEstimate(luma, w, h)
 
   const lighting = lightingChoice(luma, paperMap, w, h, s)
@@ -476,7 +479,7 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
   const lines = allLines.filter((f) => f.regular)
   const tLines = lap()
   const lineColours = allLines.map((f) => lineDensity(d, w, h, f))
-  const colours = inkColours(d, n, lineMask(w, h, allLines), paper)
+  const colours = inkColours(d, darkness, n, lineMask(w, h, allLines), paper)
 
   // Ink colour
   const colourInk = colours.colouredShare >= 0.1

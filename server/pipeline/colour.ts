@@ -19,7 +19,7 @@
 // The paper's colour is taken as one hue (its ratios between channels, e.g. a warm tint) whose
 // brightness may vary over the sheet (P_c = ratio_c · paper brightness there), so the same
 // paper-brightness map that lighting evening divides by serves here too.
-import { LUMA, type LumaStandard } from './luma'
+import { LUMA, toGrey, type LumaStandard } from './luma'
 
 export type Rgb = [number, number, number]
 
@@ -37,15 +37,11 @@ export interface PaperColour {
  * luma range actually used by most pixels (between the median and the 99th percentile), so ink,
  * shadows and blown highlights are left out. Assumes the paper covers at least half the image.
  */
-export function estimatePaperColour(rgb: Uint8Array, n: number, standard: LumaStandard): PaperColour {
+export function estimatePaperColour(rgb: Uint8Array, n: number, standard: LumaStandard, luma?: Uint8Array): PaperColour {
   const k = LUMA[standard]
-  const lum = new Uint8Array(n)
+  const lum = luma ?? toGrey(rgb, n, 1, 3, standard)
   const hist = new Uint32Array(256)
-  for (let i = 0, j = 0; i < n; i++, j += 3) {
-    const y = Math.round(k.r * rgb[j]! + k.g * rgb[j + 1]! + k.b * rgb[j + 2]!)
-    lum[i] = y
-    hist[y]!++
-  }
+  for (let i = 0; i < n; i++) hist[lum[i]!]!++
   const level = (q: number) => {
     let acc = 0
     for (let v = 0; v < 256; v++) { acc += hist[v]!; if (acc >= q * n) return v }

@@ -297,7 +297,7 @@ function looksLikeDrawnFrame(img: Uint8Array, w: number, h: number, q: readonly 
   const square = q.every((p, i) => {
     const r = q[(i + 1) % 4]!
     const deg = (Math.atan2(Math.abs(r.y - p.y), Math.abs(r.x - p.x)) * 180) / Math.PI
-    return Math.min(deg, 90 - deg) < 1.5
+    return Math.min(deg, 90 - deg) < 2.5
   })
   if (!square) return false
   const inside: number[] = []
