@@ -10,6 +10,7 @@ try {
     { pkg: 'postgresql', present: () => !!findPostgresBin(), why: 'the database server the tests start' },
     { pkg: 'chromium', present: () => existsSync('/usr/bin/chromium'), why: 'the browser the browser tests drive' },
     { pkg: 'potrace', present: () => existsSync('/usr/bin/potrace'), why: 'the reference tracer the outline is checked against' },
+    { pkg: 'python3-skimage', present: () => existsSync('/usr/lib/python3/dist-packages/skimage'), why: 'the image library the adaptive threshold and the straightening are checked against' },
   ])
 } catch (err) {
   console.error(err instanceof ServiceError ? `\n${err.message}\n` : err)
