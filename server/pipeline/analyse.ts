@@ -393,6 +393,96 @@ function hueSpread(rgb: Uint8Array, bitmap: Uint8Array, paper: PaperColour, stan
   return 1
 }
 
+function inkColourChoice(s: PipelineSettings, colours: InkColours, colourInk: boolean): { reading: 'dark' | 'colour', choice: CleanUpChoice } {
+  if (s.inkColour !== 'auto') {
+    return {
+      reading: s.inkColour,
+      choice: { setting: 'inkColour', automatic: false, value: s.inkColour, reason: s.inkColour === 'colour' ? 'Ink is read by its difference from the paper\'s colour, as set.' : 'Ink is read by its grey level, as set.' },
+    }
+  }
+  const reading = colourInk ? 'colour' : 'dark'
+  return {
+    reading,
+    choice: {
+      setting: 'inkColour', automatic: true, value: reading,
+      reason: colourInk
+        ? `Part of the ink is ${listWords(colours.names.slice(0, 3))}${colours.lightShare > 0.05 ? ', close to the paper in brightness' : ''}: ink is read by its difference from the paper's colour.`
+        : 'The ink is dark and colourless (pencil, black or dark pen): ink is read by its grey level.',
+    },
+  }
+}
+
+const dot = (a: Rgb, b: Rgb) => a[0] * b[0] + a[1] * b[1] + a[2] * b[2]
+
+/**
+ * Colours to read as paper: those of the sheet's lines, when the ink is another colour and
+ * keeps most of its strength once they are taken out.
+ */
+function dropoutChoice(
+  s: PipelineSettings, allLines: LineFamily[], lineColours: Rgb[], colours: InkColours, colourInk: boolean, paper: PaperColour,
+): { colours: Rgb[], choice: CleanUpChoice } {
+  if (s.dropoutColour.mode === 'colours') {
+    return { colours: s.dropoutColour.colours.map(fromHex), choice: { setting: 'dropoutColour', automatic: false, value: s.dropoutColour, reason: `${listWords(s.dropoutColour.colours)} read as paper, as set.` } }
+  }
+  if (s.dropoutColour.mode === 'none') {
+    return { colours: [], choice: { setting: 'dropoutColour', automatic: false, value: s.dropoutColour, reason: 'No colour is dropped, as set.' } }
+  }
+  const candidates: { colour: Rgb, dir: Rgb, name: string }[] = []
+  // The ink's own colours (grey ink: equal in every channel) must keep most of their
+  // strength once the dropped colours are taken out, or the drawing would go with them.
+  const grey = 1 / Math.sqrt(3)
+  const inkDirs: Rgb[] = colourInk ? colours.directions : [[grey, grey, grey]]
+  const keeps = (drops: Rgb[]) => {
+    const basis = orthonormal(drops)
+    return inkDirs.every((u) => {
+      const v: Rgb = [...u]
+      for (const b of basis) {
+        const a = dot(v, b)
+        if (a > 0) { v[0] -= a * b[0]; v[1] -= a * b[1]; v[2] -= a * b[2] }
+      }
+      return Math.max(...v) >= 0.4 * Math.max(...u)
+    })
+  }
+  // Regular families first: they are the sheet's lines for sure.
+  const order = allLines.map((_, i) => i).sort((a, b) => Number(allLines[b]!.regular) - Number(allLines[a]!.regular))
+  for (const i of order) {
+    const dens = lineColours[i]!
+    if (chroma(...dens) < 0.4) continue
+    const colour = colourOfDensity(dens, paper)
+    const dir = densityDirection(colour, paper)
+    if (!dir) continue
+    if (colours.directions.some((u) => dot(u, dir) > 0.93)) continue // the ink itself is that colour
+    if (candidates.some((c) => dot(c.dir, dir) > 0.97)) continue
+    if (!keeps([...candidates.map((c) => c.dir), dir])) continue
+    candidates.push({ colour, dir, name: colourName(colour) })
+  }
+  if (candidates.length) {
+    return {
+      colours: candidates.map((c) => c.colour),
+      choice: { setting: 'dropoutColour', automatic: true, value: { mode: 'colours', colours: candidates.map((c) => toHex(c.colour)) }, reason: `The sheet's lines are ${listWords(candidates.map((c) => c.name))} and the drawing is not: that colour is read as paper.` },
+    }
+  }
+  const coloured = lineColours.some((c) => chroma(...c) >= 0.4)
+  return {
+    colours: [],
+    choice: { setting: 'dropoutColour', automatic: true, value: { mode: 'none' }, reason: coloured ? 'The sheet\'s lines are the same colour as the drawing: no colour can be dropped.' : 'No coloured lines on the sheet: no colour is dropped.' },
+  }
+}
+
+function paperLinesChoice(s: PipelineSettings, lines: LineFamily[], remove: boolean): CleanUpChoice {
+  const value = remove ? 'remove' : 'keep'
+  if (s.paperLines !== 'auto') {
+    return {
+      setting: 'paperLines', automatic: false, value,
+      reason: remove ? `${lines.length ? `The sheet has ${linesWords(lines)}: they` : 'Ruled or grid lines'} are taken out, as set.` : 'Ruled and grid lines are kept, as set.',
+    }
+  }
+  return {
+    setting: 'paperLines', automatic: true, value,
+    reason: lines.length ? `The sheet has evenly spaced ${linesWords(lines)}: they are taken out, keeping the strokes that cross them.` : 'No ruled or grid lines were found.',
+  }
+}
+
 function frameFor(input: AnalysisInput, luma: Uint8Array): { frame: Frame, choice: CleanUpChoice } {
   const s = input.settings
   const c = s.corners
@@ -481,82 +571,24 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
   const lineColours = allLines.map((f) => lineDensity(d, w, h, f))
   const colours = inkColours(d, darkness, n, lineMask(w, h, allLines), paper)
 
-  // Ink colour
   const colourInk = colours.colouredShare >= 0.1
-  let reading: 'dark' | 'colour'
-  if (s.inkColour === 'auto') {
-    reading = colourInk ? 'colour' : 'dark'
-    choices.push({
-      setting: 'inkColour', automatic: true, value: reading,
-      reason: colourInk
-        ? `Part of the ink is ${listWords(colours.names.slice(0, 3))}${colours.lightShare > 0.05 ? ', close to the paper in brightness' : ''}: ink is read by its difference from the paper's colour.`
-        : 'The ink is dark and colourless (pencil, black or dark pen): ink is read by its grey level.',
-    })
-  } else {
-    reading = s.inkColour
-    choices.push({ setting: 'inkColour', automatic: false, value: reading, reason: reading === 'colour' ? 'Ink is read by its difference from the paper\'s colour, as set.' : 'Ink is read by its grey level, as set.' })
-  }
+  const ink = inkColourChoice(s, colours, colourInk)
+  choices.push(ink.choice)
+  const reading = ink.reading
 
-  // Colour dropout
-  let droppedColours: Rgb[] = []
-  if (s.dropoutColour.mode === 'auto') {
-    const candidates: { colour: Rgb, dir: Rgb, name: string }[] = []
-    // The ink's own colours (grey ink: equal in every channel) must keep most of their
-    // strength once the dropped colours are taken out, or the drawing would go with them.
-    const inkDirs: Rgb[] = colourInk ? colours.directions : [[1 / Math.sqrt(3), 1 / Math.sqrt(3), 1 / Math.sqrt(3)]]
-    const keeps = (drops: Rgb[]) => {
-      const basis = orthonormal(drops)
-      return inkDirs.every((u) => {
-        const v: Rgb = [...u]
-        for (const b of basis) {
-          const a = v[0] * b[0] + v[1] * b[1] + v[2] * b[2]
-          if (a > 0) { v[0] -= a * b[0]; v[1] -= a * b[1]; v[2] -= a * b[2] }
-        }
-        return Math.max(...v) >= 0.4 * Math.max(...u)
-      })
-    }
-    // Regular families first: they are the sheet's lines for sure.
-    const order = allLines.map((f, i) => i).sort((a, b) => Number(allLines[b]!.regular) - Number(allLines[a]!.regular))
-    for (const i of order) {
-      const dens = lineColours[i]!
-      if (chroma(...dens) < 0.4) continue
-      const colour = colourOfDensity(dens, paper)
-      const dir = densityDirection(colour, paper)
-      if (!dir) continue
-      // Not when the ink itself is that colour.
-      if (colours.directions.some((u) => u[0] * dir[0] + u[1] * dir[1] + u[2] * dir[2] > 0.93)) continue
-      if (candidates.some((c) => c.dir[0] * dir[0] + c.dir[1] * dir[1] + c.dir[2] * dir[2] > 0.97)) continue
-      if (!keeps([...candidates.map((c) => c.dir), dir])) continue
-      candidates.push({ colour, dir, name: colourName(colour) })
-    }
-    droppedColours = candidates.map((c) => c.colour)
-    choices.push(candidates.length
-      ? { setting: 'dropoutColour', automatic: true, value: { mode: 'colours', colours: candidates.map((c) => toHex(c.colour)) }, reason: `The sheet's lines are ${listWords(candidates.map((c) => c.name))} and the drawing is not: that colour is read as paper.` }
-      : { setting: 'dropoutColour', automatic: true, value: { mode: 'none' }, reason: allLines.some((f, i) => chroma(...lineColours[i]!) >= 0.4) ? 'The sheet\'s lines are the same colour as the drawing: no colour can be dropped.' : 'No coloured lines on the sheet: no colour is dropped.' })
-  } else if (s.dropoutColour.mode === 'colours') {
-    droppedColours = s.dropoutColour.colours.map(fromHex)
-    choices.push({ setting: 'dropoutColour', automatic: false, value: s.dropoutColour, reason: `${listWords(s.dropoutColour.colours)} read as paper, as set.` })
-  } else {
-    choices.push({ setting: 'dropoutColour', automatic: false, value: s.dropoutColour, reason: 'No colour is dropped, as set.' })
-  }
+  const drop = dropoutChoice(s, allLines, lineColours, colours, colourInk, paper)
+  choices.push(drop.choice)
+  const droppedColours = drop.colours
   const droppedDirs = droppedColours.map((c) => densityDirection(c, paper)).filter((v): v is Rgb => v !== null)
   const dropped = orthonormal(droppedDirs)
   // Lines of a dropped colour are gone from the grey reading: nothing left to take out by shape.
   allLines.forEach((f, i) => {
     const dir = densityDirection(colourOfDensity(lineColours[i]!, paper), paper)
-    f.dropped = !!dir && droppedDirs.some((u) => u[0] * dir[0] + u[1] * dir[1] + u[2] * dir[2] > 0.97)
+    f.dropped = !!dir && droppedDirs.some((u) => dot(u, dir) > 0.97)
   })
 
-  // Paper lines
   const removeFound = s.paperLines === 'remove' || (s.paperLines === 'auto' && lines.length > 0)
-  choices.push({
-    setting: 'paperLines', automatic: s.paperLines === 'auto', value: removeFound ? 'remove' : 'keep',
-    reason: s.paperLines !== 'auto'
-      ? (removeFound ? `${lines.length ? `The sheet has ${linesWords(lines)}: they` : 'Ruled or grid lines'} are taken out, as set.` : 'Ruled and grid lines are kept, as set.')
-      : lines.length
-        ? `The sheet has evenly spaced ${linesWords(lines)}: they are taken out, keeping the strokes that cross them.`
-        : 'No ruled or grid lines were found.',
-  })
+  choices.push(paperLinesChoice(s, lines, removeFound))
 
   // The grey reading the threshold will see.
   const evened = lighting.choice.on ? lighting.choice.strength : 0
@@ -595,17 +627,11 @@ export async function analyse(input: AnalysisInput): Promise<Analysis> {
   const pf = pieceFacts(found.pieces, Math.max(1, s.speckFilterMm2 * pxPerMm * pxPerMm), pxPerMm)
   const paperHueSpread = hueSpread(rgb, bitmap, paper, s.luma)
   const sx = w / frame.width, sy = h / frame.height
-  const ink = box ? { x0: box.x0 / sx, y0: box.y0 / sy, x1: (box.x1 + 1) / sx, y1: (box.y1 + 1) / sy } : null
-  if (input.widthOf === 'drawing' && ink) {
-    choices.push({
-      setting: 'marginMm', automatic: false, value: s.marginMm,
-      reason: `Trimmed to the drawing's ink, ${mm(input.widthMm)} × ${mm((box!.y1 - box!.y0 + 1) / pxPerMm)} mm, ${s.marginMm > 0 ? `with ${mm(s.marginMm)} mm of paper on every side` : 'with no margin'}.`,
-    })
-  }
+  const inkExtent = box ? { x0: box.x0 / sx, y0: box.y0 / sy, x1: (box.x1 + 1) / sx, y1: (box.y1 + 1) / sy } : null
   return {
     frame, scale: w / frame.width, width: w, height: h, paper, paperMap,
     lighting: lighting.choice, reading: useDensity ? 'density' : 'luma', dropped, lines, removeLines: removeFound,
-    threshold: threshold.value, ink, pxPerMm, choices,
+    threshold: threshold.value, ink: inkExtent, pxPerMm, choices,
     facts: {
       inkShare: inkPixels / n, contrastLevels: facts.paperLevel - facts.inkCore, meanGrey: facts.mean, midShare: facts.midShare, separability: facts.separability,
       pieces: pf.pieces, smallPieces: pf.small, smallInkShare: pf.smallInkShare, paperHueSpread,

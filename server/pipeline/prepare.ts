@@ -327,6 +327,7 @@ async function prepare(
   }
 
   let bitmap = workBitmap, width = workW, height = workH, pxPerMm = pxPerMmWork
+  const choices = [...analysis.choices]
   if (widthOf === 'drawing') {
     const speck = Math.max(1, settings.speckFilterMm2 * pxPerMmWork * pxPerMmWork)
     const box = inkBox(findPieces(workBitmap, workW, workH).pieces, speck)
@@ -336,6 +337,11 @@ async function prepare(
     pxPerMm = (box.x1 - box.x0 + 1) / widthMm
     const trimmed = trimBitmap(workBitmap, workW, box, Math.round(settings.marginMm * pxPerMm))
     bitmap = trimmed.bitmap; width = trimmed.width; height = trimmed.height
+    const mm = (v: number) => v.toFixed(1)
+    choices.push({
+      setting: 'marginMm', automatic: false, value: settings.marginMm,
+      reason: `Trimmed to the drawing's ink, ${mm(widthMm)} × ${mm((box.y1 - box.y0 + 1) / pxPerMm)} mm, ${settings.marginMm > 0 ? `with ${mm(settings.marginMm)} mm of paper on every side` : 'with no margin'}.`,
+    })
   }
   const t5 = performance.now()
 
@@ -350,7 +356,7 @@ async function prepare(
     source: { width: srcW, height: srcH, orientedWidth, orientedHeight },
     size: widthOf === 'frame' ? size : { widthPx: width, heightPx: height, pxPerMm, heightMm: height / pxPerMm, capped: size.capped, scale: workW / region.width },
     settings,
-    choices: analysis.choices,
+    choices,
     timings: {
       decodeMs: t1 - t0, analysisMs: t2 - t1, analysisSteps: analysis.timings, gridMs: t3 - t2, eveningMs: t4 - t3,
       thresholdMs: t5 - t4, pngMs: t6 - t5, totalMs: t6 - t0,
