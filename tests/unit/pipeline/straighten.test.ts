@@ -93,7 +93,7 @@ t = ProjectiveTransform()
 t.estimate(np.array([[p['x'], p['y']] for p in d['src']]), np.array([[p['x'], p['y']] for p in d['dst']]))
 print(json.dumps((t.params / t.params[2, 2]).flatten().tolist()))`
     const theirs = JSON.parse(python(script, JSON.stringify({ src: rect, dst: pts })).toString()) as Mat3
-    for (let k = 0; k < 9; k++) expect(Math.abs(ours[k] - theirs[k])).toBeLessThanOrEqual(1e-7 * Math.max(1, Math.abs(theirs[k])))
+    for (let k = 0; k < 9; k++) expect(Math.abs(ours[k]! - theirs[k]!)).toBeLessThanOrEqual(1e-7 * Math.max(1, Math.abs(theirs[k]!)))
     // The frame the pipeline used is that homography (inset a little from the sheet's edge).
     expect(frame.aspect).toBeCloseTo(SHEET_W / SHEET_H, 2)
   })
