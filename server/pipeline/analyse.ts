@@ -49,6 +49,9 @@ export interface AnalysisInput {
   sourceHeight: number
   /** The camera's principal point (the whole photo's centre), in cropped source pixels. */
   principal: Pt
+  /** Size of the whole upright photo, px. */
+  uprightWidth: number
+  uprightHeight: number
   /** Long side of the whole upright photo, px. */
   photoLongSide: number
   /** Offset of the crop in the upright source (manual corners are given on the whole source). */
@@ -499,9 +502,11 @@ function frameFor(input: AnalysisInput, luma: Uint8Array): { frame: Frame, choic
   } else {
     const found = findSheet(luma, input.width, input.height)
     if (found) {
-      // Rounded to a tenth of a pixel as reported, so pinning the reported corners gives the same result.
+      // As reported (to a tenth of a pixel, on the upright source), so that pinning the reported
+      // corners gives the same result; a corner found just off the picture is put on its edge.
+      const round = (v: number, max: number) => Math.min(max, Math.max(0, Math.round(v * 10) / 10))
       const points = onWhole(found.corners.map((p) => ({ x: p.x / input.scale, y: p.y / input.scale })) as Quad)
-        .map((p) => ({ x: Math.round(p.x * 10) / 10, y: Math.round(p.y * 10) / 10 })) as Quad
+        .map((p) => ({ x: round(p.x, input.uprightWidth), y: round(p.y, input.uprightHeight) })) as Quad
       const q = points.map((p) => ({ x: p.x - input.cropOffset.x, y: p.y - input.cropOffset.y })) as Quad
       base = straighten(q)
       const angled = skewOf(q)

@@ -244,6 +244,7 @@ async function prepare(
     rgb: small, width: aw, height: ah, scale: aw / srcW,
     sourceWidth: srcW, sourceHeight: srcH,
     principal: { x: orientedWidth / 2 - (crop?.x ?? 0), y: orientedHeight / 2 - (crop?.y ?? 0) },
+    uprightWidth: orientedWidth, uprightHeight: orientedHeight,
     photoLongSide: Math.max(orientedWidth, orientedHeight),
     cropOffset: { x: crop?.x ?? 0, y: crop?.y ?? 0 },
     settings, widthOf, widthMm,
