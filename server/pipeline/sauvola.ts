@@ -86,29 +86,30 @@ function localMeanStd(
   }
 }
 
-/** The threshold surface T(x, y), row-major, in double precision (for checks and the bench). */
-export function sauvolaThresholds(grey: Uint8Array, width: number, height: number, p: SauvolaParameters): Float64Array {
+/** Walk the image row by row with the threshold T of every pixel of the row. */
+function thresholdRows(grey: Uint8Array, width: number, height: number, p: SauvolaParameters, row: (y: number, t: Float64Array) => void): void {
   const k = p.k ?? 0.2
   const r = p.r ?? 127.5
-  const out = new Float64Array(width * height)
+  const t = new Float64Array(width)
   localMeanStd(grey, width, height, p.window, (y, mean, std) => {
-    const o = y * width
-    for (let x = 0; x < width; x++) out[o + x] = mean[x]! * (1 + k * (std[x]! / r - 1))
+    for (let x = 0; x < width; x++) t[x] = mean[x]! * (1 + k * (std[x]! / r - 1))
+    row(y, t)
   })
+}
+
+/** The threshold surface T(x, y), row-major, in double precision (for checks and the bench). */
+export function sauvolaThresholds(grey: Uint8Array, width: number, height: number, p: SauvolaParameters): Float64Array {
+  const out = new Float64Array(width * height)
+  thresholdRows(grey, width, height, p, (y, t) => out.set(t, y * width))
   return out
 }
 
 /** Ink (1) where grey ≤ T(x, y), paper (0) elsewhere. */
 export function sauvolaBitmap(grey: Uint8Array, width: number, height: number, p: SauvolaParameters): Uint8Array {
-  const k = p.k ?? 0.2
-  const r = p.r ?? 127.5
   const out = new Uint8Array(width * height)
-  localMeanStd(grey, width, height, p.window, (y, mean, std) => {
+  thresholdRows(grey, width, height, p, (y, t) => {
     const o = y * width
-    for (let x = 0; x < width; x++) {
-      const t = mean[x]! * (1 + k * (std[x]! / r - 1))
-      out[o + x] = grey[o + x]! <= t ? 1 : 0
-    }
+    for (let x = 0; x < width; x++) out[o + x] = grey[o + x]! <= t[x]! ? 1 : 0
   })
   return out
 }
