@@ -363,8 +363,3 @@ export function sheetFrame(q: Quad, cx: number, cy: number, longSide: number, in
   const width = Math.max(1, Math.round(W - 2 * mx)), height = Math.max(1, Math.round(Hh - 2 * my))
   return { width, height, toSource: multiply(H, translation(mx, my)), aspect }
 }
-
-/** The corners of a frame mapped into the source (for showing them on the bench). */
-export function frameCorners(f: SheetFrame): Quad {
-  return [{ x: 0, y: 0 }, { x: f.width, y: 0 }, { x: f.width, y: f.height }, { x: 0, y: f.height }].map((p) => apply(f.toSource, p)) as Quad
-}
