@@ -19,7 +19,7 @@
 // (Z. Zhang, L.-W. He, "Whiteboard scanning and image enhancement", Digital Signal Processing
 // 17 (2007) 414–432). When the sheet is seen nearly square-on, f cannot be solved for; it
 // hardly matters then, and a typical phone camera's f (0.8 × the long side, from memory) is used.
-import { apply, homographyFromPoints, multiply, translation, type Mat3, type Pt } from './homography'
+import { homographyFromPoints, multiply, translation, type Mat3, type Pt } from './homography'
 import { findPieces } from './components'
 import { histogram, otsuThreshold } from './otsu'
 import { halveGrey } from './rawgrey'
