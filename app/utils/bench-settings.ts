@@ -17,6 +17,7 @@ export const SETTING_LIMITS = {
   widthMm: { min: WIDTH_MM_MIN, max: WIDTH_MM_MAX },
 } as const
 
+/** Every clean-up choice automatic, as a student who never opens a setting gets it. */
 export const BENCH_DEFAULTS: Readonly<BenchSettings> = DEFAULT_SETTINGS
 
 export function clampNumber(v: unknown, min: number, max: number, fallback: number): number {
@@ -45,32 +46,28 @@ export function normaliseSettings(input: unknown): BenchSettings {
   const raw = fields(input)
   const d = BENCH_DEFAULTS
   const L = SETTING_LIMITS
-  const le = fields(raw.lightingEvening)
-  const th = fields(raw.threshold)
-  const crop = raw.crop && typeof raw.crop === 'object' ? fields(raw.crop) : null
-  return {
-    ...structuredClone(d),
-    luma: raw.luma === 'bt601' ? 'bt601' : 'bt709',
-    lightingEvening: {
-      enabled: typeof le.enabled === 'boolean' ? le.enabled : d.lightingEvening.enabled,
-      strength: clampNumber(le.strength ?? d.lightingEvening.strength, L.lightingStrength.min, L.lightingStrength.max, d.lightingEvening.strength),
-    },
-    threshold: th.mode === 'manual'
-      ? { mode: 'manual', value: Math.round(clampNumber(th.value, L.threshold.min, L.threshold.max, 128)) }
-      : { mode: 'auto' },
-    swapInkAndPaper: raw.swapInkAndPaper === true,
-    crop: crop && [crop.x, crop.y, crop.width, crop.height].every((v) => Number.isFinite(Number(v)))
-      ? {
-          x: Math.max(0, Math.round(Number(crop.x))),
-          y: Math.max(0, Math.round(Number(crop.y))),
-          width: Math.max(1, Math.round(Number(crop.width))),
-          height: Math.max(1, Math.round(Number(crop.height))),
-        }
-      : null,
-    speckFilterMm2: clampNumber(raw.speckFilterMm2 ?? d.speckFilterMm2, L.speckFilterMm2.min, L.speckFilterMm2.max, d.speckFilterMm2),
-    cornerRounding: clampNumber(raw.cornerRounding ?? d.cornerRounding, L.cornerRounding.min, L.cornerRounding.max, d.cornerRounding),
-    curveTolerance: clampNumber(raw.curveTolerance ?? d.curveTolerance, L.curveTolerance.min, L.curveTolerance.max, d.curveTolerance),
+  // Each field the schema accepts on its own is kept; numbers out of range are brought in.
+  const out = structuredClone(d) as Record<string, unknown>
+  for (const [key, field] of Object.entries(pipelineSettingsSchema.shape)) {
+    const one = (field as { safeParse: (v: unknown) => { success: boolean; data?: unknown } }).safeParse(raw[key])
+    if (one.success && raw[key] !== undefined) out[key] = one.data
   }
+  const clamped = out as BenchSettings
+  clamped.speckFilterMm2 = clampNumber(raw.speckFilterMm2 ?? d.speckFilterMm2, L.speckFilterMm2.min, L.speckFilterMm2.max, d.speckFilterMm2)
+  clamped.cornerRounding = clampNumber(raw.cornerRounding ?? d.cornerRounding, L.cornerRounding.min, L.cornerRounding.max, d.cornerRounding)
+  clamped.curveTolerance = clampNumber(raw.curveTolerance ?? d.curveTolerance, L.curveTolerance.min, L.curveTolerance.max, d.curveTolerance)
+  clamped.marginMm = clampNumber(raw.marginMm ?? d.marginMm, L.marginMm.min, L.marginMm.max, d.marginMm)
+  clamped.fineAngleDeg = clampNumber(raw.fineAngleDeg ?? d.fineAngleDeg, L.fineAngleDeg.min, L.fineAngleDeg.max, d.fineAngleDeg)
+  const crop = raw.crop && typeof raw.crop === 'object' ? fields(raw.crop) : null
+  if (crop && [crop.x, crop.y, crop.width, crop.height].every((v) => Number.isFinite(Number(v)))) {
+    clamped.crop = {
+      x: Math.max(0, Math.round(Number(crop.x))), y: Math.max(0, Math.round(Number(crop.y))),
+      width: Math.max(1, Math.round(Number(crop.width))), height: Math.max(1, Math.round(Number(crop.height))),
+    }
+  }
+  const th = fields(raw.threshold)
+  if (th.mode === 'manual') clamped.threshold = { mode: 'manual', value: Math.round(clampNumber(th.value, L.threshold.min, L.threshold.max, 128)) }
+  return clamped
 }
 
 /** A stable text key of settings and width, for "is this what was saved?" checks. */
@@ -99,12 +96,27 @@ export interface SettingLine {
 
 const fmt = (v: number, digits = 2) => Number(v.toFixed(digits)).toString()
 
+export function thresholdWords(t: ThresholdSetting): string {
+  switch (t.mode) {
+    case 'auto': return 'Automatic'
+    case 'otsu': return 'One level for the sheet (Otsu)'
+    case 'adaptive': return `Local, ${fmt(t.windowMm, 1)} mm window (Sauvola)`
+    case 'manual': return `Manual, ${t.value}`
+  }
+}
+
 /** The settings (and width) in words, one line each, in the bench's order. */
 export function describeSettings(s: BenchSettings, widthMm: number): SettingLine[] {
   return [
     { key: 'widthMm', label: 'Width', value: `${fmt(widthMm, 1)} mm` },
-    { key: 'threshold', label: 'Threshold', value: s.threshold.mode === 'auto' ? 'Automatic (Otsu)' : `Manual, ${s.threshold.value}` },
-    { key: 'lightingEvening', label: 'Lighting evening', value: s.lightingEvening.enabled ? `On, strength ${Math.round(s.lightingEvening.strength * 100)} %` : 'Off' },
+    { key: 'threshold', label: 'Threshold', value: thresholdWords(s.threshold) },
+    { key: 'lightingEvening', label: 'Lighting evening', value: s.lightingEvening.mode === 'off' ? 'Off' : `${s.lightingEvening.mode === 'auto' ? 'Automatic' : 'On'}, strength ${Math.round(s.lightingEvening.strength * 100)} %` },
+    { key: 'corners', label: 'Straighten the sheet', value: s.corners.mode === 'auto' ? 'Automatic' : s.corners.mode === 'off' ? 'Off' : 'By four corners' },
+    { key: 'turn', label: 'Turn', value: `${s.quarterTurns * 90 + s.fineAngleDeg}°` },
+    { key: 'inkColour', label: 'Ink read by', value: { auto: 'Automatic', dark: 'Darkness', colour: 'Colour against the paper' }[s.inkColour] },
+    { key: 'dropoutColour', label: 'Colour left out', value: s.dropoutColour.mode === 'auto' ? 'Automatic' : s.dropoutColour.mode === 'none' ? 'None' : s.dropoutColour.colours.join(', ') },
+    { key: 'paperLines', label: 'Ruled or grid lines', value: { auto: 'Automatic', keep: 'Kept', remove: 'Removed' }[s.paperLines] },
+    { key: 'marginMm', label: 'Margin around the drawing', value: `${fmt(s.marginMm, 1)} mm` },
     { key: 'swapInkAndPaper', label: 'Swap ink and paper', value: s.swapInkAndPaper ? 'Swapped' : 'Not swapped' },
     { key: 'crop', label: 'Crop', value: s.crop ? `${s.crop.width} × ${s.crop.height} px at (${s.crop.x}, ${s.crop.y})` : 'Whole source' },
     { key: 'speckFilterMm2', label: 'Speck filter', value: `${fmt(s.speckFilterMm2, 2)} mm²` },

@@ -27,7 +27,7 @@ function median(xs: number[]): number {
 }
 
 /** Median wall and CPU time of `runs` calls. */
-async function timed<T>(runs: number, f: () => Promise<T>): Promise<{ wall: number, cpu: number, last: T }> {
+async function timed<T>(runs: number, f: () => Promise<T>): Promise<{ wall: number; cpu: number; last: T }> {
   const wall: number[] = [], cpu: number[] = []
   let last!: T
   for (let i = 0; i < runs; i++) {
@@ -87,7 +87,7 @@ const ms = (x: number) => `${x.toFixed(0).padStart(6)} ms`
 export async function benchColour(runs: number): Promise<void> {
   const photo = await threeColourPhoto(12)
   const floor = await timed(runs, () => sharp(photo).raw().toBuffer({ resolveWithObject: true }))
-  const line = (what: string, t: { wall: number, cpu: number }, target?: number) =>
+  const line = (what: string, t: { wall: number; cpu: number }, target?: number) =>
     console.log(`  ${what.padEnd(52)} ${ms(t.wall)} (CPU ${ms(t.cpu).trim()})  ${(t.wall / floor.wall).toFixed(1).padStart(5)}× floor${target ? `  (target ≤ ${target} ms)` : ''}`)
   console.log(`\nColour layers, a three-colour 12 MP phone photo at ${WIDTH_MM} mm (floor: decoding the JPEG, ${floor.wall.toFixed(0)} ms):`)
 

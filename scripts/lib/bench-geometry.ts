@@ -46,7 +46,7 @@ function timed(runs: number, f: () => void): number {
  * Ours and the floor, run in turn (so both meet the same load), `runs` times: the medians of
  * each and of their ratios.
  */
-function sideBySide(runs: number, ours: () => void, floor: () => void): { ours: number, floor: number, ratio: number } {
+function sideBySide(runs: number, ours: () => void, floor: () => void): { ours: number; floor: number; ratio: number } {
   const a: number[] = [], b: number[] = [], r: number[] = []
   for (let i = 0; i < runs; i++) {
     const x = once(ours), y = once(floor)
@@ -123,7 +123,7 @@ function toPbm(b: TraceInput): Buffer {
  * Debian's potrace on the bitmap with our parameters, including process start and SVG output:
  * a function that runs it once, and one that removes its files.
  */
-function potraceRunner(b: TraceInput): { run: () => void, done: () => void } {
+function potraceRunner(b: TraceInput): { run: () => void; done: () => void } {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'dw-bench-geometry-'))
   const pbm = path.join(dir, 'in.pbm')
   writeFileSync(pbm, toPbm(b))
@@ -199,7 +199,7 @@ export async function benchGeometry(photo12: Buffer, runs: number): Promise<void
   const child = spawnSync(process.execPath, ['--import', 'tsx', fileURLToPath(import.meta.url), '--refusal'], { encoding: 'utf8', maxBuffer: 1 << 20 })
   if (child.status !== 0) console.log(`  Refusal over the node limit: the child process failed: ${child.stderr.trim().split('\n').pop()}`)
   else {
-    const r = JSON.parse(child.stdout) as { outcome: string, refuseMs: number, peakMb: number, beforeMb: number, potraceMs: number | null }
+    const r = JSON.parse(child.stdout) as { outcome: string; refuseMs: number; peakMb: number; beforeMb: number; potraceMs: number | null }
     console.log(`  Paper texture over the node limit, 400 × 400 mm at 10 px/mm: ${r.outcome} after ${ms(r.refuseMs)}`
       + (r.potraceMs === null ? '' : `, ${ratio(r.refuseMs, r.potraceMs)} Debian potrace's whole trace of it (${ms(r.potraceMs)})`))
     console.log(`    peak memory of that process ${r.peakMb.toFixed(0)} MB, of which ${r.beforeMb.toFixed(0)} MB before tracing (Node, the bitmap)`)

@@ -2,7 +2,7 @@
 // at 20 px/mm for numerals of each preset's size, printed in ms and as ratios to a floor
 // measured in the same run (the exact distance transform of a 1000 × 1000 bitmap), so runs on
 // a busy machine can be compared.
-import { featureTransform } from '../../server/pipeline/geometry'
+import { squaredDistanceTransform } from '../../server/pipeline/geometry'
 import { loadPlateFont } from '../../server/plates/font'
 import { generatePlate } from '../../server/plates/generate'
 import { measureLayer } from '../../server/plates/measure'
@@ -22,7 +22,7 @@ async function timed(runs: number, f: () => unknown): Promise<number> {
 export async function benchPlates(runs: number): Promise<void> {
   const bitmap = new Uint8Array(1000 * 1000)
   for (let y = 200; y < 800; y++) bitmap.fill(1, y * 1000 + 200, y * 1000 + 800)
-  const floor = await timed(runs, () => featureTransform(bitmap, 1000, 1000))
+  const floor = await timed(runs, () => squaredDistanceTransform(bitmap, 1000, 1000))
   const font = loadPlateFont()
   const line = (what: string, ms: number) => console.log(`  ${what.padEnd(58)} ${ms.toFixed(0).padStart(7)} ms  ${(ms / floor).toFixed(1).padStart(6)}× floor`)
   console.log(`\nNumber plates (invented numbers; floor: distance transform of 1 MP, ${floor.toFixed(0)} ms):`)

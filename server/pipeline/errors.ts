@@ -22,3 +22,18 @@ export class TooComplexError extends Error {
 
 /** Default largest node count of one outline. */
 export const DEFAULT_NODE_CAP = 60_000
+
+/** Why a source cannot become a decal. */
+export type NotADrawingReason = 'too-small' | 'blank' | 'all-ink' | 'scene' | 'specks'
+
+/**
+ * The source cannot become a decal: it is no drawing (a photograph of a scene), no ink was
+ * found, everything is ink, or most pieces are too small to weed. The message says plainly
+ * what is wrong and what to do.
+ */
+export class NotADrawingError extends Error {
+  override readonly name = 'NotADrawingError'
+  constructor(readonly reason: NotADrawingReason, message: string) {
+    super(message)
+  }
+}

@@ -15,7 +15,7 @@
 //
 // The paper estimate is smooth by construction, so it is computed on a copy shrunk to about
 // 256 pixels on the short side (shrinking averages, which also calms noise before the
-// max-filter, which would otherwise pick the brightest noise) and enlarged back.
+// max-filter, which would otherwise pick the brightest noise) and enlarged back bilinearly.
 //
 // The filters run on the image extended by one window on every side, repeating its edge
 // pixels, so a vignette's fall-off towards the border survives the closing.
@@ -27,6 +27,7 @@
 // Sharp's dilate/erode are binary morphology (libvips morph with a 0/255 mask), so the
 // greyscale max and min filters are done here with the van Herk / Gil-Werman algorithm:
 // separable, rows then columns, three comparisons per pixel whatever the window.
+import { scaleBilinear, scaling } from './homography'
 import { blurGrey, resizeGrey } from './rawgrey'
 
 export interface EveningOptions {
@@ -161,7 +162,8 @@ export async function paperEstimate(
     est = crop(padded, pw, pad, sw, sh)
   }
   est = await blurGrey(est, sw, sh, size / 4)
-  return resizeGrey(est, sw, sh, width, height)
+  // The estimate is smooth: bilinear enlargement loses nothing and is quick.
+  return sw === width && sh === height ? est : scaleBilinear(est, sw, sh, scaling(sw / width, sh / height), width, height)
 }
 
 /** Divide the image by its paper estimate, blended with the original by strength. */

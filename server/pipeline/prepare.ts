@@ -2,21 +2,31 @@
 // the decal's target width asks for.
 //
 // Order: decode (first frame of an animation) → turn upright by the orientation tag → crop →
-// R′G′B′A 8-bit → greyscale with the named luma (alpha flattened onto white) → resample to
-// the prepared size → lighting evening (optional) → threshold (automatic Otsu or manual) →
-// swap ink and paper (optional).
+// analysis of a shrunk copy (analyse.ts: straighten, lighting, lines, ink colour, dropout,
+// threshold method; the drawing's extent) → the working grid: the frame (the source, or the
+// straightened and turned sheet) at the prepared resolution → grey reading (luma, or density
+// against the paper's colour with dropped colours read as paper) → lighting evening → threshold
+// (Otsu, adaptive or manual) → swap ink and paper → paper lines taken out → trimmed to the
+// drawing's ink plus the margin (prepareDrawing) or kept whole (prepareBitmap).
 //
-// Resampling comes before lighting evening and threshold so both work at the prepared
-// resolution: the result is the same as evening the full-size source (the paper estimate is
-// smooth and computed on a shrunk copy either way), at a fraction of the cost for large
-// photos. Shrinking uses a Lanczos-3 kernel, enlarging a cubic one (less ringing at edges).
+// The source is read by libvips twice, each time straight at the size needed (shrink-on-load
+// for JPEG): once shrunk for the analysis, once at the working grid, so every per-pixel step
+// runs at the prepared resolution, never the photo's. Colour is resampled before grey (luma is
+// linear in R′G′B′, so this equals resampling the grey image, up to rounding). Where the sheet
+// is straightened or turned, the source is read near the working scale and the frame is taken
+// from it by bilinear interpolation through the homography.
 import sharp, { type Metadata, type OutputInfo } from 'sharp'
+import type { CleanUpChoice } from '../../shared/types/pipeline'
 import { preparedSize, type PreparedSize } from '../../shared/utils/units'
-import { PrepareError } from './errors'
-import { evenLighting } from './lighting'
+import { ANALYSIS_SIDE, analyse, applyThreshold, evenWithMap, type Analysis } from './analyse'
+import { densityGrey } from './colour'
+import { findPieces, inkBox } from './components'
+import { NotADrawingError, PrepareError } from './errors'
+import { sourceBox } from './frame'
+import { multiply, scaleBilinear, scaling, translation, warpBilinear } from './homography'
+import { mapFamily, removeLines } from './lines'
 import { toGrey } from './luma'
-import { resizeGrey } from './rawgrey'
-import { histogram as makeHistogram, otsuThreshold } from './otsu'
+import { histogram as makeHistogram } from './otsu'
 import { parseSettings, type PipelineSettings, type PipelineSettingsInput } from '../../shared/utils/settings'
 
 export interface PrepareOptions {
@@ -28,12 +38,18 @@ export interface PrepareOptions {
   maxSourcePixels?: number
   /** Encode the PNG for speed rather than size (a preview that is shown once and dropped). */
   fastPng?: boolean
+  /** Pieces under this area (mm², at the decal's size) are lost when weeding. Default 1. */
+  smallPieceMm2?: number
 }
 
 export interface PrepareTimings {
+  /** Reading the shrunk copy the analysis works on. */
   decodeMs: number
-  greyMs: number
-  resampleMs: number
+  /** The automatic clean-up's analysis of the shrunk copy (its steps in analysisSteps). */
+  analysisMs: number
+  analysisSteps: Analysis['timings']
+  /** Reading the source at the working scale (and straightening it), and grey. */
+  gridMs: number
   eveningMs: number
   thresholdMs: number
   pngMs: number
@@ -48,7 +64,7 @@ export interface PreparedBitmap {
   pxPerMm: number
   widthMm: number
   heightMm: number
-  /** Threshold used (ink = grey <= threshold), automatic or manual. */
+  /** Threshold used (ink = grey <= threshold); for the adaptive method, Otsu's level of the same grey. */
   threshold: number
   /** 256-bin histogram of the grey image the threshold was applied to. */
   histogram: Uint32Array
@@ -58,6 +74,8 @@ export interface PreparedBitmap {
   source: { width: number, height: number, orientedWidth: number, orientedHeight: number }
   size: PreparedSize
   settings: PipelineSettings
+  /** What the automatic clean-up chose (or the settings pinned), and why. */
+  choices: CleanUpChoice[]
   timings: PrepareTimings
 }
 
@@ -74,13 +92,119 @@ export async function bitmapToPng(bitmap: Uint8Array, width: number, height: num
   return (fast ? img.png({ compressionLevel: 1, adaptiveFiltering: false }) : img.png({ palette: true, colours: 2, dither: 0, compressionLevel: 9 })).toBuffer()
 }
 
+interface Rect { left: number, top: number, width: number, height: number }
+
+/** Reads the upright source (cropped by the settings) through sharp, as often as needed. */
+interface SourceReader {
+  /**
+   * R′G′B′ (alpha flattened onto white) of a region of the upright, cropped source (whole
+   * when null), resampled to toW × toH: Lanczos-3 when shrinking, cubic when enlarging. JPEG
+   * sources are decoded at a reduced size when that is enough (libvips' shrink-on-load), so
+   * no full-size copy of a large photo is ever held.
+   */
+  rgb(region: Rect | null, toW: number, toH: number): Promise<Uint8Array>
+}
+
+function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number): SourceReader {
+  return {
+    async rgb(region, toW, toH) {
+      const r = region ?? { left: 0, top: 0, width, height }
+      let img = sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
+      if (crop || r.width !== width || r.height !== height) {
+        img = img.extract({ left: r.left + (crop?.left ?? 0), top: r.top + (crop?.top ?? 0), width: r.width, height: r.height })
+      }
+      img = img.flatten({ background: '#ffffff' })
+      if (toW !== r.width || toH !== r.height) img = img.resize(toW, toH, { fit: 'fill', kernel: toW * toH < r.width * r.height ? 'lanczos3' : 'cubic' })
+      let out: { data: Buffer, info: OutputInfo }
+      try {
+        out = await img.toColourspace('srgb').removeAlpha().raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
+      } catch (e) {
+        throw new PrepareError('The image could not be decoded.', { cause: e })
+      }
+      if (out.info.channels !== 3 || out.info.width !== toW || out.info.height !== toH) {
+        throw new PrepareError(`Expected a ${toW} × ${toH} colour image, got ${out.info.width} × ${out.info.height} × ${out.info.channels}.`)
+      }
+      return asU8(out.data)
+    },
+  }
+}
+
+/** The bitmap cut to box (inclusive) with `margin` pixels of paper around it. */
+function trimBitmap(bm: Uint8Array, width: number, box: { x0: number, y0: number, x1: number, y1: number }, margin: number): { bitmap: Uint8Array, width: number, height: number } {
+  const w = box.x1 - box.x0 + 1 + 2 * margin
+  const h = box.y1 - box.y0 + 1 + 2 * margin
+  const out = new Uint8Array(w * h)
+  for (let y = box.y0; y <= box.y1; y++) {
+    out.set(bm.subarray(y * width + box.x0, y * width + box.x1 + 1), (y - box.y0 + margin) * w + margin)
+  }
+  return { bitmap: out, width: w, height: h }
+}
+
+const MIN_SIDE_PX = 8
+const ALL_INK = 'Nearly the whole picture reads as ink, so there is no paper to cut the shapes from. If the drawing is light on a dark background, swap ink and paper; if the photo is dark, take it again in better light.'
+
+/**
+ * Refuse what cannot become a decal, saying plainly what is wrong and what to do. Facts come
+ * from the analysis copy (analyse.ts); the limits were set on the hard-case set in the tests
+ * (tests/unit/pipeline/hard-cases.test.ts). A photograph of a scene has no plain paper: what
+ * reads as paper comes in many hues (sky, walls, faces), where a sheet of paper, however lit,
+ * is one hue (spread at most 0.03 in the set, the scene 0.5), and much of it lies between
+ * ink and paper or reads as ink.
+ */
+export function checkDrawing(a: Analysis, smallPieceMm2: number): void {
+  const f = a.facts
+  // Barely two grey levels apart: noise split in two, not ink on paper.
+  if (f.contrastLevels < 16 && f.meanGrey < 100) {
+    throw new NotADrawingError('all-ink', ALL_INK)
+  }
+  if (!a.ink || f.contrastLevels < 16) {
+    throw new NotADrawingError('blank', 'No drawing was found: the picture reads as blank paper. Check that it shows the drawing, in focus and in good light; a very faint pencil drawing can be gone over with a darker pen first.')
+  }
+  if (f.inkShare > 0.97) throw new NotADrawingError('all-ink', ALL_INK)
+  if (f.paperHueSpread > 0.15 && (f.midShare > 0.03 || f.inkShare > 0.4)) {
+    throw new NotADrawingError('scene', 'This looks like a photograph of a scene, not a drawing: there is no plain paper around clear ink (what would be paper comes in many colours). Draw the design on plain paper with a dark pen, and upload a photo or scan of that.')
+  }
+  if (f.pieces >= 12 && f.smallPieces > 0.6 * f.pieces) {
+    throw new NotADrawingError('specks', `Most of the ${f.pieces} pieces would be smaller than ${smallPieceMm2} mm² at this size and would be lost when weeding. Make the decal larger, raise the speck filter, or upload a cleaner drawing with bolder strokes.`)
+  }
+}
+
+/**
+ * The prepared bitmap of the whole frame (the source, or the straightened sheet), which is
+ * `frameWidthMm` wide. Applies every clean-up setting except trimming to the drawing.
+ */
 export async function prepareBitmap(
   input: Buffer | Uint8Array,
   settingsInput: PipelineSettingsInput | PipelineSettings,
-  targetWidthMm: number,
+  frameWidthMm: number,
   options: PrepareOptions = {},
 ): Promise<PreparedBitmap> {
+  return prepare(input, settingsInput, frameWidthMm, 'frame', options)
+}
+
+/**
+ * The prepared bitmap of the drawing: trimmed to its ink, whose width is `drawingWidthMm`,
+ * with the settings' margin of paper around it. Refuses (NotADrawingError) a source that
+ * cannot become a decal.
+ */
+export async function prepareDrawing(
+  input: Buffer | Uint8Array,
+  settingsInput: PipelineSettingsInput | PipelineSettings,
+  drawingWidthMm: number,
+  options: PrepareOptions = {},
+): Promise<PreparedBitmap> {
+  return prepare(input, settingsInput, drawingWidthMm, 'drawing', options)
+}
+
+async function prepare(
+  input: Buffer | Uint8Array,
+  settingsInput: PipelineSettingsInput | PipelineSettings,
+  widthMm: number,
+  widthOf: 'frame' | 'drawing',
+  options: PrepareOptions,
+): Promise<PreparedBitmap> {
   const settings = parseSettings(settingsInput)
+  if (!(widthMm > 0) || !Number.isFinite(widthMm)) throw new RangeError('The target width must be a positive number of millimetres.')
   const t0 = performance.now()
   const maxSourcePixels = options.maxSourcePixels ?? 100_000_000
 
@@ -94,7 +218,6 @@ export async function prepareBitmap(
   const orientedHeight = meta.autoOrient?.height ?? meta.height
   if (!orientedWidth || !orientedHeight) throw new PrepareError('The image has no pixel size.')
 
-  let img = sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
   let srcW = orientedWidth
   let srcH = orientedHeight
   const crop = settings.crop
@@ -104,62 +227,139 @@ export async function prepareBitmap(
         `The crop rectangle (${crop.x}, ${crop.y}, ${crop.width} × ${crop.height}) lies outside the upright source of ${orientedWidth} × ${orientedHeight} pixels.`,
       )
     }
-    img = img.extract({ left: crop.x, top: crop.y, width: crop.width, height: crop.height })
     srcW = crop.width
     srcH = crop.height
   }
-  let raw: { data: Buffer, info: OutputInfo }
-  try {
-    raw = await img.toColourspace('srgb').raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
-  } catch (e) {
-    throw new PrepareError('The image could not be decoded.', { cause: e })
+  if (widthOf === 'drawing' && (srcW < MIN_SIDE_PX || srcH < MIN_SIDE_PX)) {
+    throw new NotADrawingError('too-small', `The image is only ${srcW} × ${srcH} pixels: too small to hold a drawing. Upload a scan or photo of the drawing itself.`)
   }
+  const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH)
+
+  // The analysis, on a shrunk copy.
+  const aScale = Math.min(1, ANALYSIS_SIDE / Math.max(srcW, srcH))
+  const aw = Math.max(1, Math.round(srcW * aScale)), ah = Math.max(1, Math.round(srcH * aScale))
+  const small = await source.rgb(null, aw, ah)
   const t1 = performance.now()
-  if (raw.info.width !== srcW || raw.info.height !== srcH) {
-    throw new PrepareError(`Decoded size ${raw.info.width} × ${raw.info.height} differs from the expected ${srcW} × ${srcH}.`)
-  }
-  const channels = raw.info.channels
-  if (channels < 1 || channels > 4) throw new PrepareError(`Unexpected channel count ${channels}.`)
-  let grey = toGrey(asU8(raw.data), srcW, srcH, channels as 1 | 2 | 3 | 4, settings.luma)
+  const analysis = await analyse({
+    rgb: small, width: aw, height: ah, scale: aw / srcW,
+    sourceWidth: srcW, sourceHeight: srcH,
+    principal: { x: orientedWidth / 2 - (crop?.x ?? 0), y: orientedHeight / 2 - (crop?.y ?? 0) },
+    uprightWidth: orientedWidth, uprightHeight: orientedHeight,
+    photoLongSide: Math.max(orientedWidth, orientedHeight),
+    cropOffset: { x: crop?.x ?? 0, y: crop?.y ?? 0 },
+    settings, widthOf, widthMm,
+  })
+  const smallPieceMm2 = options.smallPieceMm2 ?? 1
+  if (widthOf === 'drawing') checkDrawing(analysis, smallPieceMm2)
   const t2 = performance.now()
 
-  const size = preparedSize({
-    sourceWidthPx: srcW, sourceHeightPx: srcH, targetWidthMm,
-    minPxPerMm: options.minPxPerMm, maxPxPerMm: options.maxPxPerMm,
-    maxUpscale: options.maxUpscale, maxPixels: options.maxPixels,
-  })
-  const width = size.widthPx
-  const height = size.heightPx
-  if (width !== srcW || height !== srcH) {
-    grey = await resizeGrey(grey, srcW, srcH, width, height)
+  // The working grid: a region of the frame (frame pixels) at `ws` working pixels per frame pixel.
+  const frame = analysis.frame
+  const limits = { minPxPerMm: options.minPxPerMm, maxPxPerMm: options.maxPxPerMm, maxUpscale: options.maxUpscale, maxPixels: options.maxPixels }
+  let region: Rect
+  let workW: number, workH: number, pxPerMmWork: number
+  let size: PreparedSize
+  if (widthOf === 'frame') {
+    size = preparedSize({ sourceWidthPx: frame.width, sourceHeightPx: frame.height, targetWidthMm: widthMm, ...limits })
+    region = { left: 0, top: 0, width: frame.width, height: frame.height }
+    workW = size.widthPx; workH = size.heightPx; pxPerMmWork = size.pxPerMm
+  } else {
+    const ink = analysis.ink!
+    const inkW = Math.max(1, ink.x1 - ink.x0), inkH = Math.max(1, ink.y1 - ink.y0)
+    size = preparedSize({ sourceWidthPx: Math.max(1, Math.round(inkW)), sourceHeightPx: Math.max(1, Math.round(inkH)), targetWidthMm: widthMm, ...limits })
+    const ws = size.widthPx / Math.max(1, Math.round(inkW))
+    pxPerMmWork = size.pxPerMm
+    // Room around the ink for the analysis' coarseness and the adaptive window.
+    const windowFrame = analysis.threshold.mode === 'adaptive' ? (analysis.threshold.windowMm * pxPerMmWork) / ws / 2 : 0
+    const pad = Math.max(6 / ws, 3 / analysis.scale, windowFrame, 0.01 * Math.max(frame.width, frame.height))
+    const x0 = Math.max(0, Math.floor(ink.x0 - pad)), y0 = Math.max(0, Math.floor(ink.y0 - pad))
+    const x1 = Math.min(frame.width, Math.ceil(ink.x1 + pad)), y1 = Math.min(frame.height, Math.ceil(ink.y1 + pad))
+    region = { left: x0, top: y0, width: x1 - x0, height: y1 - y0 }
+    workW = Math.max(1, Math.round(region.width * ws)); workH = Math.max(1, Math.round(region.height * ws))
+  }
+  // working pixel → frame pixel (continuous)
+  const workToFrame = multiply(translation(region.left, region.top), scaling(region.width / workW, region.height / workH))
+
+  let grey: Uint8Array
+  let rgb: Uint8Array | null = null
+  const density = analysis.reading === 'density'
+  if (frame.identity) {
+    rgb = await source.rgb(region, workW, workH)
+    if (!density) grey = toGrey(rgb, workW, workH, 3, settings.luma)
+  } else {
+    const b = sourceBox(frame, region.left, region.top, region.left + region.width, region.top + region.height)
+    const sx0 = Math.max(0, Math.floor(b.x0) - 2), sy0 = Math.max(0, Math.floor(b.y0) - 2)
+    const sx1 = Math.min(srcW, Math.ceil(b.x1) + 2), sy1 = Math.min(srcH, Math.ceil(b.y1) + 2)
+    const sRect: Rect = { left: sx0, top: sy0, width: Math.max(1, sx1 - sx0), height: Math.max(1, sy1 - sy0) }
+    // Resample the source close to the working scale first (libvips, with a proper filter),
+    // then read the frame from it bilinearly.
+    const si = Math.min(1, workW / region.width)
+    const iw = Math.max(1, Math.round(sRect.width * si)), ih = Math.max(1, Math.round(sRect.height * si))
+    const near = await source.rgb(sRect, iw, ih)
+    const outToIn = multiply(scaling(iw / sRect.width, ih / sRect.height), multiply(translation(-sx0, -sy0), multiply(frame.toSource, workToFrame)))
+    const fill = analysis.paper.rgb.map(Math.round)
+    const within = { map: multiply(frame.base.toBase, workToFrame), width: frame.base.width, height: frame.base.height }
+    // Luma is linear in R′G′B′: take it first and straighten one channel instead of three.
+    if (density) rgb = warpBilinear(near, iw, ih, 3, outToIn, workW, workH, fill, within)
+    else grey = warpBilinear(toGrey(near, iw, ih, 3, settings.luma), iw, ih, 1, outToIn, workW, workH, [Math.round(analysis.paper.luma)], within)
   }
   const t3 = performance.now()
 
-  if (settings.lightingEvening.enabled && settings.lightingEvening.strength > 0) {
-    grey = await evenLighting(grey, width, height, { strength: settings.lightingEvening.strength })
+  // Lighting evening and the grey reading, with the paper's brightness from the analysis.
+  const n = workW * workH
+  const evening = analysis.lighting.on ? analysis.lighting.strength : 0
+  let paperLuma: Uint8Array | null = null
+  if (evening > 0) {
+    const toAnalysis = multiply(scaling(analysis.width / frame.width, analysis.height / frame.height), workToFrame)
+    paperLuma = scaleBilinear(analysis.paperMap, analysis.width, analysis.height, toAnalysis, workW, workH)
   }
+  if (density) grey = densityGrey(rgb!, n, { paper: analysis.paper, paperLuma, dropped: analysis.dropped, strength: evening })
+  else if (paperLuma) grey = evenWithMap(grey!, paperLuma, evening)
   const t4 = performance.now()
 
-  const histogram = makeHistogram(grey)
-  const threshold = settings.threshold.mode === 'auto' ? otsuThreshold(histogram) : settings.threshold.value
-  const bitmap = new Uint8Array(width * height)
-  const inkValue = settings.swapInkAndPaper ? 0 : 1
-  for (let i = 0; i < bitmap.length; i++) bitmap[i] = grey[i]! <= threshold ? inkValue : 1 - inkValue
+  const histogram = makeHistogram(grey!)
+  const { bitmap: workBitmap, level } = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork)
+  if (settings.swapInkAndPaper) for (let i = 0; i < n; i++) workBitmap[i] = 1 - workBitmap[i]!
+  if (analysis.removeLines) {
+    const k = workW / region.width / analysis.scale
+    for (const f of analysis.lines.filter((l) => !l.dropped)) {
+      removeLines(workBitmap, workW, workH, mapFamily(f, k, -region.left * (workW / region.width), -region.top * (workH / region.height)))
+    }
+  }
+
+  let bitmap = workBitmap, width = workW, height = workH, pxPerMm = pxPerMmWork
+  const choices = [...analysis.choices]
+  if (widthOf === 'drawing') {
+    const speck = Math.max(1, settings.speckFilterMm2 * pxPerMmWork * pxPerMmWork)
+    const box = inkBox(findPieces(workBitmap, workW, workH).pieces, speck)
+    if (!box) {
+      throw new NotADrawingError('blank', 'No drawing was found at this size: every piece of ink is smaller than the speck filter. Make the decal larger or lower the speck filter.')
+    }
+    pxPerMm = (box.x1 - box.x0 + 1) / widthMm
+    const trimmed = trimBitmap(workBitmap, workW, box, Math.round(settings.marginMm * pxPerMm))
+    bitmap = trimmed.bitmap; width = trimmed.width; height = trimmed.height
+    const mm = (v: number) => v.toFixed(1)
+    choices.push({
+      setting: 'marginMm', automatic: false, value: settings.marginMm,
+      reason: `Trimmed to the drawing's ink, ${mm(widthMm)} × ${mm((box.y1 - box.y0 + 1) / pxPerMm)} mm, ${settings.marginMm > 0 ? `with ${mm(settings.marginMm)} mm of paper on every side` : 'with no margin'}.`,
+    })
+  }
   const t5 = performance.now()
 
   const png = await bitmapToPng(bitmap, width, height, options.fastPng)
   const t6 = performance.now()
 
   return {
-    bitmap, width, height,
-    pxPerMm: size.pxPerMm,
-    widthMm: targetWidthMm,
-    heightMm: size.heightMm,
-    threshold, histogram, png,
+    bitmap, width, height, pxPerMm,
+    widthMm: widthOf === 'frame' ? widthMm : width / pxPerMm,
+    heightMm: widthOf === 'frame' ? size.heightMm : height / pxPerMm,
+    threshold: level, histogram, png,
     source: { width: srcW, height: srcH, orientedWidth, orientedHeight },
-    size, settings,
+    size: widthOf === 'frame' ? size : { widthPx: width, heightPx: height, pxPerMm, heightMm: height / pxPerMm, capped: size.capped, scale: workW / region.width },
+    settings,
+    choices,
     timings: {
-      decodeMs: t1 - t0, greyMs: t2 - t1, resampleMs: t3 - t2, eveningMs: t4 - t3,
+      decodeMs: t1 - t0, analysisMs: t2 - t1, analysisSteps: analysis.timings, gridMs: t3 - t2, eveningMs: t4 - t3,
       thresholdMs: t5 - t4, pngMs: t6 - t5, totalMs: t6 - t0,
     },
   }

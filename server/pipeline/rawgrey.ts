@@ -27,3 +27,16 @@ export async function resizeGrey(grey: Uint8Array, width: number, height: number
 export async function blurGrey(grey: Uint8Array, width: number, height: number, sigma: number): Promise<Uint8Array> {
   return finish(sharp(grey, { raw: { width, height, channels: 1 } }).blur(Math.max(0.3, sigma)), width, height)
 }
+
+/** Half-size copy of a grey image (means of 2 × 2 pixels; an odd last row or column is left out). */
+export function halveGrey(img: Uint8Array, width: number, height: number): { img: Uint8Array, width: number, height: number } {
+  const w = width >> 1, h = height >> 1
+  const out = new Uint8Array(w * h)
+  for (let y = 0; y < h; y++) {
+    for (let x = 0; x < w; x++) {
+      const i = 2 * y * width + 2 * x
+      out[y * w + x] = (img[i]! + img[i + 1]! + img[i + width]! + img[i + width + 1]! + 2) >> 2
+    }
+  }
+  return { img: out, width: w, height: h }
+}

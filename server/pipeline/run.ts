@@ -1,9 +1,10 @@
-// The whole pipeline for one source and one set of settings: prepared bitmap → outline →
-// clean vector → measurements. Pure (no Nuxt, no storage): the worker pool runs it, and so
-// do the tests.
+// The whole pipeline for one source and one set of settings: automatic clean-up and prepared
+// bitmap of the drawing (trimmed to its ink: the requested width is the drawing's) → outline →
+// clean vector → measurements. Pure (no Nuxt, no storage): the worker pool runs it, and so do
+// the tests. A source that cannot become a decal is refused with a NotADrawingError.
 import sharp from 'sharp'
-import type { EngineVersions, Measurements, StageTimings } from '../../shared/types/pipeline'
-import { prepareBitmap, type PrepareOptions } from './prepare'
+import type { CleanUpChoice, EngineVersions, Measurements, StageTimings } from '../../shared/types/pipeline'
+import { prepareDrawing, type PrepareOptions } from './prepare'
 import { traceBitmap, outlineToSvg } from './trace'
 import { cleanVector } from './clean'
 import { measureCurves, smallPieces, narrowestFeatureMm } from './geometry'
@@ -18,6 +19,7 @@ export const DEFAULT_SMALL_PIECE_MM2 = 1
 export interface RunRequest {
   source: Uint8Array
   settings: PipelineSettingsInput
+  /** Width of the drawing's ink, mm (the decal is this plus the settings' margin on each side). */
   widthMm: number
   /** 'preview' works at screen resolution and skips nothing a designer reads. */
   purpose: 'revision' | 'preview'
@@ -32,6 +34,8 @@ export interface RunResult {
   histogram: number[]
   timings: StageTimings
   engineVersions: EngineVersions
+  /** The clean-up's choices: each setting's value used and why (see CleanUpChoice). */
+  choices: CleanUpChoice[]
 }
 
 /** Preview resolution: enough for a screen, small enough to answer while a slider moves. */
@@ -39,14 +43,14 @@ export const PREVIEW_OPTIONS: PrepareOptions = { minPxPerMm: 4, maxPxPerMm: 6, m
 
 export async function runPipeline(req: RunRequest): Promise<RunResult> {
   const t0 = performance.now()
-  const prepared = await prepareBitmap(req.source, req.settings, req.widthMm, req.purpose === 'preview' ? PREVIEW_OPTIONS : {})
+  const limit = req.smallPieceMm2 ?? DEFAULT_SMALL_PIECE_MM2
+  const prepared = await prepareDrawing(req.source, req.settings, req.widthMm, { ...(req.purpose === 'preview' ? PREVIEW_OPTIONS : {}), smallPieceMm2: limit })
   const t1 = performance.now()
   const outline = traceBitmap(prepared, prepared.settings)
   const t2 = performance.now()
   const clean = cleanVector(outline)
   const t3 = performance.now()
   const geometry = measureCurves(clean.curvesMm, 1)
-  const limit = req.smallPieceMm2 ?? DEFAULT_SMALL_PIECE_MM2
   const fid = await fidelity(clean.svg, prepared)
   // Measured on what will be cut: the clean vector rasterised back, so dropped specks do not count.
   const narrowest = narrowestFeatureMm(fid.raster, prepared.width, prepared.height, prepared.pxPerMm)
@@ -75,5 +79,6 @@ export async function runPipeline(req: RunRequest): Promise<RunResult> {
     },
     timings: { prepareMs: t1 - t0, traceMs: t2 - t1, cleanMs: t3 - t2, measureMs: t4 - t3, totalMs: t4 - t0 },
     engineVersions: { ...ENGINE_VERSIONS_BASE, sharp: sharp.versions.sharp ?? '', vips: sharp.versions.vips },
+    choices: prepared.choices,
   }
 }

@@ -2,7 +2,7 @@
 // server's event loop keeps answering while a revision is made.
 import sharp from 'sharp'
 import { runPipeline, type RunRequest, type RunResult } from './run'
-import { PrepareError, TooComplexError } from './errors'
+import { NotADrawingError, PrepareError, TooComplexError } from './errors'
 
 // Each worker thread is already one core's worth of work: libvips' own thread pool and its
 // operation cache would only add memory (peak memory with four revisions at once). Both
@@ -12,7 +12,7 @@ sharp.cache(false)
 
 export type WorkerAnswer =
   | { ok: true; result: RunResult }
-  | { ok: false; kind: 'prepare' | 'too-complex' | 'settings' | 'internal'; message: string }
+  | { ok: false; kind: 'prepare' | 'too-complex' | 'not-a-drawing' | 'settings' | 'internal'; message: string }
 
 export default async function work(req: RunRequest): Promise<WorkerAnswer> {
   try {
@@ -20,6 +20,7 @@ export default async function work(req: RunRequest): Promise<WorkerAnswer> {
   } catch (err) {
     // Errors cross the thread boundary as plain data, with the kind the route maps to a status.
     if (err instanceof TooComplexError) return { ok: false, kind: 'too-complex', message: err.message }
+    if (err instanceof NotADrawingError) return { ok: false, kind: 'not-a-drawing', message: err.message }
     if (err instanceof PrepareError) return { ok: false, kind: 'prepare', message: err.message }
     if (err instanceof RangeError) return { ok: false, kind: 'settings', message: err.message }
     if ((err as { name?: string }).name === 'ZodError') return { ok: false, kind: 'settings', message: 'The settings are not valid.' }

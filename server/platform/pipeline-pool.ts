@@ -50,6 +50,7 @@ export async function runInPool(req: RunRequest, signal?: AbortSignal): Promise<
   switch (answer.kind) {
     case 'too-complex': throw createError({ statusCode: 422, message: answer.message, data: { setting: 'speckFilterMm2' } })
     case 'prepare': throw createError({ statusCode: 422, message: answer.message })
+    case 'not-a-drawing': throw createError({ statusCode: 422, message: answer.message, data: { kind: 'not-a-drawing' } })
     case 'settings': throw createError({ statusCode: 400, message: answer.message })
     default: throw new Error(`pipeline failed: ${answer.message}`)
   }

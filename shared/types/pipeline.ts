@@ -1,4 +1,24 @@
 // What the outline pipeline reports for a revision or a preview.
+import type { CornersSetting, DropoutSetting, ThresholdSetting } from '../utils/settings'
+
+/** A setting value as written to pin a choice (never 'auto'). */
+type Pinned<T> = Exclude<T, { mode: 'auto' } | 'auto'>
+
+/**
+ * One clean-up choice of a run: which setting, the value used (written exactly as the
+ * setting would be written to pin it), whether the pipeline chose it ('auto' in the
+ * settings) or the designer did, and why, in one plain sentence.
+ */
+export type CleanUpChoice =
+  | { setting: 'corners', automatic: boolean, value: Pinned<CornersSetting>, reason: string }
+  | { setting: 'lightingEvening', automatic: boolean, value: { mode: 'on' | 'off', strength: number }, reason: string }
+  | { setting: 'inkColour', automatic: boolean, value: 'dark' | 'colour', reason: string }
+  | { setting: 'dropoutColour', automatic: boolean, value: Pinned<DropoutSetting>, reason: string }
+  | { setting: 'paperLines', automatic: boolean, value: 'keep' | 'remove', reason: string }
+  | { setting: 'threshold', automatic: boolean, value: Pinned<ThresholdSetting>, reason: string }
+  | { setting: 'marginMm', automatic: false, value: number, reason: string }
+
+export type CleanUpSetting = CleanUpChoice['setting']
 
 export interface Measurements {
   widthMm: number
@@ -18,7 +38,11 @@ export interface Measurements {
   smallPieceLimitMm2: number
   /** Intersection over union of the clean vector rasterised back and the prepared bitmap. */
   fidelity: number
-  /** The threshold used (automatic or manual), grey level 0–255; ink is grey ≤ threshold. */
+  /**
+   * The threshold used (automatic or manual), grey level 0–255; ink is grey ≤ threshold. With
+   * the adaptive method every pixel has its own level: this is then Otsu's level of the same
+   * grey image, a starting point for a manual threshold.
+   */
   threshold: number
   pxPerMm: number
   preparedWidthPx: number

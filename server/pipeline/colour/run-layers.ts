@@ -18,7 +18,7 @@ import { measureCurves, narrowestFeatureMm, smallPieces } from '../geometry'
 import { round2 } from '../../cutsheet/path'
 import { bitmapToPng, type PrepareOptions } from '../prepare'
 import { DEFAULT_SMALL_PIECE_MM2, PREVIEW_OPTIONS } from '../run'
-import { curvesToPathData, outlineToSvg, traceBitmap, type ClosedCurve, type Outline, type Point } from '../trace'
+import { outlineToSvg, traceBitmap, type ClosedCurve, type Outline, type Point } from '../trace'
 import type { Lab } from './lab'
 import { DEFAULT_MARKS, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
 import { stackedPreviewSvg } from './preview'
@@ -198,7 +198,7 @@ function traceWindow(mask: Uint8Array, width: number, height: number, pxPerMm: n
       ? { kind: 'line', from: p(s.from), to: p(s.to) }
       : { kind: 'cubic', from: p(s.from), c1: p(s.c1), c2: p(s.c2), to: p(s.to) }),
   }))
-  return { ...o, curves, pathData: curvesToPathData(curves), width, height }
+  return { ...o, curves, width, height }
 }
 
 /** The narrowest stroke of a layer rasterised back, measured on the window holding its ink. */

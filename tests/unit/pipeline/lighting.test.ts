@@ -110,9 +110,15 @@ describe('lighting evening on a phone photo', () => {
     expect(ours.overInk).toBeLessThanOrEqual(0.10)
     expect(hollowShare(prep.bitmap)).toBe(0)
 
-    // Without evening, a single threshold cannot cope with this light.
-    const plain = await prepareBitmap(jpeg, {}, 90)
+    // Without evening, a single threshold cannot cope with this light…
+    const plain = await prepareBitmap(jpeg, { lightingEvening: { mode: 'off' }, threshold: { mode: 'otsu' } }, 90)
     expect(errors(plain.bitmap, clean).overAll).toBeGreaterThan(0.05)
+    // …so at the defaults the analysis turns evening on by itself, and says why.
+    const auto = await prepareBitmap(jpeg, {}, 90)
+    expect(errors(auto.bitmap, clean).overAll).toBeLessThanOrEqual(0.03)
+    const choice = auto.choices.find((c) => c.setting === 'lightingEvening')!
+    expect(choice).toMatchObject({ automatic: true, value: { mode: 'on' } })
+    expect(choice.reason).toMatch(/darker at the (bottom |top )?(left|right)|towards the edges/)
 
     // The naive method: divide by a blur of the same size, without the max-filter (and min-filter).
     const { data, info } = await sharp(jpeg).raw().toBuffer({ resolveWithObject: true })

@@ -21,14 +21,27 @@ describe('settings', () => {
   it('has the documented defaults and validates', () => {
     expect(DEFAULT_SETTINGS).toEqual({
       luma: 'bt709',
-      lightingEvening: { enabled: false, strength: 1 },
+      corners: { mode: 'auto' },
+      quarterTurns: 0,
+      fineAngleDeg: 0,
+      lightingEvening: { mode: 'auto', strength: 1 },
+      inkColour: 'auto',
+      dropoutColour: { mode: 'auto' },
+      paperLines: 'auto',
       threshold: { mode: 'auto' },
       swapInkAndPaper: false,
       crop: null,
+      marginMm: 0,
       speckFilterMm2: 0.5,
       cornerRounding: 1,
       curveTolerance: 0.2,
     })
+    // Settings stored before evening could be automatic still read as they were meant.
+    expect(parseSettings({ lightingEvening: { enabled: true, strength: 0.7 } }).lightingEvening).toEqual({ mode: 'on', strength: 0.7 })
+    expect(parseSettings({ lightingEvening: { enabled: false } }).lightingEvening).toEqual({ mode: 'off', strength: 1 })
+    expect(parseSettings({ threshold: { mode: 'adaptive' } }).threshold).toEqual({ mode: 'adaptive', windowMm: 8, k: 0.2, r: 127.5 })
+    expect(() => parseSettings({ dropoutColour: { mode: 'colours', colours: ['blue'] } })).toThrow()
+    expect(() => parseSettings({ corners: { mode: 'manual', points: [{ x: 0, y: 0 }] } })).toThrow()
     expect(() => parseSettings({ threshold: { mode: 'manual', value: 300 } })).toThrow()
     expect(() => parseSettings({ cornerRounding: 2 })).toThrow()
     expect(parseSettings({ cornerRounding: 4 / 3 }).cornerRounding).toBeCloseTo(1.3333, 4)

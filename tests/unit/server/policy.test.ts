@@ -49,12 +49,12 @@ describe('the policy', () => {
     }
   })
 
-  it('gives program work to mentors, and the cut queue to operators as well', () => {
+  it('gives program work to mentors, the cut queue to operators as well, and everyone their own mail', () => {
     for (const action of PROGRAM_ACTIONS) {
       expect(can(people.mentor, action)).toBe(true)
-      expect(can(people.student, action)).toBe(false)
-      expect(can(people.designer, action)).toBe(false)
-      expect(can(people.operator, action)).toBe(action === 'queue.work')
+      expect(can(people.student, action)).toBe(action === 'mail.view')
+      expect(can(people.designer, action)).toBe(action === 'mail.view')
+      expect(can(people.operator, action)).toBe(action === 'queue.work' || action === 'mail.view')
     }
   })
 

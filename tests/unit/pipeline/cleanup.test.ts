@@ -1,0 +1,212 @@
+// The automatic clean-up's contract: trimming to the drawing, choices that can be pinned,
+// refusals of what cannot become a decal, and the plain modules it is made of.
+import sharp from 'sharp'
+import { describe, expect, it } from 'vitest'
+import { chroma, colourName, densityDirection, densityGrey, estimatePaperColour, orthonormal, type Rgb } from '../../../server/pipeline/colour'
+import { NotADrawingError } from '../../../server/pipeline/errors'
+import { findPaperLines, removeLines } from '../../../server/pipeline/lines'
+import { toGrey } from '../../../server/pipeline/luma'
+import { prepareBitmap, prepareDrawing } from '../../../server/pipeline/prepare'
+import { runPipeline } from '../../../server/pipeline/run'
+import { findSheet, sheetAspect, type Quad } from '../../../server/pipeline/sheet'
+import work from '../../../server/pipeline/worker'
+import { parseSettings, scaleSourceGeometry } from '../../../shared/utils/settings'
+import { gridBlue } from './hard-cases'
+import { gaussian, mulberry32, svgDoc, svgToPng } from './helpers'
+
+/** 400 × 300 white image with a black 200 × 200 square (x 50…249, y 40…239). */
+const MARKER = svgDoc(400, 300, '<rect x="50" y="40" width="200" height="200"/>')
+
+async function refusal(source: Buffer, widthMm = 100): Promise<NotADrawingError> {
+  const err = await runPipeline({ source: new Uint8Array(source), settings: {}, widthMm, purpose: 'revision' }).catch((e: unknown) => e)
+  expect(err).toBeInstanceOf(NotADrawingError)
+  return err as NotADrawingError
+}
+
+async function rgbPng(w: number, h: number, f: (x: number, y: number) => number): Promise<Buffer> {
+  const raw = Buffer.alloc(w * h * 3)
+  for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) raw.fill(Math.max(0, Math.min(255, Math.round(f(x, y)))), (y * w + x) * 3, (y * w + x) * 3 + 3)
+  return sharp(raw, { raw: { width: w, height: h, channels: 3 } }).png().toBuffer()
+}
+
+describe('trim to the drawing', () => {
+  it('the requested width is the drawing\'s; the margin is added around it', async () => {
+    const png = await svgToPng(MARKER)
+    const p = await prepareDrawing(png, {}, 20)
+    // the 200 px square is the drawing: 20 mm wide at 10 px/mm, as drawn
+    expect([p.width, p.height]).toEqual([200, 200])
+    expect(p.widthMm).toBe(20)
+    expect(p.pxPerMm).toBe(10)
+    expect(p.bitmap.every((v) => v === 1)).toBe(true)
+    const m = await prepareDrawing(png, { marginMm: 2 }, 20)
+    expect([m.width, m.height]).toEqual([240, 240]) // 20 px of paper on each side
+    expect(m.widthMm).toBe(24)
+    expect(m.bitmap[0]).toBe(0)
+    expect(m.choices.find((c) => c.setting === 'marginMm')!.reason).toMatch(/20\.0 × 20\.0 mm, with 2\.0 mm of paper/)
+  })
+
+  it('the clean vector and the measurements follow the drawing\'s size', async () => {
+    const source = new Uint8Array(await svgToPng(MARKER))
+    const r = await runPipeline({ source, settings: {}, widthMm: 20, purpose: 'revision' })
+    expect(r.cleanSvg).toMatch(/width="20mm"/)
+    expect(r.cleanSvg).toMatch(/height="20mm"/)
+    expect(r.measurements.widthMm).toBe(20)
+    expect(r.measurements.heightMm).toBe(20)
+    // With paper around it (ink off the bitmap's edges), the ink is the 20 × 20 mm square.
+    const framed = await runPipeline({ source, settings: { marginMm: 1 }, widthMm: 20, purpose: 'revision' })
+    expect(Math.abs(framed.measurements.widthMm - 22)).toBeLessThan(0.2)
+    expect(framed.measurements.inkAreaMm2).toBeCloseTo(400, -1)
+    expect(Math.abs(framed.measurements.inkAreaMm2 / 400 - 1)).toBeLessThan(0.01)
+    expect(r.choices.map((c) => c.setting)).toEqual(['corners', 'lightingEvening', 'inkColour', 'dropoutColour', 'paperLines', 'threshold', 'marginMm'])
+  })
+
+  it('the whole frame is kept by prepareBitmap (the width is the frame\'s)', async () => {
+    const p = await prepareBitmap(await svgToPng(MARKER), {}, 40)
+    expect([p.width, p.height]).toEqual([400, 300])
+  })
+})
+
+describe('automatic is a setting like any other', () => {
+  it('writing back every choice the analysis made gives the same prepared bitmap', async () => {
+    const c = await gridBlue()
+    const auto = await prepareDrawing(c.source, {}, c.widthMm)
+    const pinned = Object.fromEntries(auto.choices.filter((x) => x.setting !== 'marginMm').map((x) => [x.setting, x.value]))
+    const again = await prepareDrawing(c.source, pinned, c.widthMm)
+    expect(Buffer.from(again.bitmap).equals(Buffer.from(auto.bitmap))).toBe(true)
+    expect(again.choices.every((x) => !x.automatic)).toBe(true)
+    // and a pinned choice overrides the analysis
+    const kept = await prepareDrawing(c.source, { dropoutColour: { mode: 'none' }, paperLines: 'keep' }, c.widthMm)
+    let more = 0
+    for (let i = 0; i < kept.bitmap.length; i++) more += kept.bitmap[i]!
+    expect(kept.choices.find((x) => x.setting === 'paperLines')!.reason).toMatch(/kept, as set/)
+    expect(more).toBeGreaterThan(auto.bitmap.reduce((a, b) => a + b, 0) * 1.5) // the grid is back
+  })
+
+  it('crop and corners follow a shrunk preview source', () => {
+    const s = parseSettings({ crop: { x: 100, y: 40, width: 1000, height: 800 }, corners: { mode: 'manual', points: [{ x: 0, y: 0 }, { x: 1000, y: 10 }, { x: 990, y: 700 }, { x: 5, y: 690 }] } })
+    const half = scaleSourceGeometry(s, 0.5, 640, 480)
+    expect(half.crop).toEqual({ x: 50, y: 20, width: 500, height: 400 })
+    expect(half.corners).toEqual({ mode: 'manual', points: [{ x: 0, y: 0 }, { x: 500, y: 5 }, { x: 495, y: 350 }, { x: 2.5, y: 345 }] })
+    expect(scaleSourceGeometry(s, 1, 640, 480)).toBe(s)
+  })
+})
+
+describe('not a drawing: a clear refusal', () => {
+  it('a 1 × 1 image', async () => {
+    const err = await refusal(await rgbPng(1, 1, () => 0))
+    expect(err.reason).toBe('too-small')
+    expect(err.message).toMatch(/only 1 × 1 pixels/)
+  })
+
+  it('a blank page, unevenly lit and noisy', async () => {
+    const rnd = mulberry32(3)
+    const err = await refusal(await rgbPng(400, 300, (x, y) => 235 - 40 * (x / 400) * (y / 300) + 3 * gaussian(rnd)))
+    expect(err.reason).toBe('blank')
+    expect(err.message).toMatch(/No drawing was found/)
+  })
+
+  it('everything ink', async () => {
+    const rnd = mulberry32(4)
+    const err = await refusal(await rgbPng(300, 200, () => 12 + 4 * rnd()))
+    expect(err.reason).toBe('all-ink')
+    const black = await refusal(await svgToPng(svgDoc(300, 200, '<rect width="300" height="200"/><rect x="0" y="0" width="2" height="2" fill="#fff"/>')))
+    expect(black.reason).toBe('all-ink')
+    expect(black.message).toMatch(/swap ink and paper/)
+  })
+
+  it('most pieces too small to weed', async () => {
+    // a scatter of dots of about 0.7 mm² at the decal's size (590 px across for 100 mm: over
+    // the 0.5 mm² speck filter, under the 1 mm² a piece needs to survive weeding)
+    const rnd = mulberry32(9)
+    let dots = '<rect x="5" y="5" width="6" height="6"/><rect x="589" y="389" width="6" height="6"/>'
+    for (let i = 0; i < 120; i++) dots += `<rect x="${(20 + rnd() * 560).toFixed(0)}" y="${(20 + rnd() * 360).toFixed(0)}" width="5" height="5"/>`
+    const err = await refusal(await svgToPng(svgDoc(600, 400, dots)), 100)
+    expect(err.reason).toBe('specks')
+    expect(err.message).toMatch(/would be lost when weeding/)
+  })
+
+  it('crosses the worker thread as its own kind', async () => {
+    const answer = await work({ source: new Uint8Array(await rgbPng(1, 1, () => 0)), settings: {}, widthMm: 10, purpose: 'preview' })
+    expect(answer).toMatchObject({ ok: false, kind: 'not-a-drawing' })
+  })
+})
+
+describe('colour', () => {
+  it('a yellow marker reads as ink by density, where luma nearly loses it', () => {
+    const paper = estimatePaperColour(new Uint8Array([250, 248, 240, 250, 248, 240, 250, 248, 240]), 3, 'bt709')
+    const yellow = new Uint8Array([244, 210, 28])
+    const byDensity = densityGrey(yellow, 1, { paper, paperLuma: null, dropped: [] })[0]!
+    const byLuma = toGrey(yellow, 1, 1, 3, 'bt709')[0]!
+    expect(byLuma).toBeGreaterThan(200) // ITU-R BT.709 luma of this yellow: 0.2126·244 + 0.7152·210 + 0.0722·28
+    expect(byDensity).toBeLessThan(40) // 255 · exp(−ln(240/28)): the blue channel, absorbed
+    expect(colourName([244, 210, 28])).toBe('yellow')
+    expect(colourName([128, 128, 130])).toBe('grey')
+    expect(chroma(0.1, 0.1, 2)).toBeGreaterThan(0.9)
+  })
+
+  it('dropping a colour takes out lines of it, and keeps grey ink over them', () => {
+    const paper = estimatePaperColour(new Uint8Array([248, 248, 245]), 1, 'bt709')
+    const blue: Rgb = [140, 180, 228]
+    const dir = densityDirection(blue, paper)!
+    const drop = orthonormal([dir])
+    // Densities of layers add: grey pencil (×0.45 in each channel) over the blue line.
+    const pencil: Rgb = [0.45 * 248, 0.45 * 248, 0.45 * 245]
+    const over: Rgb = [blue[0] * 0.45, blue[1] * 0.45, blue[2] * 0.45 * 245 / 245]
+    const px = new Uint8Array([...blue, ...pencil, ...over].map(Math.round))
+    const g = densityGrey(px, 3, { paper, paperLuma: null, dropped: drop })
+    expect(g[0]).toBeGreaterThan(245) // the line: paper
+    expect(Math.abs(g[1]! - g[2]!)).toBeLessThanOrEqual(3) // pencil reads the same over the line as beside it
+    expect(g[1]).toBeLessThan(200)
+  })
+})
+
+describe('paper lines', () => {
+  it('finds a slightly skewed grid, its spacing and slope, and takes it out but not the strokes', async () => {
+    // 4 px lines every 30 px, turned by 1°; a thick stroke across them, one lying along a line.
+    const w = 600, h = 450, deg = 1
+    let body = `<g transform="rotate(${deg} 300 225)">`
+    for (let y = -60; y < h + 60; y += 30) body += `<rect x="-60" y="${y}" width="${w + 120}" height="2" fill="#777"/>`
+    for (let x = -60; x < w + 60; x += 30) body += `<rect x="${x}" y="-60" width="2" height="${h + 120}" fill="#777"/>`
+    body += '</g><path d="M80 80 L520 380" stroke="#000" stroke-width="12"/><rect x="100" y="330" width="300" height="10"/>'
+    const png = await svgToPng(svgDoc(w, h, body))
+    const { data } = await sharp(png).greyscale().raw().toBuffer({ resolveWithObject: true })
+    const darkness = Uint8Array.from(data, (v) => 255 - v)
+    const families = findPaperLines(darkness, w, h).filter((f) => f.regular)
+    expect(families.map((f) => f.orientation).sort()).toEqual(['horizontal', 'vertical'])
+    for (const f of families) {
+      expect(Math.abs(f.period - 30)).toBeLessThan(0.3)
+      expect(Math.abs(Math.atan(f.slope) * 180 / Math.PI - (f.orientation === 'horizontal' ? deg : -deg))).toBeLessThanOrEqual(0.15)
+      expect(f.offsets.length).toBeGreaterThanOrEqual(13)
+    }
+    const bm = Uint8Array.from(data, (v) => (v < 160 ? 1 : 0))
+    for (const f of families) removeLines(bm, w, h, f)
+    // the diagonal stroke is whole, the bar along a line is whole, the grid is gone
+    const at = (x: number, y: number) => bm[y * w + x]
+    expect(at(300, 230)).toBe(1) // on the diagonal, near a crossing
+    let bar = 0
+    for (let x = 110; x < 390; x++) for (let y = 331; y < 339; y++) bar += at(x, y)!
+    expect(bar).toBeGreaterThan(0.97 * 280 * 8)
+    let left = 0
+    for (let y = 0; y < 60; y++) for (let x = 450; x < w; x++) left += at(x, y)!
+    expect(left).toBeLessThan(40)
+  })
+})
+
+describe('the sheet', () => {
+  it('finds a sheet\'s corners on a dark table to a fraction of a pixel', async () => {
+    const q: Quad = [{ x: 130.5, y: 90.25 }, { x: 640.75, y: 140.5 }, { x: 600.25, y: 520.75 }, { x: 95.5, y: 480.5 }]
+    const png = await svgToPng(`<svg xmlns="http://www.w3.org/2000/svg" width="760" height="600"><rect width="760" height="600" fill="#4a4038"/>
+      <path d="M${q.map((p) => `${p.x} ${p.y}`).join(' L')} Z" fill="#f1efe8"/><circle cx="380" cy="300" r="60" fill="#222"/></svg>`)
+    const { data, info } = await sharp(png).greyscale().raw().toBuffer({ resolveWithObject: true })
+    const found = findSheet(new Uint8Array(data), info.width, info.height)!
+    for (let i = 0; i < 4; i++) expect(Math.hypot(found.corners[i]!.x - q[i]!.x, found.corners[i]!.y - q[i]!.y)).toBeLessThan(0.5)
+    // a page that fills the picture has no corners to find
+    const page = await sharp({ create: { width: 300, height: 200, channels: 3, background: '#f4f4f0' } }).raw().toBuffer()
+    expect(findSheet(toGrey(page, 300, 200, 3, 'bt709'), 300, 200)).toBeNull()
+  })
+
+  it('a rectangle seen square-on keeps its proportions', () => {
+    const q: Quad = [{ x: 100, y: 100 }, { x: 400, y: 100 }, { x: 400, y: 300 }, { x: 100, y: 300 }]
+    expect(sheetAspect(q, 250, 200, 500).aspect).toBeCloseTo(1.5, 9)
+  })
+})
