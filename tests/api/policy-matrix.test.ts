@@ -237,9 +237,11 @@ function routeFiles(dir = path.resolve('server/api'), prefix = '/api'): string[]
 }
 
 async function ask(who: Who, method: string, a: Ask): Promise<Reply> {
-  // A copy of the person's client, so that signing out signs out only the copy.
+  // A copy of the person's client; signing out ends the session itself (not only the cookie),
+  // so that is asked in a session of its own.
   const c = new ApiClient()
-  c.cookies = new Map(clients[who].cookies)
+  if (a.path === '/api/auth/sign-out' && who !== 'signed out') c.cookies = new Map((await signedIn(DEMO_ACCOUNTS[who].email, DEMO_PASSWORD)).cookies)
+  else c.cookies = new Map(clients[who].cookies)
   if (a.upload) return uploadArtwork(c, { file: await drawing('png', 200, 140), title: unique(), teamId: a.upload.teamId, widthMm: 30 })
   return c.request(method, a.path, a.body)
 }
