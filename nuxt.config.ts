@@ -13,7 +13,7 @@ export default defineNuxtConfig({
   // Page headers: a content security policy with a nonce per response (no page may be framed,
   // nothing loads from elsewhere), nosniff and a referrer policy. The module's in-memory rate
   // limiter, size limiter, CORS and XSS filters are off: limits live in PostgreSQL so they
-  // hold across app processes, bodies are limited while they are read (server/utils/body.ts),
+  // hold across app processes, bodies are limited while they are read (server/platform/body.ts),
   // and cross-site writes are refused by server/middleware/02.request-guard.ts.
   security: {
     nonce: true,

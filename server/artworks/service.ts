@@ -117,7 +117,14 @@ async function insertRevision(trx: Transaction<Database>, o: { artworkId: number
   return rev
 }
 
-export interface NewArtwork { title: string; widthMm: number; fileName: string; bytes: Uint8Array }
+export interface NewArtwork {
+  title: string
+  widthMm: number
+  fileName: string
+  bytes: Uint8Array
+  /** SHA-256 of the bytes when the caller has it already (the upload hashes while it reads). */
+  contentHash?: string
+}
 
 /** A new artwork from an uploaded picture, with revision 1 at default settings. The caller has checked `artwork.upload` in the team. */
 export async function createArtwork(db: Db, actor: Actor, team: TeamSubject, input: NewArtwork): Promise<CreatedArtwork> {
@@ -125,7 +132,7 @@ export async function createArtwork(db: Db, actor: Actor, team: TeamSubject, inp
   const settings = parseSettings({})
   // The outline first: a file that cannot be traced leaves nothing behind.
   const result = await runInPool({ source: input.bytes, settings, widthMm: input.widthMm, purpose: 'revision' })
-  const hash = contentHash(input.bytes)
+  const hash = input.contentHash ?? contentHash(input.bytes)
   const sourceKey = `sources/${hash}`
   const created: string[] = []
   try {

@@ -1,0 +1,64 @@
+// Reading request bodies a piece at a time, never more than a limit. A body over its limit is
+// answered 413 as soon as the limit is passed, and nothing more of it is read: the request
+// stops flowing and the connection closes once the answer is out, so a chunked body of any
+// size costs at most its limit in memory and no long stretch of the event loop.
+import { Readable } from 'node:stream'
+import { createError, readRawBody, type H3Event } from 'h3'
+
+/** 413 with a sentence; reading stops and the connection closes after the answer. */
+export function bodyTooLarge(event: H3Event, message: string): Error {
+  stopReading(event)
+  return createError({ statusCode: 413, message })
+}
+
+/**
+ * Stops taking the request's body. Node closes a connection whose answer says
+ * "Connection: close" as soon as the answer is written, so the client cannot go on sending.
+ */
+export function stopReading(event: H3Event): void {
+  const { req, res } = event.node
+  req.unpipe()
+  req.pause()
+  if (!res.headersSent) res.setHeader('connection', 'close')
+}
+
+/** The request as a Node stream, or undefined for a request made inside the server (no stream). */
+export function requestStream(event: H3Event): Readable | undefined {
+  return event.node.req instanceof Readable ? event.node.req : undefined
+}
+
+/** The whole body as bytes, refused with 413 (`message`) once it passes `limit` bytes. */
+export async function readBodyUpTo(event: H3Event, limit: number, message: string): Promise<Buffer> {
+  const req = requestStream(event)
+  if (!req) {
+    // A request from inside the server (server-side rendering) carries its body already.
+    const raw = await readRawBody(event, false)
+    if (raw && raw.byteLength > limit) throw createError({ statusCode: 413, message })
+    return Buffer.from(raw ?? [])
+  }
+  return new Promise<Buffer>((resolve, reject) => {
+    const chunks: Buffer[] = []
+    let size = 0
+    const done = () => {
+      req.off('data', onData).off('end', onEnd).off('error', onError).off('close', onClose)
+    }
+    const onData = (chunk: Buffer) => {
+      size += chunk.byteLength
+      if (size > limit) {
+        done()
+        reject(bodyTooLarge(event, message))
+        return
+      }
+      chunks.push(chunk)
+    }
+    const onEnd = () => { done(); resolve(Buffer.concat(chunks, size)) }
+    const onError = () => { done(); reject(unreadable()) }
+    // The client went away before the end.
+    const onClose = () => { done(); reject(unreadable()) }
+    req.on('data', onData).once('end', onEnd).once('error', onError).once('close', onClose)
+  })
+}
+
+export function unreadable(): Error {
+  return createError({ statusCode: 400, message: 'The request body could not be read to its end.' })
+}
