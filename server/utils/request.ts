@@ -3,6 +3,7 @@ import { createHash } from 'node:crypto'
 import { createError, getQuery, getRouterParam, type H3Event } from 'h3'
 import { z } from 'zod'
 import { UPLOAD_ENVELOPE_BYTES, UPLOAD_LIMIT_BYTES } from '#shared/constants/uploads'
+import { formNumber } from '#shared/utils/schemas'
 import { readBodyUpTo } from '../platform/body'
 import { formatBytes, invalidInput } from '../platform/http'
 
@@ -44,7 +45,7 @@ export function readQuery<S extends z.ZodType>(event: H3Event, schema: S): z.out
   return result.data
 }
 
-const idSchema = z.coerce.number().int().positive().max(2 ** 31 - 1)
+const idSchema = formNumber(z.number().int().positive().max(2 ** 31 - 1))
 
 /** A numeric route parameter; anything else is 404 (there is no such thing). */
 export function idParam(event: H3Event, name = 'id'): number {
