@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto'
 import { DeleteObjectCommand, GetObjectCommand, HeadBucketCommand, HeadObjectCommand, ListObjectsV2Command, PutObjectCommand, S3Client, NotFound } from '@aws-sdk/client-s3'
 import { platformConfig } from './config'
+import { SharedBytes } from './body'
 import { fileStoreFault } from './faults'
 
 /** How long the store may stay silent (connecting, or mid-answer) before a request gives up. */
@@ -60,10 +61,13 @@ export async function objectExists(key: string): Promise<boolean> {
   })
 }
 
+/** A stored file's bytes, in shared memory (a worker thread reads them without a copy). */
 export async function getObject(key: string): Promise<Buffer> {
   return withStore(async (s3, bucket) => {
     const r = await s3.send(new GetObjectCommand({ Bucket: bucket, Key: key }))
-    return Buffer.from(await r.Body!.transformToByteArray())
+    const bytes = new SharedBytes(r.ContentLength ?? 0)
+    for await (const chunk of r.Body as AsyncIterable<Uint8Array>) bytes.push(chunk)
+    return bytes.bytes()
   })
 }
 

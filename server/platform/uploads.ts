@@ -1,13 +1,13 @@
 // Multipart uploads, parsed as they arrive by busboy (a streaming parser): the picture is
-// counted and hashed piece by piece, and an upload over the limit is answered 413 the moment
-// it passes the limit, without reading the rest. No step works on the whole body at once, so
-// a legal 25 MB upload never holds up the event loop.
+// copied into shared memory and hashed piece by piece, and an upload over the limit is answered
+// 413 the moment it passes the limit, without reading the rest. No step works on the whole body
+// at once, so a legal 25 MB upload never holds up the event loop.
 import { createHash } from 'node:crypto'
 import busboy from 'busboy'
 import { createError, getRequestHeader, type H3Event } from 'h3'
 import { z } from 'zod'
 import { UPLOAD_ENVELOPE_BYTES, UPLOAD_LIMIT_BYTES } from '#shared/constants/uploads'
-import { bodyTooLarge, requestStream, stopReading, unreadable } from './body'
+import { bodyTooLarge, requestStream, SharedBytes, stopReading, unreadable } from './body'
 import { formatBytes } from './http'
 
 export interface Upload<T> {
@@ -22,7 +22,7 @@ const TOO_LARGE = `The picture is larger than ${formatBytes(UPLOAD_LIMIT_BYTES)}
 /** A form's text fields are short; anything longer is not one of our forms. */
 const FIELD_BYTES = 16 * 1024
 
-interface Parsed { fields: Record<string, string>; file?: { name: string; chunks: Buffer[]; size: number; hash: string } }
+interface Parsed { fields: Record<string, string>; file?: { name: string; bytes: SharedBytes; hash: string } }
 
 /** Reads a multipart upload with one `file` part and text fields validated by `schema`. */
 export async function readUpload<S extends z.ZodType>(event: H3Event, schema: S): Promise<Upload<z.output<S>>> {
@@ -33,13 +33,12 @@ export async function readUpload<S extends z.ZodType>(event: H3Event, schema: S)
   const { fields, file } = await parseMultipart(event)
   const parsed = schema.safeParse(fields)
   const fieldErrors: Record<string, string[]> = parsed.success ? {} : { ...(z.flattenError(parsed.error).fieldErrors as Record<string, string[]>) }
-  if (!file || file.size === 0) fieldErrors.file = ['Choose a picture to upload.']
+  if (!file || file.bytes.byteLength === 0) fieldErrors.file = ['Choose a picture to upload.']
   if (Object.keys(fieldErrors).length) {
     throw createError({ statusCode: 400, message: `Please check the form: ${Object.values(fieldErrors)[0]![0]}`, data: { fieldErrors } })
   }
-  // One copy of at most the limit: a memory copy, no parsing.
-  const bytes = Buffer.concat(file!.chunks, file!.size)
   event.context.bodyFingerprint = createHash('sha256').update(JSON.stringify([fields, file!.name, file!.hash])).digest('hex')
+  const bytes = file!.bytes.bytes()
   return { fields: (parsed as { data: z.output<S> }).data, fileName: file!.name, bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength), contentHash: file!.hash }
 }
 
@@ -83,11 +82,12 @@ function parseMultipart(event: H3Event): Promise<Parsed> {
       // Only the first "file" part is ours; anything else is drained and forgotten.
       if (name !== 'file' || result.file) { stream.resume(); return }
       const hash = createHash('sha256')
-      const file = { name: info.filename ?? '', chunks: [] as Buffer[], size: 0, hash: '' }
+      // The declared length bounds the picture: one block, filled as the pieces arrive.
+      const declared = Number(event.node.req.headers['content-length']) || 0
+      const file = { name: info.filename ?? '', bytes: new SharedBytes(Math.min(declared, UPLOAD_LIMIT_BYTES) || 1024 * 1024), hash: '' }
       result.file = file
       stream.on('data', (chunk: Buffer) => {
-        file.size += chunk.byteLength
-        file.chunks.push(chunk)
+        file.bytes.push(chunk)
         hash.update(chunk)
       })
       stream.on('limit', () => finish(bodyTooLarge(event, TOO_LARGE)))
