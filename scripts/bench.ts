@@ -19,6 +19,7 @@ import { benchCutSheets } from './lib/bench-cutsheet'
 import { benchPlates } from './lib/bench-plates'
 import { benchGeometry } from './lib/bench-geometry'
 import { benchColour } from './lib/bench-colour'
+import { benchTrust } from './lib/bench-trust'
 
 const RUNS = Number(process.env.BENCH_RUNS ?? 5)
 const WIDTH_MM = 150
@@ -171,6 +172,7 @@ async function main() {
   await benchCutSheets(RUNS)
   await benchPlates(RUNS)
   await benchColour(RUNS)
+  await benchTrust()
 
   // The tuning bench, end to end in a real browser (skip with BENCH_BROWSER=0).
   if (process.env.BENCH_BROWSER !== '0') {
