@@ -4,9 +4,9 @@
 //   Forgery Prevention Cheat Sheet, "Verifying Origin With Standard Headers"; the session
 //   cookie is also SameSite=Lax.)
 // - body size: JSON bodies are small; a declared length over the limit is refused with 413
-//   before anything is read, and the connection closes after the answer. Routes that take
-//   files set their own, larger limit. A body sent without a length is limited while it is
-//   read (server/platform/body.ts, server/platform/uploads.ts).
+//   before anything is read, and nothing of it is kept (server/platform/body.ts stopReading).
+//   Routes that take files set their own, larger limit. A body sent without a length is
+//   limited while it is read (server/platform/body.ts, server/platform/uploads.ts).
 import { bodyTooLarge } from '../platform/body'
 import { formatBytes } from '../platform/http'
 import { requestHost } from '../platform/client-address'

@@ -1,23 +1,36 @@
 // Reading request bodies a piece at a time, never more than a limit. A body over its limit is
-// answered 413 as soon as the limit is passed, and nothing more of it is read: the request
-// stops flowing and the connection closes once the answer is out, so a chunked body of any
+// answered 413 as soon as the limit is passed, and nothing more of it is kept: a chunked or
+// huge body stops flowing and the connection closes once the answer is out, so a body of any
 // size costs at most its limit in memory and no long stretch of the event loop.
 import { Readable } from 'node:stream'
 import { createError, readRawBody, type H3Event } from 'h3'
+import { UPLOAD_ENVELOPE_BYTES, UPLOAD_LIMIT_BYTES } from '#shared/constants/uploads'
 
-/** 413 with a sentence; reading stops and the connection closes after the answer. */
+/** A declared body up to this size is read to its end and thrown away after a 413 (see stopReading). */
+export const DRAIN_LIMIT_BYTES = 2 * (UPLOAD_LIMIT_BYTES + UPLOAD_ENVELOPE_BYTES)
+
+/** 413 with a sentence; what is left of the body is not kept (see stopReading). */
 export function bodyTooLarge(event: H3Event, message: string): Error {
   stopReading(event)
   return createError({ statusCode: 413, message })
 }
 
 /**
- * Stops taking the request's body. Node closes a connection whose answer says
- * "Connection: close" as soon as the answer is written, so the client cannot go on sending.
+ * Stops taking the request's body. A body that declared a moderate length (at most
+ * DRAIN_LIMIT_BYTES) is read on and thrown away, so the client can finish sending and read its
+ * 413: a connection closed under a client still sending loses the answer with it (the reset
+ * discards what the client had not yet read). Any other body stops flowing, and the answer says
+ * "Connection: close", on which Node closes the connection as soon as the answer is written.
+ * Either way nothing more of it is kept in memory.
  */
 export function stopReading(event: H3Event): void {
   const { req, res } = event.node
   req.unpipe()
+  const declared = Number(req.headers['content-length'])
+  if (declared > 0 && declared <= DRAIN_LIMIT_BYTES) {
+    req.resume()
+    return
+  }
   req.pause()
   if (!res.headersSent) res.setHeader('connection', 'close')
 }
