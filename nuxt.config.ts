@@ -13,7 +13,7 @@ export default defineNuxtConfig({
   // Page headers: a content security policy with a nonce per response (no page may be framed,
   // nothing loads from elsewhere), nosniff and a referrer policy. The module's in-memory rate
   // limiter, size limiter, CORS and XSS filters are off: limits live in PostgreSQL so they
-  // hold across app processes, bodies are limited while they are read (server/utils/body.ts),
+  // hold across app processes, bodies are limited while they are read (server/platform/body.ts),
   // and cross-site writes are refused by server/middleware/02.request-guard.ts.
   security: {
     nonce: true,
@@ -81,6 +81,13 @@ export default defineNuxtConfig({
     trustedProxies: '',
     // NUXT_DB_QUERY_TIMEOUT_MS: how long one database query may take before the request is answered 503.
     dbQueryTimeoutMs: 15000,
+    // NUXT_S3_TIMEOUT_MS: how long the object store may take to connect, or stay silent mid-answer,
+    // before the request is answered 503 (one retry first).
+    s3TimeoutMs: 10000,
+    // NUXT_ORPHAN_MIN_AGE_S: stored files nothing points at are removed once this old.
+    orphanMinAgeS: 3600,
+    // NUXT_ORPHAN_SWEEP_INTERVAL_S: how often one of the app processes looks for them.
+    orphanSweepIntervalS: 600,
     // NUXT_PUBLIC_BASE_URL: used for links in e-mail.
     public: {
       baseUrl: 'http://localhost:3000',
@@ -106,6 +113,15 @@ export default defineNuxtConfig({
     hooks: {
       // The pipeline runs in worker threads, which need a file of their own next to the server.
       compiled: (nitro) => buildPipelineWorker(nitro.options.dev ? nitro.options.buildDir : nitro.options.output.serverDir),
+    },
+  },
+  hooks: {
+    // Our error handler runs before Nuxt's and Nitro's own: it turns an outside service that did
+    // not answer (server/platform/faults.ts) into a 503 with a sentence, which they then render
+    // as they render any error (JSON for the API, the error page for a page).
+    'nitro:config': (config) => {
+      const theirs = [config.errorHandler ?? []].flat()
+      config.errorHandler = [fileURLToPath(new URL('./server/error-handler.ts', import.meta.url)), ...theirs]
     },
   },
   typescript: { strict: true },

@@ -20,6 +20,7 @@ import { benchPlates } from './lib/bench-plates'
 import { benchGeometry } from './lib/bench-geometry'
 import { benchColour } from './lib/bench-colour'
 import { benchCleanup } from './lib/bench-cleanup'
+import { benchTrust } from './lib/bench-trust'
 
 const RUNS = Number(process.env.BENCH_RUNS ?? 5)
 const WIDTH_MM = 150
@@ -173,6 +174,7 @@ async function main() {
   await benchPlates(RUNS)
   await benchColour(RUNS)
   await benchCleanup(RUNS)
+  await benchTrust()
 
   // The tuning bench, end to end in a real browser (skip with BENCH_BROWSER=0).
   if (process.env.BENCH_BROWSER !== '0') {

@@ -41,14 +41,21 @@ export function useFormState() {
     }
   }
 
-  /** Runs one submission at a time; the callback does the success work. Resolves true on success. */
-  async function submit(work: () => Promise<void>): Promise<boolean> {
+  const key = submissionKey()
+
+  /**
+   * Runs one submission at a time; the callback does the success work, sending `headers` (the
+   * submission's Idempotency-Key) with the request that creates something. Resolves true on success.
+   */
+  async function submit(work: (send: { headers: Record<string, string> }) => Promise<void>): Promise<boolean> {
     if (pending.value) return false
     pending.value = true
     try {
-      await work()
+      await work({ headers: key.headers() })
+      key.settled()
       return true
     } catch (err) {
+      key.settled(err)
       fail(err)
       return false
     } finally {

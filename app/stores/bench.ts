@@ -6,7 +6,7 @@ import { latestOnly, type LatestOnlyInfo } from '~/utils/latest-only'
 import { cloneSettings, followingHeightMm, normaliseSettings, sameSettings, settingsKey, SETTING_LIMITS, type BenchSettings } from '~/utils/bench-settings'
 import { benchWarnings } from '~/utils/bench-warnings'
 import { parseOutlineSvg } from '~/utils/outline-svg'
-import { apiProblem, type ApiProblem } from '~/utils/api'
+import { apiProblem, submissionKey, type ApiProblem } from '~/utils/api'
 
 /** Quiet time after the last change before a preview is asked for, ms. */
 export const PREVIEW_DELAY_MS = 150
@@ -222,6 +222,8 @@ export const useBenchStore = defineStore('bench', () => {
   /** The shown preview is of other settings than those on the controls (one is on its way). */
   const stale = computed(() => !!previewOf.value && !sameSettings(previewOf.value.settings, previewOf.value.widthMm, settings.value, widthMm.value))
 
+  // A save clicked twice, or retried after a lost answer, makes one revision.
+  const saveKey = submissionKey()
   async function save(): Promise<RevisionDetail | null> {
     if (artworkId.value === null || saving.value) return null
     const s = snapshot()
@@ -232,7 +234,9 @@ export const useBenchStore = defineStore('bench', () => {
       const rev = await $fetch<RevisionDetail>(`/api/artworks/${s.artworkId}/revisions`, {
         method: 'POST',
         body: { settings: s.settings, widthMm: s.widthMm },
+        headers: saveKey.headers(),
       })
+      saveKey.settled()
       if (artwork.value && artwork.value.artwork.id === rev.artworkId) {
         const summary: RevisionSummary = {
           id: rev.id, number: rev.number, status: rev.status, widthMm: rev.widthMm, heightMm: rev.heightMm,
@@ -252,6 +256,7 @@ export const useBenchStore = defineStore('bench', () => {
       quiet = false
       return rev
     } catch (err) {
+      saveKey.settled(err)
       saveError.value = apiProblem(err)
       return null
     } finally {

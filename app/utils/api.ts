@@ -49,13 +49,49 @@ export function statusOf(err: unknown): number {
   return apiProblem(err).status
 }
 
-/** Only same-site paths are followed after sign-in, so a crafted link cannot send people elsewhere. */
+/**
+ * Only same-site paths are followed after sign-in, so a crafted link cannot send people elsewhere.
+ * Control characters and backslashes are refused anywhere: URL parsers drop tabs and newlines
+ * and read a backslash as "/" (WHATWG URL Standard, basic URL parser), so "/\t/evil.example" would
+ * become "//evil.example", another site; and such a path cannot go in a Location header.
+ */
 export function safeNext(next: unknown): string | null {
   const value = Array.isArray(next) ? next[0] : next
   if (typeof value !== 'string') return null
-  if (!value.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return null
+  // eslint-disable-next-line no-control-regex
+  if (/[\u0000-\u001f\u007f\\]/.test(value)) return null
+  if (!value.startsWith('/') || value.startsWith('//')) return null
   if (value.startsWith('/sign-in')) return null
   return value
+}
+
+/** Sent with every request that creates something, so a form sent twice is done once. */
+export const IDEMPOTENCY_HEADER = 'Idempotency-Key'
+
+/**
+ * A fresh random key (128 bits, hex). getRandomValues works on plain http too, where
+ * crypto.randomUUID is missing (a school server reached by its address on the local network).
+ */
+export function newIdempotencyKey(): string {
+  const bytes = crypto.getRandomValues(new Uint8Array(16))
+  return Array.from(bytes, (b) => b.toString(16).padStart(2, '0')).join('')
+}
+
+/**
+ * The Idempotency-Key of one submission at a time. It lives until a definite answer, so a second
+ * click or a retry after an answer that never came is the same submission and the server does
+ * the work once; after a success or a refusal of what was sent, the next submission gets a
+ * fresh key. Without an answer, or while the first is still being done (409), the key stays.
+ */
+export function submissionKey() {
+  let key: string | null = null
+  return {
+    headers: (): Record<string, string> => ({ [IDEMPOTENCY_HEADER]: (key ??= newIdempotencyKey()) }),
+    settled(err?: unknown) {
+      const status = err === undefined ? 200 : statusOf(err)
+      if (status < 500 && status !== 0 && status !== 409) key = null
+    },
+  }
 }
 
 /** Pages anyone may open without signing in. */

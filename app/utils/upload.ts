@@ -51,12 +51,13 @@ export interface UploadProgress {
  * Resolves with the JSON answer; rejects with { statusCode, data } like $fetch, so
  * apiProblem() reads it the same way.
  */
-export function postWithProgress<T>(url: string, body: FormData, onProgress: (p: UploadProgress) => void): Promise<T> {
+export function postWithProgress<T>(url: string, body: FormData, onProgress: (p: UploadProgress) => void, headers: Record<string, string> = {}): Promise<T> {
   return new Promise<T>((resolve, reject) => {
     const xhr = new XMLHttpRequest()
     xhr.open('POST', url)
     xhr.responseType = 'text'
     xhr.setRequestHeader('accept', 'application/json')
+    for (const [name, value] of Object.entries(headers)) xhr.setRequestHeader(name, value)
     onProgress({ phase: 'sending', sent: 0 })
     xhr.upload.addEventListener('progress', (e) => {
       onProgress({ phase: 'sending', sent: e.lengthComputable && e.total > 0 ? e.loaded / e.total : null })

@@ -1,14 +1,10 @@
 // The tuning bench's preview round trip as a designer feels it: a real app on its own
 // services, a 12 MP phone photo, Debian's Chromium, the curve tolerance changed again and
 // again; the bench records, for each answer, the time from the request to the drawn outline.
-import { existsSync, rmSync } from 'node:fs'
-import path from 'node:path'
+import { existsSync } from 'node:fs'
 import { chromium } from 'playwright-core'
-import { startStack } from './stack'
-import { buildApp } from './build'
-import { startApp } from './app-process'
-import { createDb, migrateToLatest } from '../../server/db/connect'
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, loadDemo } from '../../server/db/demo'
+import { benchApp } from './bench-app'
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/demo'
 
 const PORTS = { app: 3961, pg: 54361, s3: 4591, smtp: 2561 }
 
@@ -22,26 +18,16 @@ export interface RoundTrips { requestMs: number[]; sinceChangeMs: number[]; serv
 
 export async function benchBrowserRoundTrip(photo: Buffer, changes: number): Promise<RoundTrips | string> {
   if (!existsSync('/usr/bin/chromium')) return 'Debian\'s chromium is not installed (apt-get install chromium): no browser figure.'
-  const storageDir = path.resolve('storage/bench')
-  rmSync(storageDir, { recursive: true, force: true })
-  const clean = Object.fromEntries(Object.entries(process.env).filter(([k]) => !k.startsWith('NUXT_')))
-  const stack = await startStack({ storageDir, pgPort: PORTS.pg, s3Port: PORTS.s3, smtpPort: PORTS.smtp, env: clean })
-  let app: Awaited<ReturnType<typeof startApp>> | undefined
+  const { stack, base, wrensId, start } = await benchApp('bench', PORTS)
+  let app: Awaited<ReturnType<typeof start>> | undefined
   const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'] })
   try {
-    const db = createDb(stack.env.NUXT_DATABASE_URL!, 1)
-    await migrateToLatest(db)
-    await loadDemo(db)
-    const team = await db.selectFrom('team').select('id').where('name', '=', 'Copper Wrens').executeTakeFirstOrThrow()
-    await db.destroy()
-    buildApp()
-    const base = `http://127.0.0.1:${PORTS.app}`
-    app = await startApp({ port: PORTS.app, host: '127.0.0.1', env: { ...stack.env, NUXT_PUBLIC_BASE_URL: base }, quiet: true })
+    app = await start()
 
     const form = new FormData()
     form.set('file', new Blob([new Uint8Array(photo)], { type: 'image/jpeg' }), 'bench-photo.jpg')
     form.set('title', 'Benchmark photo')
-    form.set('teamId', String(team.id))
+    form.set('teamId', String(wrensId))
     form.set('widthMm', '150')
     const up = await fetch(`${base}/api/artworks`, { method: 'POST', body: form, headers: { cookie: await signIn(base, DEMO_ACCOUNTS.student.email) } })
     if (up.status !== 201) throw new Error(`upload answered ${up.status}: ${await up.text()}`)

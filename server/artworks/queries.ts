@@ -80,10 +80,19 @@ export function latestSource(db: Db, artworkId: number) {
   return db.selectFrom('source').selectAll().where('artwork_id', '=', artworkId).orderBy('id', 'desc').limit(1).executeTakeFirstOrThrow()
 }
 
-/** Whether any revision or source still points at a stored object. */
-export async function objectInUse(db: Db, key: string): Promise<boolean> {
-  const used = await db.selectFrom('revision').select('id')
-    .where((eb) => eb.or([eb('prepared_key', '=', key), eb('outline_key', '=', key), eb('vector_key', '=', key)])).limit(1).executeTakeFirst()
-    ?? await db.selectFrom('source').select('id').where('object_key', '=', key).limit(1).executeTakeFirst()
-  return !!used
+/**
+ * The keys, of those given, that a row points at (a source or a revision's files) or that a
+ * request has claimed (server/artworks/objects.ts). Every column that holds an object key is
+ * listed here: the sweeper removes stored files this does not name.
+ */
+export async function keysInUse(db: Db, keys: readonly string[]): Promise<Set<string>> {
+  if (!keys.length) return new Set()
+  const list = [...keys]
+  const rows = await db.selectFrom('source').select('object_key as key').where('object_key', 'in', list)
+    .union(db.selectFrom('revision').select('prepared_key as key').where('prepared_key', 'in', list))
+    .union(db.selectFrom('revision').select('outline_key as key').where('outline_key', 'in', list))
+    .union(db.selectFrom('revision').select('vector_key as key').where('vector_key', 'in', list))
+    .union(db.selectFrom('object_claim').select('key').where('key', 'in', list))
+    .execute()
+  return new Set(rows.map((r) => r.key))
 }

@@ -8,12 +8,13 @@ import type { RunResult } from '../pipeline/run'
 import { decodeCursor, encodeCursor } from '../platform/cursor'
 import { inTransaction, type Db } from '../platform/db'
 import { invalidInput } from '../platform/http'
-import { contentHash, deleteObject, getObject, objectExists, putObject } from '../platform/object-store'
+import { contentHash, getObject } from '../platform/object-store'
 import { runInPool } from '../platform/pipeline-pool'
 import { flags, type Actor, type TeamSubject } from '../policy'
 import { audit, by } from '../history/service'
 import { reviewHistory } from '../review/queries'
-import { artworkCount, artworkPage, findArtwork, findRevision, latestSource, objectInUse, revisionsOf, type ArtworkFilter, type ArtworkRow, type RevisionRow } from './queries'
+import { artworkCount, artworkPage, findArtwork, findRevision, latestSource, revisionsOf, type ArtworkFilter, type ArtworkRow, type RevisionRow } from './queries'
+import { abandonClaim, claimAndStore, settleClaim, type ObjectToStore } from './objects'
 import { inspectSource } from './sources'
 
 // ---------- reading ----------
@@ -73,31 +74,15 @@ export async function revisionDetail(db: Db, row: RevisionRow): Promise<Revision
 
 interface StoredFiles { prepared: string; outline: string; vector: string }
 
-/** Content-addressed keys: the same bytes are stored once and a stored file never changes. */
-async function storeResult(result: RunResult, created: string[]): Promise<StoredFiles> {
+/** The result's files under content-addressed keys: the same bytes are stored once and a stored file never changes. */
+function resultObjects(result: RunResult): { files: StoredFiles; objects: ObjectToStore[] } {
   const enc = new TextEncoder()
-  const files: [keyof StoredFiles, Uint8Array, string][] = [
-    ['prepared', result.preparedPng, 'image/png'],
-    ['outline', enc.encode(result.rawOutlineSvg), 'image/svg+xml'],
-    ['vector', enc.encode(result.cleanSvg), 'image/svg+xml'],
-  ]
-  const keys: Partial<StoredFiles> = {}
-  for (const [name, bytes, type] of files) {
-    const key = `${name}/${contentHash(bytes)}.${type === 'image/png' ? 'png' : 'svg'}`
-    if (!(await objectExists(key))) {
-      await putObject(key, bytes, type)
-      created.push(key)
-    }
-    keys[name] = key
-  }
-  return keys as StoredFiles
-}
-
-/** After a failure: remove the objects this request wrote that no row points at. */
-async function removeOrphans(db: Db, keys: string[]): Promise<void> {
-  for (const key of keys) {
-    if (!(await objectInUse(db, key))) await deleteObject(key).catch((err) => console.error('[decalwright] could not remove', key, err))
-  }
+  const stored = (name: keyof StoredFiles, bytes: Uint8Array, type: string): ObjectToStore =>
+    ({ key: `${name}/${contentHash(bytes)}.${type === 'image/png' ? 'png' : 'svg'}`, bytes, type })
+  const prepared = stored('prepared', result.preparedPng, 'image/png')
+  const outline = stored('outline', enc.encode(result.rawOutlineSvg), 'image/svg+xml')
+  const vector = stored('vector', enc.encode(result.cleanSvg), 'image/svg+xml')
+  return { files: { prepared: prepared.key, outline: outline.key, vector: vector.key }, objects: [prepared, outline, vector] }
 }
 
 async function insertRevision(trx: Transaction<Database>, o: { artworkId: number; sourceId: number; settings: PipelineSettings; result: RunResult; files: StoredFiles; authorId: number }) {
@@ -117,7 +102,14 @@ async function insertRevision(trx: Transaction<Database>, o: { artworkId: number
   return rev
 }
 
-export interface NewArtwork { title: string; widthMm: number; fileName: string; bytes: Uint8Array }
+export interface NewArtwork {
+  title: string
+  widthMm: number
+  fileName: string
+  bytes: Uint8Array
+  /** SHA-256 of the bytes when the caller has it already (the upload hashes while it reads). */
+  contentHash?: string
+}
 
 /** A new artwork from an uploaded picture, with revision 1 at default settings. The caller has checked `artwork.upload` in the team. */
 export async function createArtwork(db: Db, actor: Actor, team: TeamSubject, input: NewArtwork): Promise<CreatedArtwork> {
@@ -125,15 +117,12 @@ export async function createArtwork(db: Db, actor: Actor, team: TeamSubject, inp
   const settings = parseSettings({})
   // The outline first: a file that cannot be traced leaves nothing behind.
   const result = await runInPool({ source: input.bytes, settings, widthMm: input.widthMm, purpose: 'revision' })
-  const hash = contentHash(input.bytes)
+  const hash = input.contentHash ?? contentHash(input.bytes)
   const sourceKey = `sources/${hash}`
-  const created: string[] = []
+  const { files, objects } = resultObjects(result)
+  // Stored files are claimed while this request uses them (./objects.ts).
+  const claim = await claimAndStore(db, [{ key: sourceKey, bytes: input.bytes, type: facts.mediaType }, ...objects])
   try {
-    if (!(await objectExists(sourceKey))) {
-      await putObject(sourceKey, input.bytes, facts.mediaType)
-      created.push(sourceKey)
-    }
-    const files = await storeResult(result, created)
     const ids = await inTransaction(db, async (trx) => {
       const artwork = await trx.insertInto('artwork').values({ team_id: team.teamId, title: input.title, author_id: actor.id })
         .returning('id').executeTakeFirstOrThrow()
@@ -144,12 +133,13 @@ export async function createArtwork(db: Db, actor: Actor, team: TeamSubject, inp
       }).returning('id').executeTakeFirstOrThrow()
       const rev = await insertRevision(trx, { artworkId: artwork.id, sourceId: source.id, settings, result, files, authorId: actor.id })
       await audit(trx, { ...by(actor), action: 'upload', subject: 'artwork', subjectId: artwork.id, detail: { title: input.title, revision: rev.number, fileName: input.fileName } })
+      await settleClaim(trx, claim)
       return { artworkId: artwork.id, revisionId: rev.id }
     })
     const [artwork, revision] = await Promise.all([findArtwork(db, actor, ids.artworkId), findRevision(db, actor, ids.revisionId)])
     return { artwork: toListItem(artwork!), revision: await revisionDetail(db, revision!) }
   } catch (err) {
-    await removeOrphans(db, created)
+    await abandonClaim(db, claim)
     throw err
   }
 }
@@ -169,17 +159,18 @@ export async function createRevision(db: Db, actor: Actor, artwork: ArtworkRow, 
   const source = await latestSource(db, artwork.id)
   const bytes = await getObject(source.object_key)
   const result = await runInPool({ source: bytes, settings, widthMm: input.widthMm, purpose: 'revision' })
-  const created: string[] = []
+  const { files, objects } = resultObjects(result)
+  const claim = await claimAndStore(db, objects)
   try {
-    const files = await storeResult(result, created)
     const rev = await inTransaction(db, async (trx) => {
       const r = await insertRevision(trx, { artworkId: artwork.id, sourceId: source.id, settings, result, files, authorId: actor.id })
       await audit(trx, { ...by(actor), action: 'revise', subject: 'artwork', subjectId: artwork.id, detail: { title: artwork.title, revision: r.number } })
+      await settleClaim(trx, claim)
       return r
     })
     return revisionDetail(db, (await findRevision(db, actor, rev.id))!)
   } catch (err) {
-    await removeOrphans(db, created)
+    await abandonClaim(db, claim)
     throw err
   }
 }

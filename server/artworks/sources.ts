@@ -1,6 +1,6 @@
 import sharp, { type Metadata } from 'sharp'
 import { createError } from 'h3'
-import { ACCEPTED_MEDIA, MAX_SOURCE_PIXELS, UPLOAD_KINDS } from '#shared/constants/uploads'
+import { ACCEPTED_MEDIA, MAX_SOURCE_PIXELS, MIN_SOURCE_SIDE_PX, UPLOAD_KINDS } from '#shared/constants/uploads'
 
 export interface SourceFacts { mediaType: string; extension: string; widthPx: number; heightPx: number }
 
@@ -25,6 +25,9 @@ export async function inspectSource(bytes: Uint8Array): Promise<SourceFacts> {
   // For an animation, the first frame's height (sharp reports all pages stacked otherwise).
   const height = meta.pageHeight ?? meta.height ?? 0
   if (!width || !height) throw createError({ statusCode: 422, message: 'This picture has no size; it may be damaged. Try saving it again.' })
+  if (Math.min(width, height) < MIN_SOURCE_SIDE_PX) {
+    throw createError({ statusCode: 422, message: `This picture is only ${width} × ${height} pixels; a drawing needs at least ${MIN_SOURCE_SIDE_PX} pixels on each side. Upload the scan or photo itself, not an icon or thumbnail of it.` })
+  }
   if (width * height > MAX_SOURCE_PIXELS) {
     const mp = Math.round((width * height) / 1e6)
     throw createError({ statusCode: 422, message: `This picture is ${mp} megapixels; the limit is ${MAX_SOURCE_PIXELS / 1e6}. Scan at a lower resolution (300 dpi is plenty) or shrink the photo.` })

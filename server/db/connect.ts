@@ -1,6 +1,7 @@
 // Database access without Nuxt, for the server, the scripts and the tests.
-import { Kysely, Migrator, PostgresDialect, type MigrationProvider } from 'kysely'
+import { Kysely, Migrator, PostgresDialect, type MigrationProvider, type PostgresPool, type PostgresPoolClient } from 'kysely'
 import pg from 'pg'
+import { databaseFault, ServiceUnavailable } from '../platform/faults'
 import type { Database } from './schema'
 import { migrations } from './migrations'
 
@@ -34,7 +35,52 @@ export function createDb(connectionString: string, options: DbOptions | number =
   })
   // An idle connection that breaks must not take the process down with it.
   pool.on('error', (err) => console.error('[decalwright] database connection lost:', err.message))
-  return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) })
+  return new Kysely<Database>({ dialect: new PostgresDialect({ pool: guarded(pool) }) })
+}
+
+/**
+ * The pool as Kysely sees it, with two promises kept in one place: a database that cannot be
+ * reached, has no free connection or does not answer in time throws ServiceUnavailable (the
+ * app answers 503), and a connection that timed out is closed rather than handed to the next
+ * request (it may still be inside a half-done transaction or owe an answer to a query).
+ */
+function guarded(pool: pg.Pool): PostgresPool {
+  const clients = new WeakMap<pg.PoolClient, { wrapper: PostgresPoolClient; broken: boolean }>()
+  const wrap = (client: pg.PoolClient) => {
+    const state = { broken: false, wrapper: undefined as unknown as PostgresPoolClient }
+    const query = client.query.bind(client) as (...args: unknown[]) => unknown
+    state.wrapper = {
+      query: ((...args: unknown[]) => {
+        const result = query(...args)
+        if (!(result instanceof Promise)) return result // a cursor
+        return result.catch((err: unknown) => {
+          const fault = databaseFault(err)
+          if (fault instanceof ServiceUnavailable) state.broken = true
+          throw fault
+        })
+      }) as PostgresPoolClient['query'],
+      release: (destroy?: boolean) => {
+        const drop = destroy || state.broken
+        state.broken = false
+        if (drop) clients.delete(client)
+        client.release(drop || undefined)
+      },
+    }
+    clients.set(client, state)
+    return state.wrapper
+  }
+  return {
+    async connect() {
+      let client: pg.PoolClient
+      try {
+        client = await pool.connect()
+      } catch (err) {
+        throw databaseFault(err)
+      }
+      return clients.get(client)?.wrapper ?? wrap(client)
+    },
+    end: () => pool.end(),
+  }
 }
 
 const provider: MigrationProvider = { getMigrations: async () => migrations }

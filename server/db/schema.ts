@@ -246,6 +246,32 @@ export interface RateCountTable {
   count: number
 }
 
+export interface IdempotentRequestTable {
+  user_id: number
+  /** Method and path, e.g. "POST /api/placements/12/reprints". */
+  route: string
+  key: string
+  /** SHA-256 of the request's content, so a key cannot be reused for something else. */
+  fingerprint: string
+  /** Random per attempt, so a finished or failed attempt touches only its own row. */
+  attempt: string
+  started_at: ColumnType<Date, Date | string | undefined, Date | string>
+  finished_at: Timestamp | null
+  /** The answer's JSON, once the first request is done. */
+  answer: ColumnType<unknown, string | null | undefined, string | null> | null
+}
+
+export interface ObjectClaimTable {
+  token: string
+  key: string
+  claimed_at: CreatedAt
+}
+
+export interface HousekeepingTable {
+  task: string
+  last_run_at: Timestamp
+}
+
 export interface Database {
   program: ProgramTable
   users: UsersTable
@@ -268,4 +294,7 @@ export interface Database {
   mail_outbox: MailOutboxTable
   user_session: UserSessionTable
   rate_count: RateCountTable
+  idempotent_request: IdempotentRequestTable
+  object_claim: ObjectClaimTable
+  housekeeping: HousekeepingTable
 }

@@ -4,7 +4,10 @@
 //   Forgery Prevention Cheat Sheet, "Verifying Origin With Standard Headers"; the session
 //   cookie is also SameSite=Lax.)
 // - body size: JSON bodies are small; a declared length over the limit is refused with 413
-//   before anything is read. Routes that take files set their own, larger limit.
+//   before anything is read, and nothing of it is kept (server/platform/body.ts stopReading).
+//   Routes that take files set their own, larger limit. A body sent without a length is
+//   limited while it is read (server/platform/body.ts, server/platform/uploads.ts).
+import { bodyTooLarge } from '../platform/body'
 import { formatBytes } from '../platform/http'
 import { requestHost } from '../platform/client-address'
 
@@ -29,6 +32,6 @@ export default defineEventHandler((event) => {
   const length = Number(getRequestHeader(event, 'content-length') ?? 0)
   const limit = bodyLimitFor(event.path)
   if (length > limit) {
-    throw createError({ statusCode: 413, message: `The request is too large (limit ${formatBytes(limit)}).` })
+    throw bodyTooLarge(event, `The request is too large (limit ${formatBytes(limit)}).`)
   }
 })

@@ -50,10 +50,12 @@ export async function updateTeam(db: Db, actor: Actor, teamId: number, input: { 
 export async function teamDetail(db: Db, actor: Actor, team: TeamRow): Promise<TeamDetail> {
   const [members, mentors] = await Promise.all([teamMembers(db, team.id), activeMentors(db, actor.programId)])
   const can = flags(actor, ['team.manage', 'people.manage'], team)
+  // Addresses are for those who manage people; everyone else sees names.
+  const email = (address: string) => (can['people.manage'] ? address : null)
   return {
     team: { id: team.id, name: team.name, number: team.number, colour: team.colour },
-    members: members.map((m) => ({ userId: m.id, name: m.name, email: m.email, role: m.role, active: m.active })),
-    mentors: mentors.map((m) => ({ userId: m.id, name: m.name, email: m.email })),
+    members: members.map((m) => ({ userId: m.id, name: m.name, email: email(m.email), role: m.role, active: m.active })),
+    mentors: mentors.map((m) => ({ userId: m.id, name: m.name, email: email(m.email) })),
     invitations: can['people.manage'] ? await listInvitations(db, actor, team.id) : [],
     can,
   }

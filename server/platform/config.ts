@@ -18,6 +18,8 @@ export interface PlatformConfig {
   trustedProxies?: string[]
   /** How long one database query may take, ms. */
   dbQueryTimeoutMs?: number
+  /** How long the object store may stay silent before a request to it gives up, ms. */
+  s3TimeoutMs?: number
   /** A ready transport instead of smtpUrl (tests keep messages in memory with it). */
   mailTransport?: Transporter
 }

@@ -1,10 +1,14 @@
 import { configurePlatform } from '../platform/config'
 import { dbReady, useDb } from '../platform/db'
+import { everyInterval } from '../platform/housekeeping'
+import { forgetOldRequests } from '../platform/idempotency'
 import { startMailSender } from '../platform/mail'
+import { sweepOrphans } from '../artworks/objects'
 
 // At boot: tell the platform modules where the outside services are (NUXT_* variables through
 // the runtime config), start the migrations so the first request does not pay for them, then
-// the outbox's sender.
+// the outbox's sender and the housekeeping (stored files nothing points at, old answers kept for
+// repeated requests). A database that is down at boot delays them; it does not stop them.
 export default defineNitroPlugin((nitro) => {
   const c = useRuntimeConfig()
   configurePlatform({
@@ -17,12 +21,28 @@ export default defineNitroPlugin((nitro) => {
     mailRetryBaseMs: Number(c.mailRetryBaseMs),
     trustedProxies: String(c.trustedProxies ?? '').split(',').map((x) => x.trim()).filter(Boolean),
     dbQueryTimeoutMs: Number(c.dbQueryTimeoutMs),
+    s3TimeoutMs: Number(c.s3TimeoutMs),
   })
   const ready = dbReady()
   ready.catch((err) => console.error('[decalwright] migrations failed:', err))
   let stopSender: (() => void) | undefined
-  void ready.then(() => {
+  const startSender = () => void dbReady().then(() => {
     stopSender = startMailSender(useDb(), { intervalMs: 1000, retryBaseMs: Number(c.mailRetryBaseMs) || 5000 })
-  }, () => {})
-  nitro.hooks.hook('close', () => stopSender?.())
+  }, () => { setTimeout(startSender, 5000).unref() })
+  startSender()
+  const minAgeS = Number(c.orphanMinAgeS) || 3600
+  const stopSweeper = everyInterval(useDb(), {
+    task: 'sweep-stored-files',
+    intervalS: Number(c.orphanSweepIntervalS) || 600,
+    ready: dbReady,
+    work: async () => {
+      const removed = await sweepOrphans(useDb(), { minAgeS })
+      const forgotten = await forgetOldRequests(useDb())
+      if (removed || forgotten) console.log(`[decalwright] housekeeping: ${removed} stored files nothing used, ${forgotten} old request answers removed`)
+    },
+  })
+  nitro.hooks.hook('close', () => {
+    stopSender?.()
+    stopSweeper()
+  })
 })

@@ -1,7 +1,10 @@
 // Reading what a request asks for: validated JSON bodies, query strings and route parameters.
-import { createError, getQuery, getRouterParam, readRawBody, type H3Event } from 'h3'
+import { createHash } from 'node:crypto'
+import { createError, getQuery, getRouterParam, type H3Event } from 'h3'
 import { z } from 'zod'
 import { UPLOAD_ENVELOPE_BYTES, UPLOAD_LIMIT_BYTES } from '#shared/constants/uploads'
+import { formNumber } from '#shared/utils/schemas'
+import { readBodyUpTo } from '../platform/body'
 import { formatBytes, invalidInput } from '../platform/http'
 
 export const JSON_BODY_LIMIT = 64 * 1024
@@ -16,12 +19,14 @@ export function bodyLimitFor(path: string): number {
   return JSON_BODY_LIMIT
 }
 
-/** Reads a JSON body (malformed → 400, too large → 413) and validates it (wrong fields → 400). */
+/**
+ * Reads a JSON body (malformed → 400, too large → 413 as soon as the limit is passed, however
+ * the body is sent) and validates it (wrong fields → 400).
+ */
 export async function readJson<S extends z.ZodType>(event: H3Event, schema: S): Promise<z.output<S>> {
-  const raw = await readRawBody(event, 'utf8')
-  if (raw && Buffer.byteLength(raw) > JSON_BODY_LIMIT) {
-    throw createError({ statusCode: 413, message: `The request is too large (limit ${formatBytes(JSON_BODY_LIMIT)}).` })
-  }
+  const bytes = await readBodyUpTo(event, JSON_BODY_LIMIT, `The request is too large (limit ${formatBytes(JSON_BODY_LIMIT)}).`)
+  event.context.bodyFingerprint = createHash('sha256').update(bytes).digest('hex')
+  const raw = bytes.toString('utf8')
   let value: unknown
   try {
     value = raw ? JSON.parse(raw) : {}
@@ -40,7 +45,7 @@ export function readQuery<S extends z.ZodType>(event: H3Event, schema: S): z.out
   return result.data
 }
 
-const idSchema = z.coerce.number().int().positive().max(2 ** 31 - 1)
+const idSchema = formNumber(z.number().int().positive().max(2 ** 31 - 1))
 
 /** A numeric route parameter; anything else is 404 (there is no such thing). */
 export function idParam(event: H3Event, name = 'id'): number {

@@ -6,6 +6,8 @@ export const UPLOAD_LIMIT_BYTES = 25 * 1024 * 1024
 export const UPLOAD_ENVELOPE_BYTES = 64 * 1024
 /** Largest source in pixels: beyond it decoding alone takes too long and too much memory. */
 export const MAX_SOURCE_PIXELS = 60_000_000
+/** Smallest side of a source in pixels: below it there is no drawing to outline, only a dot. */
+export const MIN_SOURCE_SIDE_PX = 16
 
 /**
  * The pictures we take. The server decides by the file's content (sharp's `format`; AVIF is

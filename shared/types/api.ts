@@ -47,7 +47,8 @@ export interface TeamSummary {
 export interface TeamMember {
   userId: number
   name: string
-  email: string
+  /** Only for those who manage people; null for everyone else. */
+  email: string | null
   role: MemberRole
   active: boolean
 }
@@ -66,7 +67,8 @@ export interface PendingInvitation {
 export interface TeamDetail {
   team: { id: number; name: string; number: string | null; colour: string }
   members: TeamMember[]
-  mentors: { userId: number; name: string; email: string }[]
+  /** E-mail addresses only for those who manage people. */
+  mentors: { userId: number; name: string; email: string | null }[]
   /** Only for those who manage people; empty for everyone else. */
   invitations: PendingInvitation[]
   can: Can<'team.manage' | 'people.manage'>

@@ -7,6 +7,24 @@ import { JOB_STATES } from '../types/robots'
 
 export const PASSWORD_MIN = 10
 
+/** A number as people type it: decimal digits with an optional sign and fraction. */
+const PLAIN_DECIMAL = /^-?(\d+(\.\d*)?|\.\d+)$/
+
+/**
+ * A number read from a form field or a query string, where everything arrives as text. Only a
+ * plain decimal is a number ("12", "12.5", " 12 "): "0x10", "1e2", "12abc" and a blank are
+ * handed on as they are, so `schema` refuses them with its own message (JavaScript's Number()
+ * would read them as 16, 100, NaN and 0). Missing or empty stays undefined, for defaults.
+ */
+export function formNumber<S extends z.ZodType>(schema: S) {
+  return z.preprocess((v) => {
+    if (typeof v !== 'string') return v
+    if (v === '') return undefined
+    const t = v.trim()
+    return PLAIN_DECIMAL.test(t) ? Number(t) : v
+  }, schema)
+}
+
 export const emailSchema = z.string().trim().toLowerCase().max(254)
   .pipe(z.email({ message: 'Enter an e-mail address such as name@example.org.' }))
 export const passwordSchema = z.string()
@@ -66,18 +84,18 @@ export const widthMmSchema = z.number({ message: 'Enter the width in millimetres
 
 export const artworkFieldsSchema = z.object({
   title: z.string().trim().min(1, { message: 'Give the artwork a title.' }).max(120, { message: 'Use at most 120 characters.' }),
-  teamId: z.coerce.number({ message: 'Choose a team.' }).int().positive({ message: 'Choose a team.' }),
-  widthMm: z.preprocess((v) => (v === '' || v == null ? undefined : Number(v)), widthMmSchema.default(150)),
+  teamId: formNumber(z.number({ message: 'Choose a team.' }).int().positive({ message: 'Choose a team.' })),
+  widthMm: formNumber(widthMmSchema.default(150)),
 })
 
 /** A page of a list: `cursor` from the previous page's `nextCursor`, up to `limit` items. */
 function pageQuery(defaultLimit: number) {
   return {
     cursor: z.string().max(500).optional(),
-    limit: z.coerce.number().int().min(1).max(100).default(defaultLimit),
+    limit: formNumber(z.number().int().min(1).max(100).default(defaultLimit)),
   }
 }
-const optionalId = z.coerce.number().int().positive().optional()
+const optionalId = formNumber(z.number().int().positive().optional())
 
 export const artworkListQuerySchema = z.object({
   teamId: optionalId,
@@ -142,14 +160,14 @@ export const reprintSchema = z.object({
 export const jobStateSchema = z.object({ state: z.enum(['cut', 'applied'], { message: 'Choose cut or applied.' }) })
 
 const sheetDimension = (d: keyof typeof CUT_SHEET_LIMITS) =>
-  z.coerce.number().min(CUT_SHEET_LIMITS[d].min).max(CUT_SHEET_LIMITS[d].max).default(CUT_SHEET_LIMITS[d].default)
+  formNumber(z.number().min(CUT_SHEET_LIMITS[d].min).max(CUT_SHEET_LIMITS[d].max).default(CUT_SHEET_LIMITS[d].default))
 
 export const cutSheetQuerySchema = z.object({
   mirror: z.enum(['0', '1']).default('0').transform((v) => v === '1'),
   frame: sheetDimension('frame'),
   gap: sheetDimension('gap'),
   margin: sheetDimension('margin'),
-  sheet: z.coerce.number().int().min(1).optional(),
+  sheet: formNumber(z.number().int().min(1).optional()),
 })
 
 export const jobListQuerySchema = z.object({

@@ -11,9 +11,10 @@ export async function pauseProxy(target: { host: string; port: number }, port: n
     const upstream = net.connect(target.port, target.host)
     const pair: [net.Socket, net.Socket] = [client, upstream]
     pairs.add(pair)
-    if (paused) { client.pause(); upstream.pause() }
     client.pipe(upstream)
     upstream.pipe(client)
+    // After pipe(), which sets both flowing: a connection opened while paused passes nothing either.
+    if (paused) { client.pause(); upstream.pause() }
     const end = () => { client.destroy(); upstream.destroy(); pairs.delete(pair) }
     client.on('error', end).on('close', end)
     upstream.on('error', end).on('close', end)

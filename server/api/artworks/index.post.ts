@@ -10,7 +10,7 @@ export default defineEventHandler(async (event) => {
   const upload = await readUpload(event, artworkFieldsSchema)
   const db = useDb()
   const team = authorize(actor, 'artwork.upload', await teamInScope(db, actor, upload.fields.teamId), 'No such team.')
-  const created = await createArtwork(db, actor, team, { ...upload.fields, fileName: upload.fileName, bytes: upload.bytes })
+  const created = await idempotent(event, actor, () => createArtwork(db, actor, team, { ...upload.fields, fileName: upload.fileName, bytes: upload.bytes, contentHash: upload.contentHash }))
   setResponseStatus(event, 201)
   return created
 })

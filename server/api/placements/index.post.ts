@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
   const input = await readJson(event, placementSchema)
   const db = useDb()
   const robot = authorize(actor, 'placement.create', await findRobot(db, actor, input.robotId), 'No such robot.')
-  const placement = await createPlacement(db, actor, robot, input)
+  const placement = await idempotent(event, actor, () => createPlacement(db, actor, robot, input))
   setResponseStatus(event, 201)
   return placement
 })

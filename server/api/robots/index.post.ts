@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
   const input = await readJson(event, robotSchema)
   const db = useDb()
   const team = authorize(actor, 'team.view', await teamInScope(db, actor, input.teamId), 'No such team.')
-  const robot = await createRobot(db, actor, team, input)
+  const robot = await idempotent(event, actor, () => createRobot(db, actor, team, input))
   setResponseStatus(event, 201)
   return robot
 })

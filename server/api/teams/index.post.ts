@@ -5,7 +5,7 @@ import { createTeam } from '#server/people/service'
 export default defineEventHandler(async (event) => {
   const actor = await requireCan(event, 'team.manage')
   const input = await readJson(event, teamSchema)
-  const team = await createTeam(useDb(), actor, input)
+  const team = await idempotent(event, actor, () => createTeam(useDb(), actor, input))
   setResponseStatus(event, 201)
   return team
 })

@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
   const db = useDb()
   const artwork = authorize(actor, 'artwork.revise', await findArtwork(db, actor, idParam(event)), 'No such artwork.')
   const input = await readJson(event, revisionRequestSchema)
-  const revision = await createRevision(db, actor, artwork, input)
+  const revision = await idempotent(event, actor, () => createRevision(db, actor, artwork, input))
   setResponseStatus(event, 201)
   return revision
 })

@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
   const db = useDb()
   const placement = authorize(actor, 'placement.reprint', await findPlacement(db, actor, idParam(event)), 'No such placement.')
   const input = await readJson(event, reprintSchema)
-  const reprint = await requestReprint(db, actor, placement, input)
+  const reprint = await idempotent(event, actor, () => requestReprint(db, actor, placement, input))
   setResponseStatus(event, 201)
   return reprint
 })
