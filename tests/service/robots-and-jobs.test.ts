@@ -31,7 +31,7 @@ describe('placements and the cut queue', () => {
     expect((await historyOf(trx, designer, { jobId: placed.jobs[0]!.id })).map((h) => h.action)).toEqual(['queue-job'])
   })
 
-  test('refuses a revision that is not approved, another team\'s, and film that is not chlorine-free', async ({ trx }) => {
+  test('refuses a revision that is not approved, another team\'s, film that may never be cut, and film waiting for the lab\'s approval', async ({ trx }) => {
     const p = await buildProgram(trx)
     const [a, b] = p.teams
     const mentor = await actorOf(trx, p.mentor)
@@ -41,7 +41,8 @@ describe('placements and the cut queue', () => {
     const ours = await addArtwork(trx, { teamId: a.id, authorId: a.student, status: 'approved' })
     expect(await statusOf(createPlacement(trx, mentor, robot, { ...place, revisionId: draft.revisionId, filmId: p.films.pet }))).toBe(409)
     expect(await statusOf(createPlacement(trx, mentor, robot, { ...place, revisionId: theirs.revisionId, filmId: p.films.pet }))).toBe(400)
-    expect(await statusOf(createPlacement(trx, mentor, robot, { ...place, revisionId: ours.revisionId, filmId: p.films.pvc }))).toBe(422)
+    await expect(createPlacement(trx, mentor, robot, { ...place, revisionId: ours.revisionId, filmId: p.films.pvc })).rejects.toMatchObject({ statusCode: 422, message: /hydrogen chloride/ })
+    await expect(createPlacement(trx, mentor, robot, { ...place, revisionId: ours.revisionId, filmId: p.films.pu })).rejects.toMatchObject({ statusCode: 422, message: /lab's approval/ })
     // Nothing of the refused attempts is left.
     expect((await findRobot(trx, mentor, robot.id))!.placements).toEqual([])
   })
@@ -59,16 +60,16 @@ describe('placements and the cut queue', () => {
     for (let i = 0; i < 3; i++) reprints.push((await requestReprint(trx, student, placement, { quantity: 1, reason: `torn ${i}` })).jobId)
     const operator = await actorOf(trx, team.operator)
     const [initial, r1, r2, r3] = [placed.jobs[0]!.id, ...reprints]
-    await moveJob(trx, operator, (await findJob(trx, operator, initial))!, 'cut')
-    await moveJob(trx, operator, (await findJob(trx, operator, r2!))!, 'cut')
+    await moveJob(trx, operator, (await findJob(trx, operator, initial))!, { state: 'cut' })
+    await moveJob(trx, operator, (await findJob(trx, operator, r2!))!, { state: 'cut' })
     const order = [r1, r3, r2, initial]
     const first = await listJobs(trx, operator, { limit: 3 })
     const rest = await listJobs(trx, operator, { limit: 3, cursor: first.nextCursor! })
     expect([...first.items, ...rest.items].map((j) => j.id)).toEqual(order)
     expect((await listJobs(trx, operator, { limit: 10, state: 'cut' })).items.map((j) => j.id)).toEqual([r2, initial])
     // Forward only.
-    expect(await statusOf(moveJob(trx, operator, (await findJob(trx, operator, r1!))!, 'applied'))).toBe(409)
-    const applied = await moveJob(trx, operator, (await findJob(trx, operator, initial))!, 'applied')
+    expect(await statusOf(moveJob(trx, operator, (await findJob(trx, operator, r1!))!, { state: 'applied' }))).toBe(409)
+    const applied = await moveJob(trx, operator, (await findJob(trx, operator, initial))!, { state: 'applied' })
     expect(applied.history.map((h) => h.action)).toEqual(['queue-job', 'mark-cut', 'mark-applied'])
     expect(applied.can).toEqual({ 'queue.work': true })
     expect((await jobDetail(trx, student, (await findJob(trx, student, r1!))!)).can).toEqual({ 'queue.work': false })

@@ -29,7 +29,9 @@ const IN_OWN_TEAM: Record<TeamAction, string> = {
   'revision.submit': 'SD-M',
   'robot.view': 'SDOM',
   'placement.create': '-D-M',
+  'placement.edit': '-D-M',
   'placement.reprint': 'SDOM',
+  'robot.edit': '-D-M',
   // Operators work the whole program's queue.
   'job.view': 'SDOM',
 }
@@ -49,12 +51,12 @@ describe('the policy', () => {
     }
   })
 
-  it('gives program work to mentors, and the cut queue to operators as well', () => {
+  it('gives program work to mentors, and the cut queue and test cuts to operators as well', () => {
     for (const action of PROGRAM_ACTIONS) {
       expect(can(people.mentor, action)).toBe(true)
       expect(can(people.student, action)).toBe(false)
       expect(can(people.designer, action)).toBe(false)
-      expect(can(people.operator, action)).toBe(action === 'queue.work')
+      expect(can(people.operator, action)).toBe(action === 'queue.work' || action === 'film.test')
     }
   })
 
