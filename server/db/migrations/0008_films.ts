@@ -153,6 +153,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addCheckConstraint('placement_removal_whole', sql`(removed_at is null) = (removed_by is null) and (removed_at is null) = (removed_reason is null)`)
     .execute()
 
+  await db.schema.alterTable('job').dropConstraint('job_kind_check').execute()
+  await db.schema.alterTable('job').addCheckConstraint('job_kind_check', sql`kind in ('initial', 'reprint', 'recut', 'extra')`).execute()
+  await db.schema.alterTable('job').dropConstraint('job_state_check').execute()
+  await db.schema.alterTable('job').addCheckConstraint('job_state_check', sql`state in ('queued', 'cut', 'applied', 'cancelled', 'failed')`).execute()
+
   // Rows written before the register on film that cannot clear keep their history with no
   // key (a null cleared); a job of theirs still waiting to be cut is cancelled, saying why.
   await sql`update job set state = 'cancelled', cancelled_at = now(),
@@ -162,10 +167,6 @@ export async function up(db: Kysely<any>): Promise<void> {
     await sql`update ${sql.table(t)} set film_cleared = null from film where film.id = ${sql.ref(`${t}.film_id`)} and not film.cleared`.execute(db)
   }
 
-  await db.schema.alterTable('job').dropConstraint('job_kind_check').execute()
-  await db.schema.alterTable('job').addCheckConstraint('job_kind_check', sql`kind in ('initial', 'reprint', 'recut', 'extra')`).execute()
-  await db.schema.alterTable('job').dropConstraint('job_state_check').execute()
-  await db.schema.alterTable('job').addCheckConstraint('job_state_check', sql`state in ('queued', 'cut', 'applied', 'cancelled', 'failed')`).execute()
   // Each state with its who and when; cancelled only before a cut; a recut names its failed job.
   await db.schema.alterTable('job').addCheckConstraint('job_states_recorded', sql`
     (state = 'cancelled') = (cancelled_at is not null)
@@ -234,6 +235,9 @@ export async function up(db: Kysely<any>): Promise<void> {
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
+  // The older schema cannot hold a placement or job on film that may not be cut.
+  const legacy = await sql<{ n: number }>`select (select count(*) from placement where film_cleared is null) + (select count(*) from job where film_cleared is null) as n`.execute(db)
+  if (Number(legacy.rows[0]?.n) > 0) throw new Error('Placements or jobs on film that may not be cut exist; the schema before 0008 cannot hold them. Remove them first.')
   for (const index of ['job_recut_of', 'job_film_queued']) await sql`drop index if exists ${sql.raw(index)}`.execute(db)
   await db.schema.dropTable('film_stock_event').execute()
   await db.schema.dropTable('film_test').execute()
