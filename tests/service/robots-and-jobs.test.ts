@@ -1,5 +1,6 @@
 import { describe, expect, inject } from 'vitest'
-import { sql } from 'kysely'
+import { sql, type Transaction } from 'kysely'
+import type { Database } from '../../server/db/schema'
 import { createDb } from '../../server/db/connect'
 import { findRobot, findPlacement } from '../../server/robots/queries'
 import { applySpare, approvedRevisions, createPlacement, editPlacement, editRobot, listRobots, removePlacement, requestReprint } from '../../server/robots/service'
@@ -122,7 +123,7 @@ describe('work inside a transaction', () => {
 })
 
 describe('corrections', () => {
-  async function placed(trx: Parameters<Parameters<typeof test>[1]>[0]['trx'], o: { quantity?: number; spares?: number; sheets?: number } = {}) {
+  async function placed(trx: Transaction<Database>, o: { quantity?: number; spares?: number; sheets?: number } = {}) {
     const p = await buildProgram(trx)
     const team = p.teams[0]
     const art = await addArtwork(trx, { teamId: team.id, authorId: team.student, status: 'approved', title: 'Kite' })

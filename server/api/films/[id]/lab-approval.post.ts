@@ -1,11 +1,12 @@
 import { labApprovalSchema } from '#shared/utils/schemas'
 import { useDb } from '#server/platform/db'
-import { approveFilm } from '#server/films/service'
+import { approveFilm, findFilm } from '#server/films/service'
 
 // A mentor records the lab's approval of an ask-the-lab polymer for this film.
 export default defineEventHandler(async (event) => {
   const actor = await requireCan(event, 'film.manage')
-  const id = idParam(event)
+  const db = useDb()
+  const { id } = await findFilm(db, actor, idParam(event))
   const input = await readJson(event, labApprovalSchema)
-  return approveFilm(useDb(), actor, id, input)
+  return approveFilm(db, actor, id, input)
 })
