@@ -90,8 +90,9 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
 
     const form = byTest(page, 'placement-form')
     await expect.poll(() => form.count()).toBe(1)
-    // The approved revision is offered, with its own width as the starting width.
+    // The approved revision is offered (among the team's others), with its own width as the starting width.
     const revisionSelect = form.locator('select[name="revisionId"]')
+    await revisionSelect.selectOption((await revisionSelect.locator('option', { hasText: `${title} r1` }).getAttribute('value'))!)
     expect(await revisionSelect.locator('option:checked').innerText()).toContain(`${title} r1`)
     expect(await form.locator('input[name="widthMm"]').inputValue()).toBe('60')
 
