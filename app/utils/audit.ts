@@ -38,6 +38,8 @@ function text(d: Detail, ...keys: string[]): string | null {
 
 const role = (r: unknown) => roleLabel(typeof r === 'string' ? r : '').toLowerCase()
 
+const PLACEMENT_FIELDS: Record<string, string> = { spot: 'spot', widthMm: 'width (mm)', quantity: 'on the robot', spares: 'spares' }
+
 export function capitalise(s: string): string {
   return s ? s.charAt(0).toUpperCase() + s.slice(1) : s
 }
@@ -116,14 +118,55 @@ function known(e: AuditEntry, d: Detail, ctx: AuditContext): string {
       return `queued ${text(d, 'quantity') ?? ''} × “${text(d, 'title') ?? 'a decal'}” for ${text(d, 'robot') ?? 'a robot'} (job ${e.subjectId})`
     case 'reprint':
       return `asked for a reprint of ${text(d, 'quantity') ?? ''} × “${text(d, 'title') ?? 'a decal'}” for ${text(d, 'robot') ?? 'a robot'}${text(d, 'reason') ? `: ${text(d, 'reason')}` : ''} (job ${e.subjectId})`
-    case 'mark-cut':
-      return `cut job ${e.subjectId} (“${text(d, 'title') ?? ''}”)`
-    case 'mark-applied':
-      return `applied job ${e.subjectId} (“${text(d, 'title') ?? ''}”) to ${text(d, 'robot') ?? 'the robot'}, ${text(d, 'spot') ?? ''}`
+    case 'mark-cut': {
+      const sheets = text(d, 'sheets')
+      return `cut job ${e.subjectId} (“${text(d, 'title') ?? ''}”)${sheets ? ` on ${sheets} sheet${sheets === '1' ? '' : 's'}` : ''}`
+    }
+    case 'mark-applied': {
+      const applied = text(d, 'applied')
+      return `applied ${applied ? `${applied} of ` : ''}job ${e.subjectId} (“${text(d, 'title') ?? ''}”) to ${text(d, 'robot') ?? 'the robot'}, ${text(d, 'spot') ?? ''}`
+    }
+    case 'queue-extra':
+      return `queued ${text(d, 'quantity') ?? ''} more × “${text(d, 'title') ?? 'a decal'}” for ${text(d, 'robot') ?? 'a robot'} (job ${e.subjectId})`
+    case 'recut':
+      return `queued a recut of ${text(d, 'quantity') ?? ''} × “${text(d, 'title') ?? 'a decal'}” after job ${text(d, 'recutOf') ?? '?'} failed (job ${e.subjectId})`
+    case 'cancel-job':
+      return `cancelled job ${e.subjectId} (“${text(d, 'title') ?? ''}”): ${text(d, 'reason') ?? ''}`
+    case 'fail-job':
+      return `recorded that job ${e.subjectId} (“${text(d, 'title') ?? ''}”) failed: ${text(d, 'failure') ?? 'failed'}${text(d, 'note') ? `, ${text(d, 'note')}` : ''}; recut as job ${text(d, 'recutJobId') ?? '?'}`
+    case 'edit-placement': {
+      const changes = d.changes && typeof d.changes === 'object' ? Object.entries(d.changes as Record<string, { from?: unknown; to?: unknown }>) : []
+      const words = changes.map(([k, c]) => `${PLACEMENT_FIELDS[k] ?? k} ${String(c?.from)} → ${String(c?.to)}`)
+      return `changed “${text(d, 'title') ?? 'a decal'}” on ${text(d, 'robot') ?? 'a robot'}${words.length ? `: ${words.join(', ')}` : ''}`
+    }
+    case 'remove-placement':
+      return `removed “${text(d, 'title') ?? 'a decal'}” from the ${text(d, 'spot') ?? 'robot'} of ${text(d, 'robot') ?? 'a robot'}: ${text(d, 'reason') ?? ''}`
+    case 'apply-spare':
+      return `put ${text(d, 'count') ?? '1'} spare “${text(d, 'title') ?? 'decal'}” on the ${text(d, 'spot') ?? 'robot'} of ${text(d, 'robot') ?? 'a robot'}${text(d, 'reason') ? ` (${text(d, 'reason')})` : ''}`
+    case 'edit-robot': {
+      const from = d.from as { name?: string } | undefined
+      return from?.name && from.name !== text(d, 'name') ? `renamed the robot ${from.name} to ${name}` : `changed the season of ${name} to ${text(d, 'season') ?? ''}`
+    }
+    case 'rename-artwork':
+      return `renamed the artwork “${text(d, 'from') ?? subject}” to “${text(d, 'to') ?? ''}”`
+    case 'register-film':
+      return d.retired ? `retired ${name} when films moved to the polymer register: ${text(d, 'reason') ?? ''}` : `read ${name} (“${text(d, 'typed') ?? ''}”) as ${text(d, 'polymer') ?? '?'} from the polymer register`
+    case 'approve-film':
+      return `recorded the lab's approval of ${name} (${text(d, 'polymer') ?? ''}), judged on ${text(d, 'safetyDataSheet') ?? 'its safety data sheet'}`
+    case 'withdraw-film-approval':
+      return `withdrew the lab's approval of ${name}`
+    case 'test-film':
+      return text(d, 'square')
+        ? `recorded a test cut of ${name}: square ${text(d, 'square')} weeded cleanly at ${text(d, 'powerPct')} % and ${text(d, 'speedMmS')} mm/s`
+        : `recorded a test cut of ${name}: no square weeded cleanly`
+    case 'film-stock':
+      return d.kind === 'delivery'
+        ? `recorded a delivery of ${text(d, 'sheets') ?? '?'} sheets of ${name} (${text(d, 'onHand') ?? '?'} on hand)`
+        : `counted ${text(d, 'sheets') ?? '?'} sheets of ${name} on the shelf`
     case 'add-robot':
       return `added the robot ${name} (${text(d, 'season') ?? ''})`
     case 'add-film':
-      return `added ${name} to the film stock`
+      return `added ${name} (${text(d, 'polymer') ?? 'film'}) to the film stock`
     case 'update-film':
       return `changed ${name} in the film stock`
     case 'create-mentor':

@@ -5,6 +5,10 @@ import type { ArtworkStatus } from '../../shared/types/artworks'
 import type { AuditAction, AuditSubject } from '../../shared/types/audit'
 import type { EngineVersions, Measurements, StageTimings } from '../../shared/types/pipeline'
 import type { PipelineSettings } from '../../shared/utils/settings'
+import type { Halogen, PolymerSource, PolymerVerdict } from '../../shared/films/polymers'
+import type { Opacity } from '../../shared/films/library'
+import type { CutFailure, JobKind, JobState } from '../../shared/types/robots'
+import type { StockEventKind, TestGridRecord } from '../../shared/types/films'
 
 type CreatedAt = ColumnType<Date, Date | string | undefined, never>
 type Timestamp = ColumnType<Date, Date | string, Date | string>
@@ -159,22 +163,72 @@ export interface ReviewEventTable {
   at: CreatedAt
 }
 
+export interface PolymerTable {
+  code: string
+  name: string
+  names: string[]
+  halogens: Halogen[]
+  chlorine_free: ColumnType<boolean, never, never>
+  verdict: PolymerVerdict
+  why: string
+  sources: ColumnType<PolymerSource[], string, string>
+}
+
 export interface FilmTable {
   id: Generated<number>
   program_id: number
   name: string
-  base_polymer: string
-  chlorine_free: boolean
+  /** The register's code, and its verdict carried along (a composite key, ON UPDATE CASCADE). */
+  polymer_code: string
+  polymer_verdict: PolymerVerdict
+  lab_approved_by: number | null
+  lab_approved_at: Timestamp | null
+  /** The safety data sheet the lab's approval was judged on. */
+  lab_approval_sds: string | null
+  /** Generated: allowed, or ask-the-lab with a recorded approval. */
+  cleared: ColumnType<boolean, never, never>
   colour: string
+  colour_hex: string
+  opacity: Opacity
   thickness_mm: number
   sheet_width_mm: number
   sheet_height_mm: number
   min_feature_mm: number
+  /** Null until measured: the common-practice default applies. */
+  kerf_mm: number | null
   laser_power_pct: number
   laser_speed_mm_s: number
   laser_passes: number
+  sheets_on_hand: Generated<number>
   retired: Generated<boolean>
+  retired_reason: string | null
   created_at: CreatedAt
+}
+
+export interface FilmTestTable {
+  id: Generated<number>
+  film_id: number
+  tested_by: number
+  tested_at: CreatedAt
+  grid: ColumnType<TestGridRecord, string, never>
+  square: string | null
+  power_pct: number | null
+  speed_mm_s: number | null
+  passes: number
+  kerf_mm: number | null
+  note: Generated<string>
+}
+
+export interface FilmStockEventTable {
+  id: Generated<number>
+  film_id: number
+  kind: StockEventKind
+  change: number
+  on_hand: number
+  job_id: number | null
+  note: Generated<string>
+  by_user: number
+  at: CreatedAt
 }
 
 export interface RobotTable {
@@ -190,30 +244,47 @@ export interface PlacementTable {
   robot_id: number
   revision_id: number
   film_id: number
-  film_chlorine_free: Generated<boolean>
+  /** Always true for new rows (the key to the film's `cleared`); null only on rows from before the register whose film may not be cut. */
+  film_cleared: ColumnType<boolean | null, true | undefined, true>
   spot: string
   width_mm: number
   quantity: number
   spares: Generated<number>
+  spares_on_hand: Generated<number>
   created_by: number
   created_at: CreatedAt
+  removed_by: number | null
+  removed_at: Timestamp | null
+  removed_reason: string | null
 }
 
 export interface JobTable {
   id: Generated<number>
   placement_id: number
-  kind: 'initial' | 'reprint'
+  kind: JobKind
   quantity: number
   reason: Generated<string>
   film_id: number
-  film_chlorine_free: Generated<boolean>
-  state: Generated<'queued' | 'cut' | 'applied'>
+  film_cleared: ColumnType<boolean | null, true | undefined, true>
+  /** The width the copies are cut at, fixed when the job is queued. */
+  width_mm: number
+  state: Generated<JobState>
   created_by: number
   created_at: CreatedAt
   cut_by: number | null
   cut_at: Timestamp | null
+  sheets_used: number | null
   applied_by: number | null
   applied_at: Timestamp | null
+  applied_count: number | null
+  cancelled_by: number | null
+  cancelled_at: Timestamp | null
+  cancel_reason: string | null
+  failed_by: number | null
+  failed_at: Timestamp | null
+  failure: CutFailure | null
+  failure_note: string | null
+  recut_of: number | null
 }
 
 export interface MailOutboxTable {
@@ -287,7 +358,10 @@ export interface Database {
   revision: RevisionTable
   revision_status: RevisionStatusTable
   review_event: ReviewEventTable
+  polymer: PolymerTable
   film: FilmTable
+  film_test: FilmTestTable
+  film_stock_event: FilmStockEventTable
   robot: RobotTable
   placement: PlacementTable
   job: JobTable

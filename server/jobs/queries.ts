@@ -3,28 +3,37 @@ import type { JobState } from '#shared/types/robots'
 import type { Db } from '../platform/db'
 import { teamScope, type Actor } from '../policy'
 
-/** Jobs the actor may see, with everything a job's card and page show joined in. */
-function visibleJobs(db: Db, actor: Actor) {
+/** Jobs the actor may see, with everything a job's card and page show joined in (the film itself comes from the films' own query). */
+function jobsOnFilm(db: Db) {
   return db.selectFrom('job')
     .innerJoin('placement', 'placement.id', 'job.placement_id')
     .innerJoin('robot', 'robot.id', 'placement.robot_id')
     .innerJoin('team', 'team.id', 'robot.team_id')
     .innerJoin('revision', 'revision.id', 'placement.revision_id')
-    .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
     .innerJoin('film', 'film.id', 'job.film_id')
+}
+
+function visibleJobs(db: Db, actor: Actor) {
+  return jobsOnFilm(db)
+    .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
     .innerJoin('users as creator', 'creator.id', 'job.created_by')
     .leftJoin('users as cutter', 'cutter.id', 'job.cut_by')
     .leftJoin('users as applier', 'applier.id', 'job.applied_by')
+    .leftJoin('users as canceller', 'canceller.id', 'job.cancelled_by')
+    .leftJoin('users as failer', 'failer.id', 'job.failed_by')
     .where(teamScope(actor, 'job.view'))
-    .selectAll('film')
-    .select([
+    .select((eb) => [
       'job.id as job_id', 'job.kind', 'job.quantity as job_quantity', 'job.reason', 'job.state', 'job.created_at as job_created_at', 'job.cut_at', 'job.applied_at',
-      'creator.name as creator_name', 'cutter.name as cutter_name', 'applier.name as applier_name',
-      'placement.id as placement_id', 'placement.spot', 'placement.width_mm as placement_width',
+      'job.width_mm as job_width', 'job.sheets_used', 'job.applied_count', 'job.cancelled_at', 'job.cancel_reason', 'job.failed_at', 'job.failure', 'job.failure_note',
+      'job.recut_of', 'job.film_id',
+      'creator.name as creator_name', 'cutter.name as cutter_name', 'applier.name as applier_name', 'canceller.name as canceller_name', 'failer.name as failer_name',
+      'placement.id as placement_id', 'placement.spot', 'placement.quantity as placement_quantity', 'placement.spares_on_hand', 'placement.removed_at',
       'robot.id as robot_id', 'robot.name as robot_name', 'robot.season',
       'team.id as teamId', 'team.program_id as programId', 'team.name as team_name', 'team.colour as team_colour',
       'revision.id as revision_id', 'revision.number as revision_number', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
       'revision.vector_key', 'revision.measurements', 'artwork.id as artwork_id', 'artwork.title',
+      'film.sheet_width_mm', 'film.sheet_height_mm', 'film.laser_speed_mm_s', 'film.laser_passes', 'film.cleared as film_cleared',
+      eb.selectFrom('job as recut').select('recut.id').whereRef('recut.recut_of', '=', 'job.id').orderBy('recut.id').limit(1).as('recut_by'),
     ])
 }
 
@@ -56,4 +65,17 @@ export async function operatorEmails(db: Db, programId: number, teamId: number):
     .select('users.email').distinct().where('membership.role', '=', 'operator').where('users.active', '=', true).where('team.program_id', '=', programId)
   const own = await base.where('membership.team_id', '=', teamId).execute()
   return (own.length ? own : await base.execute()).map((r) => r.email)
+}
+
+/**
+ * Every queued job of the program in queue order (first queued, first cut), with what its
+ * sheets need, for the stock forecast. All of them, not a page: the shelf is shared.
+ */
+export function queuedSheetInputs(db: Db, programId: number) {
+  return jobsOnFilm(db)
+    .select(['job.id', 'job.film_id', 'job.quantity', 'job.width_mm', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
+      'film.sheet_width_mm', 'film.sheet_height_mm', 'film.sheets_on_hand'])
+    .where('team.program_id', '=', programId).where('job.state', '=', 'queued')
+    .orderBy('job.id')
+    .execute()
 }

@@ -1,13 +1,18 @@
-// The cut queue: jobs from placements and reprints, their cut sheets, and queued → cut → applied.
+// The cut queue: jobs from placements, reprints, recuts and edits; their cut sheets; and
+// queued → cut → applied, or queued → cancelled, or a failed cut that queues a recut.
 import { createError } from 'h3'
-import type { Selectable, Transaction } from 'kysely'
+import type { Transaction, Updateable } from 'kysely'
 import { z } from 'zod'
-import type { Database, FilmTable } from '../db/schema'
+import type { Database, JobTable } from '../db/schema'
 import type { Page } from '#shared/types/api'
-import type { JobDetail, JobView } from '#shared/types/robots'
+import type { Film } from '#shared/types/films'
+import type { JobDetail, JobKind, JobStock, JobView } from '#shared/types/robots'
+import { CUT_FAILURE_LABELS } from '#shared/types/robots'
+import type { jobFailureSchema, jobStateSchema } from '#shared/utils/schemas'
 import { CUT_SHEET_LIMITS } from '#shared/constants/cut-sheet'
 import { estimateCutSeconds, formatDuration, MOVE_ALLOWANCE_S } from '#shared/utils/cut-time'
 import { layoutSheets } from '#shared/utils/sheet-layout'
+import { forecastSheets } from '#shared/films/stock'
 import { readCleanVector, type CutCurve } from '../cutsheet/path'
 import { cutSheetSvg } from '../cutsheet/svg'
 import { cutSheetDxf } from '../cutsheet/dxf'
@@ -15,12 +20,14 @@ import { decodeCursor, pageOf } from '../platform/cursor'
 import { inTransaction, type Db } from '../platform/db'
 import { absoluteUrl, queueMail } from '../platform/mail'
 import { fileSlug } from '../platform/file-names'
+import { fieldError } from '../platform/http'
 import { getObject } from '../platform/object-store'
 import { flags, type Actor } from '../policy'
 import { audit, by, historyOf } from '../history/service'
 import { newJobMail } from '../mail/templates'
-import { CHLORINE_REASON, toFilm } from '../films/service'
-import { findJob, jobPage, operatorEmails, type JobFilter, type JobRow } from './queries'
+import { notUsableBecause, takeSheets, toFilm } from '../films/service'
+import { filmOfProgram, filmsOfProgram } from '../films/queries'
+import { findJob, jobPage, operatorEmails, queuedSheetInputs, type JobFilter, type JobRow } from './queries'
 
 export interface SheetOptions { mirror: boolean; frame: number; gap: number; margin: number }
 export const DEFAULT_SHEET: SheetOptions = { mirror: false, frame: CUT_SHEET_LIMITS.frame.default, gap: CUT_SHEET_LIMITS.gap.default, margin: CUT_SHEET_LIMITS.margin.default }
@@ -28,9 +35,13 @@ export const DEFAULT_SHEET: SheetOptions = { mirror: false, frame: CUT_SHEET_LIM
 export interface NewJob {
   placementId: number
   filmId: number
-  kind: 'initial' | 'reprint'
+  kind: JobKind
   quantity: number
+  /** The width the copies are cut at. */
+  widthMm: number
   reason: string
+  /** The failed job a recut replaces. */
+  recutOf?: number
   /** What the job is for, for the history and the operators' mail. */
   teamId: number
   robotId: number
@@ -39,49 +50,86 @@ export interface NewJob {
   spot: string
 }
 
+const QUEUE_ACTION = { initial: 'queue-job', reprint: 'reprint', recut: 'recut', extra: 'queue-extra' } as const
+
+/** The database refuses a job on film that may not be cut (the film_cleared key): said in words. */
+export function refusedFilm(err: unknown): never {
+  const e = err as { code?: string; constraint?: string; message?: string }
+  if ((e.code === '23503' && /_film_cleared$/.test(e.constraint ?? '')) || /film_cleared/.test(e.message ?? '')) {
+    throw createError({ statusCode: 422, message: 'This film may not be cut: its polymer is never allowed, or needs the lab\'s approval first. See the film\'s page.' })
+  }
+  throw err
+}
+
 /**
  * Queues a cut, writes its history line and mails the operators, all in the caller's
  * transaction: every query here goes through `trx`, never a second pool connection.
  */
 export async function queueJob(trx: Transaction<Database>, actor: Actor, o: NewJob): Promise<number> {
-  const job = await trx.insertInto('job').values({ placement_id: o.placementId, kind: o.kind, quantity: o.quantity, reason: o.reason, film_id: o.filmId, created_by: actor.id })
-    .returning('id').executeTakeFirstOrThrow()
-  await audit(trx, {
-    ...by(actor), action: o.kind === 'initial' ? 'queue-job' : 'reprint', subject: 'job', subjectId: job.id,
-    detail: { title: o.title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason }, about: { robotId: o.robotId },
-  })
+  const job = await trx.insertInto('job').values({
+    placement_id: o.placementId, kind: o.kind, quantity: o.quantity, reason: o.reason, film_id: o.filmId, width_mm: o.widthMm,
+    recut_of: o.recutOf ?? null, created_by: actor.id,
+  }).returning('id').executeTakeFirstOrThrow().catch(refusedFilm)
+  const ref = { title: o.title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason }
+  const about = { robotId: o.robotId }
+  if (o.kind === 'recut') await audit(trx, { ...by(actor), action: 'recut', subject: 'job', subjectId: job.id, detail: { ...ref, recutOf: o.recutOf! }, about })
+  else await audit(trx, { ...by(actor), action: QUEUE_ACTION[o.kind], subject: 'job', subjectId: job.id, detail: ref, about })
   const to = await operatorEmails(trx, actor.programId, o.teamId)
   await queueMail(trx, actor.programId, newJobMail({ to, kind: o.kind, title: o.title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason, by: actor.name, url: absoluteUrl(`/lab/jobs/${job.id}`) }))
   return job.id
 }
 
-function toView(r: JobRow): JobView {
+const iso = (t: Date | string | null) => (t ? new Date(t).toISOString() : null)
+const copyHeight = (r: Pick<JobRow, 'job_width' | 'revision_width' | 'revision_height'>) => (r.job_width * r.revision_height) / r.revision_width
+
+function toView(r: JobRow, film: Film, stock: JobStock | null): JobView {
   return {
     id: r.job_id, kind: r.kind, quantity: r.job_quantity, reason: r.reason, state: r.state,
-    createdAt: new Date(r.job_created_at).toISOString(), createdBy: r.creator_name,
-    cutAt: r.cut_at ? new Date(r.cut_at).toISOString() : null, cutBy: r.cutter_name,
-    appliedAt: r.applied_at ? new Date(r.applied_at).toISOString() : null, appliedBy: r.applier_name,
-    placement: { id: r.placement_id, spot: r.spot, widthMm: r.placement_width, heightMm: (r.placement_width * r.revision_height) / r.revision_width },
+    createdAt: iso(r.job_created_at)!, createdBy: r.creator_name,
+    cutAt: iso(r.cut_at), cutBy: r.cutter_name, sheetsUsed: r.sheets_used,
+    appliedAt: iso(r.applied_at), appliedBy: r.applier_name, appliedCount: r.applied_count,
+    cancelledAt: iso(r.cancelled_at), cancelledBy: r.canceller_name, cancelReason: r.cancel_reason,
+    failedAt: iso(r.failed_at), failedBy: r.failer_name, failure: r.failure, failureNote: r.failure_note,
+    recutOf: r.recut_of, recutBy: r.recut_by,
+    placement: {
+      id: r.placement_id, spot: r.spot, widthMm: r.job_width, heightMm: copyHeight(r), quantity: r.placement_quantity,
+      sparesOnHand: r.spares_on_hand, removed: r.removed_at !== null,
+    },
     robot: { id: r.robot_id, name: r.robot_name, season: r.season },
     team: { id: r.teamId, name: r.team_name, colour: r.team_colour },
     revision: { id: r.revision_id, number: r.revision_number, artworkId: r.artwork_id, title: r.title, vectorUrl: `/api/revisions/${r.revision_id}/vector.svg` },
-    // selectAll('film') put the film's own columns (and its id) on the row.
-    film: toFilm(r as unknown as Selectable<FilmTable>),
+    film,
+    stock,
   }
+}
+
+/** Every queued job's sheets against the shelf, in queue order. */
+async function stockForecast(db: Db, programId: number): Promise<Map<number, JobStock>> {
+  const rows = await queuedSheetInputs(db, programId)
+  const onHand = new Map(rows.map((r) => [r.film_id, r.sheets_on_hand]))
+  return forecastSheets(rows.map((r) => ({
+    id: r.id, filmId: r.film_id, copies: r.quantity, copyWidthMm: r.width_mm, copyHeightMm: (r.width_mm * r.revision_height) / r.revision_width,
+    sheetWidthMm: r.sheet_width_mm, sheetHeightMm: r.sheet_height_mm,
+  })), onHand)
 }
 
 const queueCursor = z.object({ rank: z.number().int().min(0).max(1), key: z.number().int() })
 
-/** The cut queue, a page at a time. */
+/** The cut queue, a page at a time, each queued job with its sheets against the shelf. */
 export async function listJobs(db: Db, actor: Actor, o: JobFilter & { cursor?: string; limit: number }): Promise<Page<JobView>> {
-  const rows = await jobPage(db, actor, o, decodeCursor(o.cursor, queueCursor), o.limit + 1)
-  return pageOf(rows, o.limit, toView, (r) => ({ rank: r.order_rank, key: r.order_key }))
+  const [rows, films, stock] = await Promise.all([
+    jobPage(db, actor, o, decodeCursor(o.cursor, queueCursor), o.limit + 1),
+    filmsOfProgram(db, actor.programId),
+    stockForecast(db, actor.programId),
+  ])
+  const byId = new Map(films.map((f) => [f.id, toFilm(f)]))
+  return pageOf(rows, o.limit, (r) => toView(r, byId.get(r.film_id)!, stock.get(r.job_id) ?? null), (r) => ({ rank: r.order_rank, key: r.order_key }))
 }
 
-/** The placed copy's curves at the placement's width (the revision's vector scaled). */
+/** The placed copy's curves at the job's width (the revision's vector scaled). */
 async function copyGeometry(r: JobRow): Promise<{ curves: CutCurve[]; widthMm: number; heightMm: number }> {
   const vector = readCleanVector((await getObject(r.vector_key)).toString('utf8'))
-  const k = r.placement_width / vector.widthMm
+  const k = r.job_width / vector.widthMm
   const s = (p: { x: number; y: number }) => ({ x: p.x * k, y: p.y * k })
   const curves = vector.curves.map((c) => ({
     segments: c.segments.map((g) => g.kind === 'line'
@@ -104,16 +152,22 @@ function layoutFor(r: JobRow, copy: { widthMm: number; heightMm: number }, o: Sh
   }
 }
 
+const defaultSheets = (r: JobRow) => layoutFor(r, { widthMm: r.job_width, heightMm: copyHeight(r) }, DEFAULT_SHEET).sheets
+
 /** The job's page. The caller has found the job in the actor's scope. */
 export async function jobDetail(db: Db, actor: Actor, r: JobRow, o: SheetOptions = DEFAULT_SHEET): Promise<JobDetail> {
-  const scale = r.placement_width / r.revision_width
+  const scale = r.job_width / r.revision_width
   const m = r.measurements
   const cutLengthMm = m.cutLengthMm * scale
-  const layout = layoutFor(r, { widthMm: r.placement_width, heightMm: (r.placement_width * r.revision_height) / r.revision_width }, o)
+  const layout = layoutFor(r, { widthMm: r.job_width, heightMm: copyHeight(r) }, o)
   const seconds = estimateCutSeconds({ cutLengthMm: cutLengthMm * r.job_quantity, pieces: (m.pieces + m.holes) * r.job_quantity, speedMmS: r.laser_speed_mm_s, passes: r.laser_passes })
-  const history = await historyOf(db, actor, { jobId: r.job_id })
+  const [history, film, stock] = await Promise.all([
+    historyOf(db, actor, { jobId: r.job_id }),
+    filmOfProgram(db, actor.programId, r.film_id),
+    r.state === 'queued' ? stockForecast(db, actor.programId) : Promise.resolve(new Map<number, JobStock>()),
+  ])
   return {
-    ...toView(r),
+    ...toView(r, toFilm(film!), stock.get(r.job_id) ?? null),
     layout: { perSheet: layout.perSheet, sheets: layout.sheets, turned: layout.turned, usagePercent: layout.usagePercent, fits: layout.fits, reason: layout.reason, columns: layout.columns, rows: layout.rows },
     cutLengthMm, pieces: m.pieces,
     estimate: {
@@ -125,31 +179,114 @@ export async function jobDetail(db: Db, actor: Actor, r: JobRow, o: SheetOptions
   }
 }
 
-/** queued → cut → applied, forward only, with who and when. The caller has checked `queue.work`. */
-export async function moveJob(db: Db, actor: Actor, r: JobRow, to: 'cut' | 'applied'): Promise<JobDetail> {
+/** What the history says about a job. */
+export type JobNames = Pick<JobRow, 'job_id' | 'robot_id' | 'title' | 'robot_name' | 'spot' | 'job_quantity'>
+const jobRef = (r: JobNames) => ({ title: r.title, robot: r.robot_name, spot: r.spot, quantity: r.job_quantity })
+
+/** Moves the job from `from` in one statement, so two people at once cannot both move it. */
+async function advance(trx: Transaction<Database>, r: Pick<JobRow, 'job_id'>, from: JobRow['state'], set: Updateable<JobTable>) {
+  const done = await trx.updateTable('job').set(set).where('id', '=', r.job_id).where('state', '=', from).executeTakeFirst()
+  if (!done.numUpdatedRows) throw createError({ statusCode: 409, message: 'Someone else moved this job just now. Reload the page.' })
+}
+
+/** How many copies of a job go on the robot unless the operator says otherwise: the placement's count for its first cut, all of them otherwise. */
+function defaultApplied(r: JobRow): number {
+  return Math.min(r.job_quantity, r.kind === 'initial' ? r.placement_quantity : r.job_quantity)
+}
+
+/**
+ * queued → cut (the sheets it used leave the shelf; its copies join the cut copies on hand) →
+ * applied (how many went on the robot leave the copies on hand; the rest stay as spares). The
+ * caller has checked `queue.work`.
+ */
+export async function moveJob(db: Db, actor: Actor, r: JobRow, input: z.output<typeof jobStateSchema>): Promise<JobDetail> {
+  const to = input.state
   const from = r.state
   if ((to === 'cut' && from !== 'queued') || (to === 'applied' && from !== 'cut')) {
     throw createError({ statusCode: 409, message: to === 'cut' ? `This job is ${from} already.` : 'A job is applied after it is cut.' })
   }
   const moved = await inTransaction(db, async (trx) => {
-    const set = to === 'cut' ? { state: to, cut_by: actor.id, cut_at: new Date() } : { state: to, applied_by: actor.id, applied_at: new Date() }
-    const done = await trx.updateTable('job').set(set).where('id', '=', r.job_id).where('state', '=', from).executeTakeFirst()
-    if (!done.numUpdatedRows) throw createError({ statusCode: 409, message: 'Someone else moved this job just now. Reload the page.' })
-    await audit(trx, {
-      ...by(actor), action: to === 'cut' ? 'mark-cut' : 'mark-applied', subject: 'job', subjectId: r.job_id,
-      detail: { title: r.title, robot: r.robot_name, spot: r.spot, quantity: r.job_quantity }, about: { robotId: r.robot_id },
-    })
+    if (to === 'cut') {
+      if (!r.film_cleared) throw createError({ statusCode: 422, message: 'This film may not be cut. See the film\'s page.' })
+      const sheets = input.sheetsUsed ?? defaultSheets(r)
+      await advance(trx, r, from, { state: 'cut', cut_by: actor.id, cut_at: new Date(), sheets_used: sheets })
+      await takeSheets(trx, actor, { filmId: r.film_id, sheets, jobId: r.job_id, kind: 'cut' })
+      await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity) })).where('id', '=', r.placement_id).execute()
+      await audit(trx, { ...by(actor), action: 'mark-cut', subject: 'job', subjectId: r.job_id, detail: { ...jobRef(r), sheets }, about: { robotId: r.robot_id } })
+    } else {
+      const applied = input.applied ?? Math.min(defaultApplied(r), r.spares_on_hand)
+      if (applied > r.job_quantity) throw fieldError(400, `This job cut ${r.job_quantity}: at most that many can go on the robot from it.`, 'applied')
+      const taken = await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '-', applied) }))
+        .where('id', '=', r.placement_id).where('spares_on_hand', '>=', applied).executeTakeFirst()
+      if (!taken.numUpdatedRows) throw fieldError(409, `Only ${r.spares_on_hand} cut ${r.spares_on_hand === 1 ? 'copy is' : 'copies are'} on hand for this placement.`, 'applied')
+      await advance(trx, r, from, { state: 'applied', applied_by: actor.id, applied_at: new Date(), applied_count: applied })
+      await audit(trx, { ...by(actor), action: 'mark-applied', subject: 'job', subjectId: r.job_id, detail: { ...jobRef(r), applied }, about: { robotId: r.robot_id } })
+    }
     return findJob(trx, actor, r.job_id)
   })
   return jobDetail(db, actor, moved!)
 }
 
+/** A job that has not been cut is cancelled, with the reason. The caller has checked `queue.work`. */
+export async function cancelJob(db: Db, actor: Actor, r: JobRow, reason: string): Promise<JobDetail> {
+  if (r.state !== 'queued') throw createError({ statusCode: 409, message: `This job is ${r.state}: only a job waiting to be cut can be cancelled.` })
+  const after = await inTransaction(db, async (trx) => {
+    await cancelQueued(trx, actor, r, reason)
+    return findJob(trx, actor, r.job_id)
+  })
+  return jobDetail(db, actor, after!)
+}
+
+/** Cancels one queued job in the caller's transaction (also used when a placement changes). */
+export async function cancelQueued(trx: Transaction<Database>, actor: Actor, r: JobNames, reason: string) {
+  await advance(trx, r, 'queued', { state: 'cancelled', cancelled_by: actor.id, cancelled_at: new Date(), cancel_reason: reason })
+  await audit(trx, { ...by(actor), action: 'cancel-job', subject: 'job', subjectId: r.job_id, detail: { ...jobRef(r), reason }, about: { robotId: r.robot_id } })
+}
+
+/**
+ * A cut that failed (burnt, lifted, mis-weeded) is recorded as such and queues a recut of the
+ * same revision at the same width. From a queued job the cut used its sheets and the copies
+ * not spoilt join those on hand; from a cut job the spoilt copies leave them. The caller has
+ * checked `queue.work`.
+ */
+export async function failJob(db: Db, actor: Actor, r: JobRow, input: z.output<typeof jobFailureSchema>): Promise<JobDetail> {
+  if (r.state !== 'queued' && r.state !== 'cut') throw createError({ statusCode: 409, message: `This job is ${r.state}: a failed cut is recorded while it is queued or cut.` })
+  const spoilt = input.copies ?? r.job_quantity
+  if (spoilt > r.job_quantity) throw fieldError(400, `This job cuts ${r.job_quantity}: at most that many can be spoilt.`, 'copies')
+  const after = await inTransaction(db, async (trx) => {
+    const now = new Date()
+    if (r.state === 'queued') {
+      const sheets = input.sheetsUsed ?? defaultSheets(r)
+      await advance(trx, r, 'queued', { state: 'failed', cut_by: actor.id, cut_at: now, sheets_used: sheets, failed_by: actor.id, failed_at: now, failure: input.failure, failure_note: input.note })
+      await takeSheets(trx, actor, { filmId: r.film_id, sheets, jobId: r.job_id, kind: 'failed-cut' })
+      if (r.job_quantity > spoilt) await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity - spoilt) })).where('id', '=', r.placement_id).execute()
+    } else {
+      await advance(trx, r, 'cut', { state: 'failed', failed_by: actor.id, failed_at: now, failure: input.failure, failure_note: input.note })
+      await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb.fn('greatest', [eb.lit(0), eb('spares_on_hand', '-', spoilt)]) })).where('id', '=', r.placement_id).execute()
+    }
+    const words = `${CUT_FAILURE_LABELS[input.failure]}${input.note ? `: ${input.note}` : ''}`
+    const recutJobId = await queueJob(trx, actor, {
+      placementId: r.placement_id, filmId: r.film_id, kind: 'recut', quantity: spoilt, widthMm: r.job_width, reason: `Job ${r.job_id} failed (${words}).`, recutOf: r.job_id,
+      teamId: r.teamId, robotId: r.robot_id, robotName: r.robot_name, title: r.title, spot: r.spot,
+    })
+    await audit(trx, {
+      ...by(actor), action: 'fail-job', subject: 'job', subjectId: r.job_id,
+      detail: { ...jobRef(r), failure: input.failure, note: input.note, recutJobId, recutCopies: spoilt }, about: { robotId: r.robot_id },
+    })
+    return findJob(trx, actor, r.job_id)
+  })
+  return jobDetail(db, actor, after!)
+}
+
 export interface CutSheetFiles { files: string[]; name: string }
 
 /** The cut sheet as one file per sheet. The caller has checked `queue.work`. */
-export async function cutSheetFiles(r: JobRow, o: SheetOptions, format: 'svg' | 'dxf'): Promise<CutSheetFiles> {
+export async function cutSheetFiles(db: Db, actor: Actor, r: JobRow, o: SheetOptions, format: 'svg' | 'dxf'): Promise<CutSheetFiles> {
   // The database already refuses such a job; this guards the file itself as well.
-  if (!r.chlorine_free) throw createError({ statusCode: 422, message: CHLORINE_REASON })
+  if (!r.film_cleared) {
+    const film = await filmOfProgram(db, actor.programId, r.film_id)
+    throw createError({ statusCode: 422, message: (film && notUsableBecause(film)) ?? 'This film may not be cut.' })
+  }
   const copy = await copyGeometry(r)
   const layout = layoutFor(r, copy, o)
   if (!layout.fits) throw createError({ statusCode: 422, message: `The decal does not fit on a ${r.sheet_width_mm} × ${r.sheet_height_mm} mm sheet of this film: ${layout.reason ?? 'make it smaller'}.` })

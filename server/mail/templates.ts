@@ -1,5 +1,6 @@
 // The words of every message we send: plain text and HTML, both from the same parts.
 import type { OutgoingMail } from '../platform/mail'
+import type { JobKind } from '#shared/types/robots'
 
 function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!)
@@ -81,10 +82,12 @@ export function decisionMail(o: { to: string; name: string; title: string; numbe
   })
 }
 
-export function newJobMail(o: { to: string[]; kind: 'initial' | 'reprint'; title: string; robot: string; spot: string; quantity: number; reason: string; by: string; url: string }): OutgoingMail {
+const JOB_SUBJECT: Record<JobKind, string> = { initial: 'New cut job', reprint: 'Reprint', recut: 'Recut', extra: 'More copies' }
+
+export function newJobMail(o: { to: string[]; kind: JobKind; title: string; robot: string; spot: string; quantity: number; reason: string; by: string; url: string }): OutgoingMail {
   return compose({
     to: o.to,
-    subject: `${o.kind === 'reprint' ? 'Reprint' : 'New cut job'}: ${o.quantity} × ${o.title} for ${o.robot}`,
+    subject: `${JOB_SUBJECT[o.kind]}: ${o.quantity} × ${o.title} for ${o.robot}`,
     greeting: 'Hello,',
     lines: [
       `${o.by} queued ${o.quantity} ${o.quantity === 1 ? 'copy' : 'copies'} of "${o.title}" for the ${o.spot} of ${o.robot}.`,

@@ -45,7 +45,9 @@ const TEAM_RULES: Record<TeamAction, MemberRole | 'member'> = {
   'revision.submit': 'student',
   'robot.view': 'member',
   'placement.create': 'designer',
+  'placement.edit': 'designer',
   'placement.reprint': 'member',
+  'robot.edit': 'designer',
   'job.view': 'member',
 }
 
@@ -61,6 +63,7 @@ const PROGRAM_RULES: Record<ProgramAction, 'mentor' | 'operator' | 'anyone'> = {
   'outbox.view': 'mentor',
   'program.manage': 'mentor',
   'queue.work': 'operator',
+  'film.test': 'operator',
 }
 
 function holdsAnywhere(actor: Actor, role: MemberRole): boolean {
@@ -132,6 +135,7 @@ export const REFUSALS: Record<Action, string> = {
   'outbox.view': 'Only a mentor may see the program\'s waiting mail.',
   'program.manage': 'Only a mentor may change the program\'s settings.',
   'queue.work': 'Only an operator or a mentor works the cut queue.',
+  'film.test': 'Only an operator or a mentor records test cuts.',
   'team.view': 'You are not on this team.',
   'team.members': 'Only the team\'s students and designers, or a mentor, may open the team\'s page.',
   'artwork.view': 'You are not on this team.',
@@ -140,7 +144,9 @@ export const REFUSALS: Record<Action, string> = {
   'revision.submit': 'Only the team\'s students and designers, or a mentor, may submit this revision.',
   'robot.view': 'You are not on this team.',
   'placement.create': 'Only a designer or a mentor may place decals on a robot.',
-  'placement.reprint': 'Only the team\'s members or a mentor may ask for a reprint.',
+  'placement.edit': 'Only a designer or a mentor may change or remove a placement.',
+  'placement.reprint': 'Only the team\'s members or a mentor may ask for a reprint or apply a spare.',
+  'robot.edit': 'Only a designer or a mentor may rename a robot.',
   'job.view': 'You are not on this team.',
 }
 

@@ -4,7 +4,7 @@ import type { Database } from '../db/schema'
 import type { Db } from '../platform/db'
 import { teamScope, type Actor } from '../policy'
 
-/** A robot's placements, each with its jobs, as one JSON column of the robot's row. */
+/** A robot's placements (not the removed ones), each with its jobs, as one JSON column of the robot's row. */
 function placementsOf(eb: ExpressionBuilder<Database, 'robot'>) {
   return jsonArrayFrom(eb.selectFrom('placement')
     .innerJoin('revision', 'revision.id', 'placement.revision_id')
@@ -12,13 +12,15 @@ function placementsOf(eb: ExpressionBuilder<Database, 'robot'>) {
     .innerJoin('film', 'film.id', 'placement.film_id')
     .innerJoin('users', 'users.id', 'placement.created_by')
     .select((p) => [
-      'placement.id', 'placement.spot', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.created_at',
+      'placement.id', 'placement.spot', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.spares_on_hand', 'placement.created_at',
       'revision.id as revision_id', 'revision.number', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
-      'artwork.id as artwork_id', 'artwork.title', 'film.id as film_id', 'film.name as film_name', 'film.colour as film_colour', 'users.name as created_by',
-      jsonArrayFrom(p.selectFrom('job').select(['job.id', 'job.kind', 'job.quantity', 'job.state'])
+      'artwork.id as artwork_id', 'artwork.title', 'film.id as film_id', 'film.name as film_name', 'film.colour as film_colour', 'film.colour_hex as film_colour_hex',
+      'users.name as created_by',
+      jsonArrayFrom(p.selectFrom('job').select(['job.id', 'job.kind', 'job.quantity', 'job.state', 'job.width_mm as widthMm'])
         .whereRef('job.placement_id', '=', 'placement.id').orderBy('job.id')).as('jobs'),
     ])
     .whereRef('placement.robot_id', '=', 'robot.id')
+    .where('placement.removed_at', 'is', null)
     .orderBy('placement.id'))
 }
 
@@ -51,13 +53,24 @@ export function robotPage(db: Db, actor: Actor, f: { teamId?: number }, after: R
   return q.orderBy('robot.team_id').orderBy('robot.season', 'desc').orderBy('robot.name').orderBy('robot.id').limit(limit).execute()
 }
 
-/** A placement with what a reprint needs, if the actor may see its robot. */
-export function findPlacement(db: Db, actor: Actor, id: number) {
-  return db.selectFrom('placement').innerJoin('robot', 'robot.id', 'placement.robot_id').innerJoin('team', 'team.id', 'robot.team_id')
+/** A placement with what a reprint or an edit needs, if the actor may see its robot. */
+export function findPlacement(db: Db, actor: Actor, id: number, o: { lock?: boolean } = {}) {
+  const q = db.selectFrom('placement').innerJoin('robot', 'robot.id', 'placement.robot_id').innerJoin('team', 'team.id', 'robot.team_id')
     .innerJoin('revision', 'revision.id', 'placement.revision_id').innerJoin('artwork', 'artwork.id', 'revision.artwork_id').innerJoin('film', 'film.id', 'placement.film_id')
-    .select(['placement.id', 'placement.spot', 'placement.film_id', 'robot.id as robot_id', 'robot.name as robot_name', 'team.id as teamId', 'team.program_id as programId',
-      'artwork.title', 'film.chlorine_free', 'film.retired'])
-    .where('placement.id', '=', id).where(teamScope(actor, 'robot.view')).executeTakeFirst()
+    .select(['placement.id', 'placement.spot', 'placement.film_id', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.spares_on_hand',
+      'placement.removed_at', 'placement.revision_id', 'revision.number as revision_number', 'revision.artwork_id',
+      'robot.id as robot_id', 'robot.name as robot_name', 'team.id as teamId', 'team.program_id as programId',
+      'artwork.title', 'film.name as film_name', 'film.cleared as film_cleared', 'film.retired as film_retired'])
+    .where('placement.id', '=', id).where(teamScope(actor, 'robot.view'))
+  return (o.lock ? q.forUpdate('placement') : q).executeTakeFirst()
+}
+
+/** A placement's jobs still waiting to be cut, with the names the history needs. */
+export function queuedJobsOf(db: Db, placementId: number) {
+  return db.selectFrom('job').innerJoin('placement', 'placement.id', 'job.placement_id').innerJoin('robot', 'robot.id', 'placement.robot_id')
+    .innerJoin('revision', 'revision.id', 'placement.revision_id').innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
+    .select(['job.id as job_id', 'job.quantity as job_quantity', 'job.width_mm', 'robot.id as robot_id', 'robot.name as robot_name', 'placement.spot', 'artwork.title'])
+    .where('job.placement_id', '=', placementId).where('job.state', '=', 'queued').orderBy('job.id').execute()
 }
 
 export type PlacementRow = NonNullable<Awaited<ReturnType<typeof findPlacement>>>

@@ -1,18 +1,23 @@
-// Robots, the decals placed on them, and reprints of exactly the placed revision.
+// Robots, the decals placed on them, reprints of exactly the placed revision, and corrections:
+// a placement edited or removed, spares put on the robot, a robot renamed.
 import { createError } from 'h3'
+import type { Transaction } from 'kysely'
 import { z } from 'zod'
+import type { Database } from '../db/schema'
 import type { Page } from '#shared/types/api'
 import type { ApprovedRevision, PlacementView, RobotView } from '#shared/types/robots'
+import type { applySpareSchema, placementPatchSchema, robotPatchSchema } from '#shared/utils/schemas'
 import { decodeCursor, pageOf } from '../platform/cursor'
 import { inTransaction, type Db } from '../platform/db'
 import { fieldError } from '../platform/http'
 import { flags, type Actor, type TeamSubject } from '../policy'
 import { audit, by } from '../history/service'
 import { findRevision } from '../artworks/queries'
-import { CHLORINE_REASON } from '../films/service'
+import { notUsableBecause } from '../films/service'
 import { filmOfProgram } from '../films/queries'
-import { queueJob } from '../jobs/service'
-import { approvedRevisionsOfTeam, findRobot, robotPage, type PlacementRow, type RobotKey, type RobotRow } from './queries'
+import { cancelQueued, queueJob, refusedFilm } from '../jobs/service'
+import { approvedRevisionsOfTeam, findPlacement, findRobot, queuedJobsOf, robotPage, type PlacementRow, type RobotKey, type RobotRow } from './queries'
+import { planPlacementChange, type PlacementPlan } from './plan'
 
 const iso = (t: Date | string) => new Date(t).toISOString()
 
@@ -21,13 +26,13 @@ export function toRobotView(actor: Actor, r: RobotRow): RobotView {
     id: r.id, name: r.name, season: r.season, team: { id: r.teamId, name: r.team_name, colour: r.team_colour },
     placements: r.placements.map((p): PlacementView => ({
       id: p.id, spot: p.spot, widthMm: p.width_mm, heightMm: (p.width_mm * p.revision_height) / p.revision_width,
-      quantity: p.quantity, spares: p.spares,
-      film: { id: p.film_id, name: p.film_name, colour: p.film_colour },
+      quantity: p.quantity, spares: p.spares, sparesOnHand: p.spares_on_hand,
+      film: { id: p.film_id, name: p.film_name, colour: p.film_colour, colourHex: p.film_colour_hex },
       revision: { id: p.revision_id, number: p.number, artworkId: p.artwork_id, title: p.title, vectorUrl: `/api/revisions/${p.revision_id}/vector.svg` },
       createdAt: iso(p.created_at), createdBy: p.created_by,
       jobs: p.jobs,
     })),
-    can: flags(actor, ['placement.create', 'placement.reprint', 'queue.work'], r),
+    can: flags(actor, ['placement.create', 'placement.edit', 'placement.reprint', 'robot.edit', 'queue.work'], r),
   }
 }
 
@@ -39,14 +44,30 @@ export async function listRobots(db: Db, actor: Actor, o: { teamId?: number; cur
   return pageOf(rows, o.limit, (r) => toRobotView(actor, r), (r): RobotKey => ({ teamId: r.teamId, season: r.season, name: r.name, id: r.id }))
 }
 
+async function nameIsFree(trx: Transaction<Database>, teamId: number, name: string, season: string, except = 0) {
+  const clash = await trx.selectFrom('robot').select('id').where('team_id', '=', teamId).where('name', '=', name).where('season', '=', season).where('id', '<>', except).executeTakeFirst()
+  if (clash) throw fieldError(409, 'This team has a robot of that name this season already.', 'name', 'Already taken this season.')
+}
+
 /** A new robot for a team of the program. The caller has checked `robot.create` and found the team. */
 export async function createRobot(db: Db, actor: Actor, team: TeamSubject, input: { name: string; season: string }): Promise<RobotView> {
   return inTransaction(db, async (trx) => {
-    const clash = await trx.selectFrom('robot').select('id').where('team_id', '=', team.teamId).where('name', '=', input.name).where('season', '=', input.season).executeTakeFirst()
-    if (clash) throw fieldError(409, 'This team has a robot of that name this season already.', 'name', 'Already taken this season.')
+    await nameIsFree(trx, team.teamId, input.name, input.season)
     const row = await trx.insertInto('robot').values({ team_id: team.teamId, name: input.name, season: input.season }).returning('id').executeTakeFirstOrThrow()
     await audit(trx, { ...by(actor), action: 'add-robot', subject: 'robot', subjectId: row.id, detail: { name: input.name, season: input.season } })
     return toRobotView(actor, (await findRobot(trx, actor, row.id))!)
+  })
+}
+
+/** A robot's name and season. The caller has found the robot and checked `robot.edit`. */
+export async function editRobot(db: Db, actor: Actor, robot: RobotRow, input: z.output<typeof robotPatchSchema>): Promise<RobotView> {
+  return inTransaction(db, async (trx) => {
+    const name = input.name ?? robot.name
+    const season = input.season ?? robot.season
+    await nameIsFree(trx, robot.teamId, name, season, robot.id)
+    await trx.updateTable('robot').set({ name, season }).where('id', '=', robot.id).execute()
+    await audit(trx, { ...by(actor), action: 'edit-robot', subject: 'robot', subjectId: robot.id, detail: { name, season, from: { name: robot.name, season: robot.season } } })
+    return toRobotView(actor, (await findRobot(trx, actor, robot.id))!)
   })
 }
 
@@ -56,9 +77,14 @@ export async function approvedRevisions(db: Db, robot: RobotRow): Promise<Approv
   return rows.map((r) => ({ revisionId: r.id, artworkId: r.artwork_id, title: r.title, number: r.number, widthMm: r.width_mm, heightMm: r.height_mm, narrowestMm: r.narrowest_mm }))
 }
 
+async function placementView(db: Db, actor: Actor, robotId: number, placementId: number): Promise<PlacementView> {
+  const after = await findRobot(db, actor, robotId)
+  return toRobotView(actor, after!).placements.find((p) => p.id === placementId)!
+}
+
 /**
- * Puts an approved revision of the robot's team on the robot, in chlorine-free film, and
- * queues its first cut. The caller has found the robot and checked `placement.create`.
+ * Puts an approved revision of the robot's team on the robot, in film the register clears for
+ * cutting, and queues its first cut. The caller has found the robot and checked `placement.create`.
  */
 export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, input: { revisionId: number; filmId: number; spot: string; widthMm: number; quantity: number; spares: number }): Promise<PlacementView> {
   const placementId = await inTransaction(db, async (trx) => {
@@ -71,32 +97,145 @@ export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, inp
     }
     const film = await filmOfProgram(trx, actor.programId, input.filmId)
     if (!film) throw fieldError(400, 'Please check the form: choose a film from the stock.', 'filmId', 'Choose a film from the stock.')
-    if (!film.chlorine_free) throw fieldError(422, CHLORINE_REASON, 'filmId', 'Not chlorine-free: never laser it.')
-    if (film.retired) throw fieldError(422, 'That film is retired from the stock.', 'filmId', 'Retired.')
+    const refused = notUsableBecause(film)
+    if (refused) throw fieldError(422, refused, 'filmId', film.cleared ? 'Retired.' : film.polymer_verdict === 'never' ? 'Never cut this film.' : 'Needs the lab\'s approval first.')
     const p = await trx.insertInto('placement').values({
       robot_id: robot.id, revision_id: revision.id, film_id: film.id, spot: input.spot, width_mm: input.widthMm,
       quantity: input.quantity, spares: input.spares, created_by: actor.id,
-    }).returning('id').executeTakeFirstOrThrow()
+    }).returning('id').executeTakeFirstOrThrow().catch(refusedFilm)
     await audit(trx, {
       ...by(actor), action: 'place', subject: 'robot', subjectId: robot.id, about: { artworkId: revision.artwork_id },
       detail: { title: revision.title, revision: revision.number, spot: input.spot, film: film.name, quantity: input.quantity, spares: input.spares },
     })
     await queueJob(trx, actor, {
-      placementId: p.id, filmId: film.id, kind: 'initial', quantity: input.quantity + input.spares, reason: '',
+      placementId: p.id, filmId: film.id, kind: 'initial', quantity: input.quantity + input.spares, widthMm: input.widthMm, reason: '',
       teamId: robot.teamId, robotId: robot.id, robotName: robot.name, title: revision.title, spot: input.spot,
     })
     return p.id
   })
-  const after = await findRobot(db, actor, robot.id)
-  return toRobotView(actor, after!).placements.find((p) => p.id === placementId)!
+  return placementView(db, actor, robot.id, placementId)
 }
 
+function mustBeHere(p: PlacementRow) {
+  if (p.removed_at) throw createError({ statusCode: 409, message: 'This placement was removed from the robot.' })
+}
+
+function mayCutMore(p: PlacementRow) {
+  if (!p.film_cleared) throw createError({ statusCode: 422, message: `${p.film_name} may not be cut: see the film's page. Place the decal again in another film.` })
+  if (p.film_retired) throw createError({ statusCode: 422, message: 'The film of this placement is retired; a mentor can place the decal again in another film.' })
+}
+
+const jobFor = (p: PlacementRow) => ({ placementId: p.id, filmId: p.film_id, teamId: p.teamId, robotId: p.robot_id, robotName: p.robot_name, title: p.title, spot: p.spot })
+
 /** More copies of exactly the placed revision. The caller has found the placement and checked `placement.reprint`. */
-export async function requestReprint(db: Db, actor: Actor, placement: PlacementRow, input: { quantity: number; reason: string }): Promise<{ jobId: number }> {
-  if (placement.retired) throw createError({ statusCode: 422, message: 'The film of this placement is retired; a mentor can place the decal again in another film.' })
-  const jobId = await inTransaction(db, (trx) => queueJob(trx, actor, {
-    placementId: placement.id, filmId: placement.film_id, kind: 'reprint', quantity: input.quantity, reason: input.reason,
-    teamId: placement.teamId, robotId: placement.robot_id, robotName: placement.robot_name, title: placement.title, spot: placement.spot,
-  }))
-  return { jobId }
+export async function requestReprint(db: Db, actor: Actor, placement: PlacementRow, input: { quantity: number; reason: string }): Promise<{ jobId: number; sparesOnHand: number }> {
+  mustBeHere(placement)
+  mayCutMore(placement)
+  const jobId = await inTransaction(db, (trx) => queueJob(trx, actor, { ...jobFor(placement), kind: 'reprint', quantity: input.quantity, widthMm: placement.width_mm, reason: input.reason }))
+  return { jobId, sparesOnHand: placement.spares_on_hand }
+}
+
+/** Spares from the shelf put on the robot. The caller has found the placement and checked `placement.reprint`. */
+export async function applySpare(db: Db, actor: Actor, placement: PlacementRow, input: z.output<typeof applySpareSchema>): Promise<PlacementView> {
+  mustBeHere(placement)
+  await inTransaction(db, async (trx) => {
+    const taken = await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '-', input.count) }))
+      .where('id', '=', placement.id).where('spares_on_hand', '>=', input.count).returning('spares_on_hand').executeTakeFirst()
+    if (!taken) {
+      const left = (await trx.selectFrom('placement').select('spares_on_hand').where('id', '=', placement.id).executeTakeFirstOrThrow()).spares_on_hand
+      throw fieldError(409, left ? `Only ${left} spare${left === 1 ? ' is' : 's are'} on hand.` : 'No spares are on hand: ask for a reprint.', 'count')
+    }
+    await audit(trx, {
+      ...by(actor), action: 'apply-spare', subject: 'robot', subjectId: placement.robot_id, about: { artworkId: placement.artwork_id },
+      detail: { placementId: placement.id, title: placement.title, robot: placement.robot_name, spot: placement.spot, count: input.count, reason: input.reason, sparesOnHand: taken.spares_on_hand },
+    })
+  })
+  return placementView(db, actor, placement.robot_id, placement.id)
+}
+
+export interface PlacementChange {
+  placement: PlacementView
+  /** The job queued for what the change added, if any. */
+  queuedJobId: number | null
+  /** Queued jobs the change made obsolete (a new width). */
+  cancelledJobIds: number[]
+  /** In words: what happened to the cut queue. */
+  summary: string
+}
+
+/**
+ * Changes a placement's spot, width, copies or spares. What must be cut afterwards that is not
+ * cut or queued already is queued as a job of its own; jobs that are cut stay as they were; a
+ * new width cancels the queued jobs at the old width (they would cut the wrong size) and sets
+ * the spares at the old size aside. The caller has found the placement and checked `placement.edit`.
+ */
+export async function editPlacement(db: Db, actor: Actor, found: PlacementRow, patch: z.output<typeof placementPatchSchema>): Promise<PlacementChange> {
+  const done = await inTransaction(db, async (trx) => {
+    // Read again under a lock: two edits at once must not both queue the difference.
+    const placement = (await findPlacement(trx, actor, found.id, { lock: true }))!
+    mustBeHere(placement)
+    const plan = planPlacementChange(
+      { spot: placement.spot, widthMm: placement.width_mm, quantity: placement.quantity, spares: placement.spares, sparesOnHand: placement.spares_on_hand },
+      patch,
+    )
+    if (plan.copiesToQueue > 0) mayCutMore(placement)
+    const after = plan.after
+    await trx.updateTable('placement').set({
+      spot: after.spot, width_mm: after.widthMm, quantity: after.quantity, spares: after.spares, ...(plan.resized ? { spares_on_hand: 0 } : {}),
+    }).where('id', '=', placement.id).where('removed_at', 'is', null).execute()
+    const names = { ...placement, spot: after.spot }
+    const queuedJobId = plan.copiesToQueue > 0
+      ? await queueJob(trx, actor, {
+          ...jobFor(names), kind: 'extra', quantity: plan.copiesToQueue, widthMm: after.widthMm,
+          reason: plan.resized ? `The placement is now ${after.widthMm} mm wide.` : `The placement now needs ${after.quantity} on the robot and ${after.spares} spare${after.spares === 1 ? '' : 's'}.`,
+        })
+      : null
+    const cancelled: number[] = []
+    if (plan.resized) {
+      for (const j of await queuedJobsOf(trx, placement.id)) {
+        if (j.job_id === queuedJobId) continue
+        await cancelQueued(trx, actor, j, `The placement was changed from ${placement.width_mm} mm to ${after.widthMm} mm wide${queuedJobId ? `; job ${queuedJobId} cuts the new size` : ''}.`)
+        cancelled.push(j.job_id)
+      }
+    }
+    await audit(trx, {
+      ...by(actor), action: 'edit-placement', subject: 'robot', subjectId: placement.robot_id, about: { artworkId: placement.artwork_id },
+      detail: { placementId: placement.id, title: placement.title, robot: placement.robot_name, spot: after.spot, changes: plan.changes },
+    })
+    return { queuedJobId, cancelled, summary: changeSummary(plan, queuedJobId, cancelled) }
+  })
+  return {
+    placement: await placementView(db, actor, found.robot_id, found.id),
+    queuedJobId: done.queuedJobId, cancelledJobIds: done.cancelled, summary: done.summary,
+  }
+}
+
+function changeSummary(plan: PlacementPlan, queued: number | null, cancelled: number[]): string {
+  const parts: string[] = []
+  if (queued) parts.push(`Job ${queued} queued for ${plan.copiesToQueue} ${plan.copiesToQueue === 1 ? 'copy' : 'copies'}.`)
+  if (cancelled.length) parts.push(`Cancelled ${cancelled.map((id) => `job ${id}`).join(', ')}: ${cancelled.length === 1 ? 'it was' : 'they were'} for the old width.`)
+  if (plan.setAside > 0) parts.push(`${plan.setAside} spare${plan.setAside === 1 ? '' : 's'} at the old size set aside.`)
+  if (plan.surplus > 0) parts.push(`${plan.surplus} ${plan.surplus === 1 ? 'copy' : 'copies'} already cut or queued beyond what is needed now: cancel a queued job on its page if you do not want them.`)
+  return parts.join(' ') || 'Nothing to cut changed.'
+}
+
+/** Takes a placement off the robot: its queued jobs are cancelled; cut jobs and the history stay. The caller has checked `placement.edit`. */
+export async function removePlacement(db: Db, actor: Actor, found: PlacementRow, reason: string): Promise<{ cancelledJobIds: number[] }> {
+  return inTransaction(db, async (trx) => {
+    const placement = (await findPlacement(trx, actor, found.id, { lock: true }))!
+    mustBeHere(placement)
+    const cancelled: number[] = []
+    for (const j of await queuedJobsOf(trx, placement.id)) {
+      await cancelQueued(trx, actor, j, `The placement was removed: ${reason}`)
+      cancelled.push(j.job_id)
+    }
+    const done = await trx.updateTable('placement').set({ removed_by: actor.id, removed_at: new Date(), removed_reason: reason })
+      .where('id', '=', placement.id).where('removed_at', 'is', null).executeTakeFirst()
+    if (!done.numUpdatedRows) throw createError({ statusCode: 409, message: 'Someone else removed this placement just now.' })
+    await audit(trx, {
+      ...by(actor), action: 'remove-placement', subject: 'robot', subjectId: placement.robot_id, about: { artworkId: placement.artwork_id },
+      detail: { placementId: placement.id, title: placement.title, robot: placement.robot_name, spot: placement.spot, reason },
+    })
+    return { cancelledJobIds: cancelled }
+  })
 }

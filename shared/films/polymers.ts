@@ -115,6 +115,20 @@ export const POLYMERS: readonly Polymer[] = [
     sources: [LAB_GUIDANCE],
   },
   {
+    code: 'POM', name: 'Acetal (POM)',
+    names: ['acetal', 'POM', 'polyoxymethylene', 'polyacetal', 'acetal copolymer'],
+    halogens: [], verdict: 'ask-the-lab',
+    why: 'It cuts, but its fumes carry formaldehyde; many labs forbid it and others allow it only with strong extraction: only with the lab\'s approval for this film.',
+    sources: [COMMON],
+  },
+  {
+    code: 'FRP', name: 'Fibreglass and carbon fibre in resin',
+    names: ['fibreglass', 'fiberglass', 'glass fibre', 'glass fiber', 'GRP', 'FR4', 'FR-4', 'G10', 'carbon fibre', 'carbon fiber', 'carbon fibre plate', 'CFRP'],
+    halogens: [], verdict: 'never',
+    why: 'The resin gives off toxic fumes (circuit board often carries a brominated flame retardant), the fibres do not cut, and the fine dust is a breathing hazard.',
+    sources: [COMMON],
+  },
+  {
     code: 'ABS', name: 'ABS (acrylonitrile butadiene styrene)',
     names: ['ABS', 'acrylonitrile butadiene styrene'],
     halogens: [], verdict: 'never',

@@ -1,9 +1,11 @@
 // Every kind of line in the history, with what each one records. The server's audit writer
 // accepts only these; the pages that tell the history turn each one into a sentence.
 import type { MemberRole, Role } from './roles'
+import type { CutFailure } from './robots'
 
 interface RevisionRef { title: string; revision: number }
 interface JobRef { title: string; robot: string; spot: string; quantity: number }
+interface PlacementRef { placementId: number; title: string; robot: string; spot: string }
 
 export interface AuditDetails {
   'sign-in': Record<string, never>
@@ -35,10 +37,27 @@ export interface AuditDetails {
   'place': RevisionRef & { spot: string; film: string; quantity: number; spares: number }
   'queue-job': JobRef & { reason: string }
   'reprint': JobRef & { reason: string }
-  'mark-cut': JobRef
-  'mark-applied': JobRef
-  'add-film': { name: string; chlorineFree: boolean }
+  /** A job queued for copies a placement's edit added. */
+  'queue-extra': JobRef & { reason: string }
+  /** A job queued to cut again what a failed cut spoilt. */
+  'recut': JobRef & { reason: string; recutOf: number }
+  'mark-cut': JobRef & { sheets?: number }
+  'mark-applied': JobRef & { applied?: number }
+  'cancel-job': JobRef & { reason: string }
+  'fail-job': JobRef & { failure: CutFailure; note: string; recutJobId: number; recutCopies: number }
+  'edit-placement': PlacementRef & { changes: Record<string, { from: unknown; to: unknown }> }
+  'remove-placement': PlacementRef & { reason: string }
+  'apply-spare': PlacementRef & { count: number; reason: string; sparesOnHand: number }
+  'edit-robot': { name: string; season: string; from: { name: string; season: string } }
+  'rename-artwork': { from: string; to: string }
+  'add-film': { name: string; polymer: string }
   'update-film': { name: string } & Record<string, unknown>
+  /** Written by migration 0008: a film's typed polymer read through the register. */
+  'register-film': { name: string; typed: string; polymer: string; retired: boolean; reason: string | null }
+  'approve-film': { name: string; polymer: string; safetyDataSheet: string }
+  'withdraw-film-approval': { name: string; polymer: string }
+  'test-film': { name: string; square: string | null; powerPct: number | null; speedMmS: number | null; passes: number; kerfMm: number | null }
+  'film-stock': { name: string; kind: 'delivery' | 'count'; sheets: number; onHand: number; note: string }
 }
 
 export type AuditAction = keyof AuditDetails
@@ -51,6 +70,9 @@ const KNOWN: Record<AuditAction, true> = {
   'create-mentor': true, 'load-demo': true, 'set-work-area': true, 'upload': true, 'revise': true, 'submit': true,
   'approve': true, 'send-back': true, 'add-robot': true, 'place': true, 'queue-job': true, 'reprint': true,
   'mark-cut': true, 'mark-applied': true, 'add-film': true, 'update-film': true,
+  'queue-extra': true, 'recut': true, 'cancel-job': true, 'fail-job': true, 'edit-placement': true, 'remove-placement': true,
+  'apply-spare': true, 'edit-robot': true, 'rename-artwork': true, 'register-film': true, 'approve-film': true,
+  'withdraw-film-approval': true, 'test-film': true, 'film-stock': true,
 }
 export const AUDIT_SUBJECTS = ['user', 'team', 'invitation', 'program', 'artwork', 'robot', 'job', 'film'] as const
 export type AuditSubject = (typeof AUDIT_SUBJECTS)[number]

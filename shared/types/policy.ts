@@ -12,7 +12,8 @@ export const PROGRAM_ACTIONS = [
   'mail.view', // one's own messages in the local mail fake
   'outbox.view', // the program's mail that has not gone out yet
   'program.manage', // the laser's work area
-  'queue.work', // the cut queue: move jobs, download cut sheets
+  'queue.work', // the cut queue: move, cancel and fail jobs, download cut sheets
+  'film.test', // cut a film's test grid and record the result
 ] as const
 export type ProgramAction = (typeof PROGRAM_ACTIONS)[number]
 
@@ -26,7 +27,9 @@ export const TEAM_ACTIONS = [
   'revision.submit',
   'robot.view',
   'placement.create',
-  'placement.reprint',
+  'placement.edit', // change a placement's spot, width, copies, or remove it
+  'placement.reprint', // ask for a reprint, apply a spare
+  'robot.edit', // rename a robot, change its season
   'job.view',
 ] as const
 export type TeamAction = (typeof TEAM_ACTIONS)[number]

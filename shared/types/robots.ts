@@ -2,9 +2,28 @@ import type { AuditAction } from './audit'
 import type { Film } from './films'
 import type { Can } from './policy'
 
-export const JOB_STATES = ['queued', 'cut', 'applied'] as const
+export const JOB_STATES = ['queued', 'cut', 'applied', 'cancelled', 'failed'] as const
 export type JobState = (typeof JOB_STATES)[number]
-export const JOB_STATE_LABELS: Record<JobState, string> = { queued: 'Queued', cut: 'Cut', applied: 'Applied' }
+export const JOB_STATE_LABELS: Record<JobState, string> = { queued: 'Queued', cut: 'Cut', applied: 'Applied', cancelled: 'Cancelled', failed: 'Failed' }
+
+/** initial: a placement's first cut; reprint: asked for by the team; recut: after a failed cut; extra: copies a placement's edit added. */
+export const JOB_KINDS = ['initial', 'reprint', 'recut', 'extra'] as const
+export type JobKind = (typeof JOB_KINDS)[number]
+export const JOB_KIND_LABELS: Record<JobKind, string> = { initial: 'First cut', reprint: 'Reprint', recut: 'Recut', extra: 'More copies' }
+
+export const CUT_FAILURES = ['burnt', 'lifted', 'mis-weeded', 'other'] as const
+export type CutFailure = (typeof CUT_FAILURES)[number]
+export const CUT_FAILURE_LABELS: Record<CutFailure, string> = { 'burnt': 'Burnt', 'lifted': 'Lifted from the liner', 'mis-weeded': 'Mis-weeded', 'other': 'Something else' }
+
+/** What a job's card needs about its film's stock in the queue: the sheets it needs against those on hand after the queued jobs before it. */
+export interface JobStock {
+  sheetsNeeded: number
+  /** Sheets the queued jobs ahead of this one in the same film need. */
+  neededAhead: number
+  onHand: number
+  /** Whether the sheets on hand cover this job after the ones ahead of it. */
+  enough: boolean
+}
 
 export interface PlacementView {
   id: number
@@ -13,11 +32,13 @@ export interface PlacementView {
   heightMm: number
   quantity: number
   spares: number
-  film: { id: number; name: string; colour: string }
+  /** Cut copies not on the robot: cutting adds, applying takes. */
+  sparesOnHand: number
+  film: { id: number; name: string; colour: string; colourHex: string }
   revision: { id: number; number: number; artworkId: number; title: string; vectorUrl: string }
   createdAt: string
   createdBy: string
-  jobs: { id: number; kind: 'initial' | 'reprint'; quantity: number; state: JobState }[]
+  jobs: { id: number; kind: JobKind; quantity: number; state: JobState; widthMm: number }[]
 }
 
 export interface RobotView {
@@ -27,7 +48,7 @@ export interface RobotView {
   team: { id: number; name: string; colour: string }
   placements: PlacementView[]
   /** What the viewer may do here; 'queue.work' opens the jobs' pages. */
-  can: Can<'placement.create' | 'placement.reprint' | 'queue.work'>
+  can: Can<'placement.create' | 'placement.edit' | 'placement.reprint' | 'robot.edit' | 'queue.work'>
 }
 
 /** An approved revision that may go on a robot of its team. */
@@ -44,7 +65,7 @@ export interface ApprovedRevision {
 
 export interface JobView {
   id: number
-  kind: 'initial' | 'reprint'
+  kind: JobKind
   quantity: number
   reason: string
   state: JobState
@@ -52,13 +73,28 @@ export interface JobView {
   createdBy: string
   cutAt: string | null
   cutBy: string | null
+  sheetsUsed: number | null
   appliedAt: string | null
   appliedBy: string | null
-  placement: { id: number; spot: string; widthMm: number; heightMm: number }
+  appliedCount: number | null
+  cancelledAt: string | null
+  cancelledBy: string | null
+  cancelReason: string | null
+  failedAt: string | null
+  failedBy: string | null
+  failure: CutFailure | null
+  failureNote: string | null
+  recutOf: number | null
+  /** The job that recut this one after it failed. */
+  recutBy: number | null
+  /** The copies' size as this job cuts them (fixed when it was queued). */
+  placement: { id: number; spot: string; widthMm: number; heightMm: number; quantity: number; sparesOnHand: number; removed: boolean }
   robot: { id: number; name: string; season: string }
   team: { id: number; name: string; colour: string }
   revision: { id: number; number: number; artworkId: number; title: string; vectorUrl: string }
   film: Film
+  /** For queued jobs: sheets needed against sheets on hand. */
+  stock: JobStock | null
 }
 
 export interface JobDetail extends JobView {

@@ -3,7 +3,9 @@ import { z } from 'zod'
 import { CUT_SHEET_LIMITS } from '../constants/cut-sheet'
 import { PLACEMENT_LIMITS } from '../constants/placements'
 import { MEMBER_ROLES, ROLES } from '../types/roles'
-import { JOB_STATES } from '../types/robots'
+import { CUT_FAILURES, JOB_STATES } from '../types/robots'
+import { polymerByCode } from '../films/polymers'
+import { OPACITIES } from '../films/library'
 
 export const PASSWORD_MIN = 10
 
@@ -120,21 +122,90 @@ export const reviewSchema = z.object({
   if (v.decision === 'send-back' && !v.comment) ctx.addIssue({ code: 'custom', path: ['comment'], message: 'Say what to change when sending it back.' })
 })
 
-export const filmSchema = z.object({
+/** A register code the films form chose; a polymer that may never be cut is refused with the register's reason. */
+export const polymerCodeSchema = z.string({ message: 'Choose what the film is made of from the register.' }).trim().max(20)
+  .superRefine((code, ctx) => {
+    const p = polymerByCode(code)
+    if (!p) ctx.addIssue({ code: 'custom', message: 'Choose what the film is made of from the register: search it by any common name.' })
+    else if (p.verdict === 'never') ctx.addIssue({ code: 'custom', message: `${p.name} can never be placed or cut. ${p.why}` })
+  })
+
+const filmFields = {
   name: z.string().trim().min(1, { message: 'Name the film.' }).max(80),
-  basePolymer: z.string().trim().min(1, { message: 'Say what the film is made of, e.g. polyester (PET).' }).max(120),
-  chlorineFree: z.boolean({ message: 'Say whether the film is chlorine-free.' }),
+  polymerCode: polymerCodeSchema,
   colour: z.string().trim().min(1, { message: 'Name the colour.' }).max(40),
+  colourHex: z.string().regex(/^#[0-9a-fA-F]{6}$/, { message: 'Pick the swatch colour.' }).transform((v) => v.toLowerCase()),
+  opacity: z.enum(OPACITIES, { message: 'Say whether the film is opaque, translucent or clear.' }),
   thicknessMm: z.number({ message: 'Enter the thickness in mm.' }).gt(0).lt(10),
   sheetWidthMm: z.number({ message: 'Enter the sheet width in mm.' }).gt(0).max(2000),
   sheetHeightMm: z.number({ message: 'Enter the sheet height in mm.' }).gt(0).max(2000),
   minFeatureMm: z.number({ message: 'Enter the smallest weedable feature in mm.' }).gt(0).max(50),
+  /** Null: not measured yet (the common-practice default applies). */
+  kerfMm: z.number({ message: 'Enter the kerf in mm, or leave it empty.' }).gt(0).lt(2).nullable(),
   laserPowerPct: z.number({ message: 'Enter the power in %.' }).gt(0).max(100),
   laserSpeedMmS: z.number({ message: 'Enter the speed in mm/s.' }).gt(0).max(1000),
   laserPasses: z.number({ message: 'Enter the number of passes.' }).int().min(1).max(20),
+}
+export const filmSchema = z.object({
+  ...filmFields,
+  kerfMm: filmFields.kerfMm.default(null),
+  sheetsOnHand: z.number({ message: 'How many sheets are on the shelf?' }).int().min(0).max(100_000).default(0),
   retired: z.boolean().default(false),
 })
-export const filmPatchSchema = filmSchema.partial().extend({ retired: z.boolean().optional() })
+// No defaults: a field left out of a change stays as it is. Stock goes through deliveries and counts.
+export const filmPatchSchema = z.object({
+  ...Object.fromEntries(Object.entries(filmFields).map(([k, v]) => [k, v.optional()])) as { [K in keyof typeof filmFields]: z.ZodOptional<(typeof filmFields)[K]> },
+  retired: z.boolean().optional(),
+  retiredReason: z.string().trim().max(500).optional(),
+})
+
+export const polymerQuerySchema = z.object({ q: z.string().trim().max(80).optional() })
+
+export const labApprovalSchema = z.object({
+  safetyDataSheet: z.string().trim().min(3, { message: 'Name the safety data sheet the lab judged: maker, product, revision or date, or its address.' }).max(300),
+})
+
+export const filmStockSchema = z.object({
+  kind: z.enum(['delivery', 'count'], { message: 'Choose a delivery or a count.' }),
+  sheets: z.number({ message: 'How many sheets?' }).int().min(0).max(100_000),
+  note: z.string().trim().max(300).default(''),
+}).superRefine((v, ctx) => {
+  if (v.kind === 'delivery' && v.sheets < 1) ctx.addIssue({ code: 'custom', path: ['sheets'], message: 'A delivery brings at least one sheet.' })
+})
+
+const settingRange = (name: string, max: number, maxSteps: number) => z.object({
+  from: z.number({ message: `Enter the first ${name}.` }).gt(0).max(max),
+  to: z.number({ message: `Enter the last ${name}.` }).gt(0).max(max),
+  steps: z.number({ message: `How many ${name} steps?` }).int().min(1).max(maxSteps),
+}).refine((r) => r.steps > 1 || r.from === r.to, { message: `One ${name} step needs the same first and last value.` })
+
+export const TEST_GRID_DEFAULTS = { power: { from: 30, to: 80, steps: 6 }, speed: { from: 5, to: 25, steps: 5 }, passes: 1, squareMm: 10 } as const
+
+export const testGridSchema = z.object({
+  power: settingRange('power', 100, 26),
+  speed: settingRange('speed', 1000, 20),
+  passes: z.number({ message: 'Enter the number of passes.' }).int().min(1).max(20),
+  squareMm: z.number({ message: 'Enter the size of each square in mm.' }).min(3).max(40),
+})
+
+const num = (fallback: number) => z.coerce.number().default(fallback)
+/** The grid in the address of its downloads: ?powerFrom=&powerTo=&powerSteps=&speedFrom=… */
+export const testGridQuerySchema = z.object({
+  powerFrom: num(TEST_GRID_DEFAULTS.power.from), powerTo: num(TEST_GRID_DEFAULTS.power.to), powerSteps: num(TEST_GRID_DEFAULTS.power.steps),
+  speedFrom: num(TEST_GRID_DEFAULTS.speed.from), speedTo: num(TEST_GRID_DEFAULTS.speed.to), speedSteps: num(TEST_GRID_DEFAULTS.speed.steps),
+  passes: num(TEST_GRID_DEFAULTS.passes), squareMm: num(TEST_GRID_DEFAULTS.squareMm),
+}).transform((q) => ({
+  power: { from: q.powerFrom, to: q.powerTo, steps: q.powerSteps }, speed: { from: q.speedFrom, to: q.speedTo, steps: q.speedSteps },
+  passes: q.passes, squareMm: q.squareMm,
+})).pipe(testGridSchema)
+
+export const filmTestSchema = z.object({
+  grid: testGridSchema,
+  /** The square that weeded cleanly, by its label on the grid; null when none did. */
+  square: z.string().trim().toUpperCase().regex(/^[A-Z][0-9]{1,2}$/, { message: 'Give the square as its label, e.g. C4.' }).nullable(),
+  kerfMm: z.number({ message: 'Enter the kerf you measured in mm, or leave it empty.' }).gt(0).lt(2).nullable().default(null),
+  note: z.string().trim().max(500).default(''),
+})
 
 export const robotSchema = z.object({
   teamId: z.number({ message: 'Choose a team.' }).int().positive(),
@@ -142,22 +213,71 @@ export const robotSchema = z.object({
   season: z.string().trim().min(1, { message: 'Say which season, e.g. 2026–27.' }).max(40),
 })
 
+const placementFields = {
+  spot: z.string().trim().min(1, { message: 'Say where it goes, e.g. "left side panel".' }).max(120),
+  widthMm: widthMmSchema,
+  quantity: z.number({ message: 'How many go on the robot?' }).int().min(PLACEMENT_LIMITS.quantity.min).max(PLACEMENT_LIMITS.quantity.max),
+  spares: z.number({ message: 'How many spares?' }).int().min(PLACEMENT_LIMITS.spares.min).max(PLACEMENT_LIMITS.spares.max),
+}
+
 export const placementSchema = z.object({
   robotId: z.number({ message: 'Choose a robot.' }).int().positive(),
   revisionId: z.number({ message: 'Choose an approved revision.' }).int().positive(),
   filmId: z.number({ message: 'Choose a film.' }).int().positive(),
-  spot: z.string().trim().min(1, { message: 'Say where it goes, e.g. "left side panel".' }).max(120),
-  widthMm: widthMmSchema,
-  quantity: z.number({ message: 'How many go on the robot?' }).int().min(PLACEMENT_LIMITS.quantity.min).max(PLACEMENT_LIMITS.quantity.max),
-  spares: z.number({ message: 'How many spares?' }).int().min(PLACEMENT_LIMITS.spares.min).max(PLACEMENT_LIMITS.spares.max).default(PLACEMENT_LIMITS.spares.default),
+  ...placementFields,
+  spares: placementFields.spares.default(PLACEMENT_LIMITS.spares.default),
 })
+
+/** A change to a placement: any of its spot, width, copies on the robot and spares. */
+export const placementPatchSchema = z.object({
+  spot: placementFields.spot.optional(),
+  widthMm: placementFields.widthMm.optional(),
+  quantity: placementFields.quantity.optional(),
+  spares: placementFields.spares.optional(),
+}).refine((v) => Object.values(v).some((x) => x !== undefined), { message: 'Change at least one thing.' })
+
+const reasonSchema = (example: string) => z.string().trim().min(1, { message: `Say why, e.g. "${example}".` }).max(500)
+
+export const placementRemovalSchema = z.object({ reason: reasonSchema('the panel was replaced') })
 
 export const reprintSchema = z.object({
   quantity: z.number({ message: 'How many to reprint?' }).int().min(PLACEMENT_LIMITS.reprint.min, { message: 'At least one.' }).max(PLACEMENT_LIMITS.reprint.max),
   reason: z.string().trim().min(1, { message: 'Say what happened, e.g. "torn off in a match".' }).max(500),
 })
 
-export const jobStateSchema = z.object({ state: z.enum(['cut', 'applied'], { message: 'Choose cut or applied.' }) })
+/** Spares taken from the shelf and put on the robot. */
+export const applySpareSchema = z.object({
+  count: z.number({ message: 'How many spares went on the robot?' }).int().min(1, { message: 'At least one.' }).max(PLACEMENT_LIMITS.reprint.max),
+  reason: z.string().trim().min(1, { message: 'Say what happened, e.g. "torn off in a match".' }).max(500),
+})
+
+export const jobStateSchema = z.object({
+  state: z.enum(['cut', 'applied'], { message: 'Choose cut or applied.' }),
+  /** With "cut": the sheets the job used (the layout's count by default). */
+  sheetsUsed: z.number({ message: 'How many sheets were used?' }).int().min(0).max(1000).optional(),
+  /** With "applied": how many copies went on the robot (the rest stay as spares). */
+  applied: z.number({ message: 'How many went on the robot?' }).int().min(0).max(10_000).optional(),
+})
+
+export const jobCancelSchema = z.object({ reason: reasonSchema('asked for twice') })
+
+export const jobFailureSchema = z.object({
+  failure: z.enum(CUT_FAILURES, { message: 'Say what went wrong: burnt, lifted, mis-weeded or something else.' }),
+  note: z.string().trim().max(500).default(''),
+  /** How many copies to cut again (all of the job's by default). */
+  copies: z.number({ message: 'How many copies to cut again?' }).int().min(1).max(10_000).optional(),
+  /** With a job that was still queued: the sheets the failed cut used (the layout's count by default). */
+  sheetsUsed: z.number({ message: 'How many sheets were used?' }).int().min(0).max(1000).optional(),
+})
+
+export const robotPatchSchema = z.object({
+  name: z.string().trim().min(1, { message: 'Name the robot.' }).max(80).optional(),
+  season: z.string().trim().min(1, { message: 'Say which season, e.g. 2026–27.' }).max(40).optional(),
+}).refine((v) => v.name !== undefined || v.season !== undefined, { message: 'Change the name or the season.' })
+
+export const artworkPatchSchema = z.object({
+  title: z.string().trim().min(1, { message: 'Give the artwork a title.' }).max(120, { message: 'Use at most 120 characters.' }),
+})
 
 const sheetDimension = (d: keyof typeof CUT_SHEET_LIMITS) =>
   formNumber(z.number().min(CUT_SHEET_LIMITS[d].min).max(CUT_SHEET_LIMITS[d].max).default(CUT_SHEET_LIMITS[d].default))

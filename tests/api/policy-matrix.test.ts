@@ -73,7 +73,7 @@ async function placed(revisionId: number, robotId: number, filmId: number, by: n
   const db = testDb()
   const p = await db.insertInto('placement').values({ robot_id: robotId, revision_id: revisionId, film_id: filmId, spot: 'matrix', width_mm: 40, quantity: 1, created_by: by })
     .returning('id').executeTakeFirstOrThrow()
-  const job = await db.insertInto('job').values({ placement_id: p.id, kind: 'initial', quantity: 1, film_id: filmId, created_by: by }).returning('id').executeTakeFirstOrThrow()
+  const job = await db.insertInto('job').values({ placement_id: p.id, kind: 'initial', quantity: 1, film_id: filmId, width_mm: 40, created_by: by }).returning('id').executeTakeFirstOrThrow()
   return { placement: p.id, job: job.id }
 }
 
@@ -96,7 +96,7 @@ beforeAll(async () => {
   const otherUpload = await uploadArtwork(await signedIn('juniper@harbourline.example', DEMO_PASSWORD), { file: await drawing('png', 250, 160), title: `Matrix other ${Date.now()}`, teamId: sprockets, widthMm: 40 })
   expect([ownUpload.status, otherUpload.status]).toEqual([201, 201])
   const farArtwork = await addArtwork(db, { teamId: farTeam.id, authorId: farTeam.student })
-  const pet = (await db.selectFrom('film').select('id').where('program_id', '=', demo.id).where('chlorine_free', '=', true).where('retired', '=', false).orderBy('id').executeTakeFirstOrThrow()).id
+  const pet = (await db.selectFrom('film').select('id').where('program_id', '=', demo.id).where('polymer_code', '=', 'PET').where('retired', '=', false).orderBy('id').executeTakeFirstOrThrow()).id
   const mentorId = await userId(DEMO_ACCOUNTS.mentor.email)
   const approved = {
     'own team': await addArtwork(db, { teamId: wrens, authorId: mentorId, status: 'approved' }),
@@ -142,7 +142,6 @@ const ROUTES: Record<string, RouteRule> = {
   'GET /api/health': { fixed: PASS, ask: () => ({ path: '/api/health' }) },
   'GET /api/[...]': { fixed: 404, ask: () => ({ path: '/api/no-such-route' }) },
   'POST /api/auth/sign-in': { fixed: 400, ask: () => ({ path: '/api/auth/sign-in', body: {} }) },
-  'POST /api/auth/sign-out': { fixed: PASS, ask: () => ({ path: '/api/auth/sign-out' }) },
   'GET /api/invitations/by-token/[token]': { fixed: 404, ask: () => ({ path: '/api/invitations/by-token/no-such-token' }) },
   'POST /api/invitations/by-token/[token]/accept': { fixed: 400, ask: () => ({ path: '/api/invitations/by-token/no-such-token/accept', body: {} }) },
   'GET /api/password-resets/[token]': { fixed: 404, ask: () => ({ path: '/api/password-resets/no-such-token' }) },
@@ -152,6 +151,7 @@ const ROUTES: Record<string, RouteRule> = {
   'GET /api/me': { ask: () => ({ path: '/api/me' }) },
   'GET /api/teams': { ask: () => ({ path: '/api/teams' }) },
   'GET /api/films': { ask: () => ({ path: '/api/films' }) },
+  'GET /api/polymers': { ask: () => ({ path: '/api/polymers?q=vinyl' }) },
   'GET /api/artworks': { ask: () => ({ path: '/api/artworks' }) },
   'GET /api/robots': { ask: () => ({ path: '/api/robots' }) },
 
@@ -160,6 +160,15 @@ const ROUTES: Record<string, RouteRule> = {
   'PATCH /api/teams/[id]': { guard: 'team.manage', scope: 'program', ask: (w) => ({ path: `/api/teams/${t().team[w]}`, body: {} }) },
   'POST /api/films': { guard: 'film.manage', ask: () => ({ path: '/api/films', body: {} }) },
   'PATCH /api/films/[id]': { guard: 'film.manage', scope: 'program', ask: (w) => ({ path: `/api/films/${t().film[w]}`, body: {} }) },
+  'GET /api/films/[id]': { scope: 'program', ask: (w) => ({ path: `/api/films/${t().film[w]}` }) },
+  // Polyester needs no approval (422), and has none to withdraw (409): nothing changes.
+  'POST /api/films/[id]/lab-approval': { guard: 'film.manage', scope: 'program', ask: (w) => ({ path: `/api/films/${t().film[w]}/lab-approval`, body: { safetyDataSheet: 'matrix' } }) },
+  'DELETE /api/films/[id]/lab-approval': { guard: 'film.manage', scope: 'program', ask: (w) => ({ path: `/api/films/${t().film[w]}/lab-approval` }) },
+  'POST /api/films/[id]/stock': { guard: 'film.manage', scope: 'program', ask: (w) => ({ path: `/api/films/${t().film[w]}/stock`, body: {} }) },
+  'GET /api/films/[id]/test-grid': { guard: 'film.test', scope: 'program', ask: (w) => ({ path: `/api/films/${t().film[w]}/test-grid` }) },
+  'GET /api/films/[id]/test-grid.svg': { guard: 'film.test', scope: 'program', ask: (w) => ({ path: `/api/films/${t().film[w]}/test-grid.svg` }) },
+  'GET /api/films/[id]/test-grid.dxf': { guard: 'film.test', scope: 'program', ask: (w) => ({ path: `/api/films/${t().film[w]}/test-grid.dxf` }) },
+  'POST /api/films/[id]/tests': { guard: 'film.test', scope: 'program', ask: (w) => ({ path: `/api/films/${t().film[w]}/tests`, body: {} }) },
   'GET /api/people': { guard: 'people.manage', ask: () => ({ path: '/api/people' }) },
   'PATCH /api/people/[id]': { guard: 'people.manage', scope: 'program', ask: (w) => ({ path: `/api/people/${t().person[w]}`, body: {} }) },
   // The role is validated before the person and team are looked up.
@@ -180,6 +189,7 @@ const ROUTES: Record<string, RouteRule> = {
 
   'POST /api/artworks': { scope: 'team.view', action: 'artwork.upload', ask: (w) => ({ path: '/api/artworks', upload: { teamId: t().team[w] } }) },
   'GET /api/artworks/[id]': { scope: 'artwork.view', ask: (w) => ({ path: `/api/artworks/${t().artwork[w]}` }) },
+  'PATCH /api/artworks/[id]': { scope: 'artwork.view', action: 'artwork.revise', ask: (w) => ({ path: `/api/artworks/${t().artwork[w]}`, body: { title: '' } }) },
   'GET /api/artworks/[id]/history': { scope: 'artwork.view', ask: (w) => ({ path: `/api/artworks/${t().artwork[w]}/history` }) },
   'POST /api/artworks/[id]/preview': { scope: 'artwork.view', action: 'artwork.revise', ask: (w) => ({ path: `/api/artworks/${t().artwork[w]}/preview`, body: { widthMm: 0 } }) },
   'POST /api/artworks/[id]/revisions': { scope: 'artwork.view', action: 'artwork.revise', ask: (w) => ({ path: `/api/artworks/${t().artwork[w]}/revisions`, body: { widthMm: 0 } }) },
@@ -193,6 +203,7 @@ const ROUTES: Record<string, RouteRule> = {
 
   'POST /api/robots': { guard: 'robot.create', scope: 'team.view', ask: (w) => ({ path: '/api/robots', body: { teamId: t().team[w], name: unique(), season: '2026–27' } }) },
   'GET /api/robots/[id]': { scope: 'robot.view', ask: (w) => ({ path: `/api/robots/${t().robot[w]}` }) },
+  'PATCH /api/robots/[id]': { scope: 'robot.view', action: 'robot.edit', ask: (w) => ({ path: `/api/robots/${t().robot[w]}`, body: {} }) },
   'GET /api/robots/[id]/history': { scope: 'robot.view', ask: (w) => ({ path: `/api/robots/${t().robot[w]}/history` }) },
   'GET /api/robots/[id]/approved-revisions': { scope: 'robot.view', action: 'placement.create', ask: (w) => ({ path: `/api/robots/${t().robot[w]}/approved-revisions` }) },
   // A revision that is not approved: an allowed placement is refused further on (409 or 400), so nothing is placed.
@@ -201,12 +212,19 @@ const ROUTES: Record<string, RouteRule> = {
     ask: (w) => ({ path: '/api/placements', body: { robotId: t().robot[w], revisionId: t().draftRevision, filmId: t().film['own team'], spot: 'matrix', widthMm: 40, quantity: 1 } }),
   },
   'POST /api/placements/[id]/reprints': { scope: 'robot.view', action: 'placement.reprint', ask: (w) => ({ path: `/api/placements/${t().placement[w]}/reprints`, body: { quantity: 0 } }) },
+  'POST /api/placements/[id]/spares': { scope: 'robot.view', action: 'placement.reprint', ask: (w) => ({ path: `/api/placements/${t().placement[w]}/spares`, body: { count: 0 } }) },
+  'PATCH /api/placements/[id]': { scope: 'robot.view', action: 'placement.edit', ask: (w) => ({ path: `/api/placements/${t().placement[w]}`, body: {} }) },
+  'DELETE /api/placements/[id]': { scope: 'robot.view', action: 'placement.edit', ask: (w) => ({ path: `/api/placements/${t().placement[w]}`, body: { reason: '' } }) },
 
   'GET /api/jobs': { guard: 'queue.work', ask: () => ({ path: '/api/jobs' }) },
   'GET /api/jobs/[id]': { scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}` }) },
   'POST /api/jobs/[id]/state': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/state`, body: { state: 'lost' } }) },
+  'POST /api/jobs/[id]/cancel': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/cancel`, body: { reason: '' } }) },
+  'POST /api/jobs/[id]/failure': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/failure`, body: { failure: 'exploded' } }) },
   'GET /api/jobs/[id]/cut-sheet.svg': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/cut-sheet.svg?gap=-1` }) },
   'GET /api/jobs/[id]/cut-sheet.dxf': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/cut-sheet.dxf?gap=-1` }) },
+  // Last: a session is a row on the server, so signing out ends it for every copy of the cookie.
+  'POST /api/auth/sign-out': { fixed: PASS, ask: () => ({ path: '/api/auth/sign-out' }) },
 }
 
 /** What the policy says the answer must be. */

@@ -80,15 +80,16 @@ describe('review', () => {
 
 describe('film stock and the chlorine rule', () => {
   const film = {
-    name: `Test orange polyester ${Date.now()}`, basePolymer: 'Polyester (PET)', chlorineFree: true, colour: 'orange',
+    name: `Test orange polyester ${Date.now()}`, polymerCode: 'PET', colour: 'orange', colourHex: '#e07020', opacity: 'opaque',
     thicknessMm: 0.08, sheetWidthMm: 300, sheetHeightMm: 200, minFeatureMm: 0.8, laserPowerPct: 60, laserSpeedMmS: 10, laserPasses: 1,
   }
 
-  it('lists the demo stock, with the PVC film marked unusable and why', async () => {
+  it('lists the demo stock, with the PVC film marked unusable, the register\'s verdict and why', async () => {
     const films = (await student.get('/api/films')).body
-    const pvc = films.find((f: any) => /PVC/.test(f.basePolymer))
-    expect(pvc).toMatchObject({ chlorineFree: false, usable: false })
+    const pvc = films.find((f: any) => f.name === 'Glossy white sign vinyl')
+    expect(pvc).toMatchObject({ chlorineFree: false, cleared: false, usable: false, polymer: { code: 'PVC', verdict: 'never', halogens: ['chlorine'] } })
     expect(pvc.notUsableBecause).toMatch(/hydrogen chloride/)
+    expect(pvc.polymer.sources.length).toBeGreaterThan(0)
     expect(films.filter((f: any) => f.usable).length).toBeGreaterThanOrEqual(3)
   })
 
@@ -96,41 +97,36 @@ describe('film stock and the chlorine rule', () => {
     expect((await student.post('/api/films', film)).status).toBe(403)
     const created = await mentor.post('/api/films', film)
     expect(created.status, JSON.stringify(created.body)).toBe(201)
-    expect(created.body).toMatchObject({ ...film, usable: true })
+    expect(created.body).toMatchObject({ name: film.name, polymer: { code: 'PET' }, colourHex: '#e07020', usable: true, cleared: true })
     const patched = await mentor.patch(`/api/films/${created.body.id}`, { laserPasses: 2, retired: true })
     expect(patched.body).toMatchObject({ laserPasses: 2, retired: true, usable: false })
     const bad = await mentor.post('/api/films', { ...film, name: '', laserPowerPct: 140 })
     expect(bad.status).toBe(400)
     expect(Object.keys(bad.body.data.fieldErrors).sort()).toEqual(['laserPowerPct', 'name'])
-    // PVC cannot be declared chlorine-free, by the form or by the database.
-    const lie = await mentor.post('/api/films', { ...film, name: `${film.name} B`, basePolymer: 'Calendered PVC', chlorineFree: true })
-    expect(lie.status).toBe(400)
-    expect(lie.body.data.fieldErrors.chlorineFree).toBeDefined()
   })
 
-  it('the database itself refuses a placement or a job on film that is not chlorine-free', async () => {
+  it('the database itself refuses a placement or a job on film the register does not clear', async () => {
     const db = testDb()
-    // Arrange an approved revision and a robot, by hand.
     const rev = await newRevision(`Chlorine check ${Date.now()}`)
     await student.post(`/api/revisions/${rev.id}/submit`)
     await mentor.post(`/api/revisions/${rev.id}/review`, { decision: 'approve' })
     const robot = await db.insertInto('robot').values({ team_id: wrens, name: `Test bot ${Date.now()}`, season: '2026–27' }).returning('id').executeTakeFirstOrThrow()
-    const pvc = await db.selectFrom('film').select('id').where('chlorine_free', '=', false).executeTakeFirstOrThrow()
-    const pet = await db.selectFrom('film').select('id').where('chlorine_free', '=', true).where('retired', '=', false).executeTakeFirstOrThrow()
+    const pvc = await db.selectFrom('film').select('id').where('name', '=', 'Glossy white sign vinyl').executeTakeFirstOrThrow()
+    const pet = await db.selectFrom('film').select('id').where('name', '=', 'Matte black polyester film').executeTakeFirstOrThrow()
     const userId = (await db.selectFrom('users').select('id').where('email', '=', DEMO_ACCOUNTS.mentor.email).executeTakeFirstOrThrow()).id
 
     // A hand-written SQL insert, bypassing every form and route:
     await expect(sql`insert into placement (robot_id, revision_id, film_id, spot, width_mm, quantity, created_by)
-      values (${robot.id}, ${rev.id}, ${pvc.id}, 'left side panel', 60, 1, ${userId})`.execute(db)).rejects.toThrow(/placement_film_chlorine_free/)
-    // …nor by claiming the film is chlorine-free in the row itself:
-    await expect(sql`insert into placement (robot_id, revision_id, film_id, film_chlorine_free, spot, width_mm, quantity, created_by)
+      values (${robot.id}, ${rev.id}, ${pvc.id}, 'left side panel', 60, 1, ${userId})`.execute(db)).rejects.toThrow(/placement_film_cleared/)
+    // …nor by claiming the film is cleared in the row itself:
+    await expect(sql`insert into placement (robot_id, revision_id, film_id, film_cleared, spot, width_mm, quantity, created_by)
       values (${robot.id}, ${rev.id}, ${pvc.id}, false, 'left side panel', 60, 1, ${userId})`.execute(db)).rejects.toThrow(/check/)
     const ok = await sql<{ id: number }>`insert into placement (robot_id, revision_id, film_id, spot, width_mm, quantity, created_by)
       values (${robot.id}, ${rev.id}, ${pet.id}, 'left side panel', 60, 1, ${userId}) returning id`.execute(db)
     const placementId = ok.rows[0]!.id
-    await expect(sql`insert into job (placement_id, kind, quantity, film_id, created_by) values (${placementId}, 'reprint', 1, ${pvc.id}, ${userId})`.execute(db)).rejects.toThrow(/job_film_chlorine_free/)
-    // A film in use cannot be relabelled as chlorinated afterwards.
-    await expect(sql`update film set chlorine_free = false where id = ${pet.id}`.execute(db)).rejects.toThrow(/violates foreign key/)
+    await expect(sql`insert into job (placement_id, kind, quantity, film_id, width_mm, created_by) values (${placementId}, 'reprint', 1, ${pvc.id}, 60, ${userId})`.execute(db)).rejects.toThrow(/job_film_cleared/)
+    // A film in use cannot become one the register refuses afterwards.
+    await expect(sql`update film set polymer_code = 'PVC', polymer_verdict = 'never' where id = ${pet.id}`.execute(db)).rejects.toThrow(/violates foreign key/)
     // And only approved revisions go on a robot.
     const draft = await newRevision(`Not approved ${Date.now()}`)
     await expect(sql`insert into placement (robot_id, revision_id, film_id, spot, width_mm, quantity, created_by)

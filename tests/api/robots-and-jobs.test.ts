@@ -24,7 +24,7 @@ beforeAll(async () => {
   const db = testDb()
   wrens = (await db.selectFrom('team').select('id').where('name', '=', 'Copper Wrens').executeTakeFirstOrThrow()).id
   pet = await db.selectFrom('film').select(['id', 'sheet_width_mm', 'sheet_height_mm']).where('name', '=', 'Matte black polyester film').executeTakeFirstOrThrow()
-  pvc = await db.selectFrom('film').select('id').where('chlorine_free', '=', false).executeTakeFirstOrThrow()
+  pvc = await db.selectFrom('film').select('id').where('polymer_code', '=', 'PVC').executeTakeFirstOrThrow()
   student = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
   mentor = await signedIn(DEMO_ACCOUNTS.mentor.email, DEMO_PASSWORD)
   operator = await signedIn(DEMO_ACCOUNTS.operator.email, DEMO_PASSWORD)
@@ -46,7 +46,7 @@ describe('robots, placements, the cut queue and cut sheets', () => {
     expect((await allPages(student, `/api/robots?teamId=${wrens}`)).map((x: any) => x.id)).toContain(robotId)
   })
 
-  it('refuses PVC film for a placement, and a revision that is not approved', async () => {
+  it('refuses PVC film for a placement, with the register\'s reason, and a revision that is not approved', async () => {
     const base = { robotId, revisionId: approvedRevision.id, spot: 'left side panel', widthMm: 50, quantity: 2, spares: 1 }
     const r = await mentor.post('/api/placements', { ...base, filmId: pvc.id })
     expect(r.status).toBe(422)
@@ -123,6 +123,8 @@ describe('robots, placements, the cut queue and cut sheets', () => {
     const applied = await operator.post(`/api/jobs/${jobId}/state`, { state: 'applied' })
     expect(applied.body).toMatchObject({ state: 'applied', appliedBy: DEMO_ACCOUNTS.operator.name })
     expect(applied.body.history.map((h: any) => h.action)).toEqual(['queue-job', 'mark-cut', 'mark-applied'])
+    // 3 copies cut, 2 on the robot (the placement's count): 1 spare on the shelf.
+    expect(applied.body).toMatchObject({ appliedCount: 2, sheetsUsed: 1, placement: { sparesOnHand: 1 } })
     expect((await operator.post(`/api/jobs/${jobId}/state`, { state: 'cut' })).status).toBe(409)
   })
 

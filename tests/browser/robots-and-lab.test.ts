@@ -90,8 +90,9 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
 
     const form = byTest(page, 'placement-form')
     await expect.poll(() => form.count()).toBe(1)
-    // The approved revision is offered, with its own width as the starting width.
+    // The approved revision is offered (among the team's others), with its own width as the starting width.
     const revisionSelect = form.locator('select[name="revisionId"]')
+    await revisionSelect.selectOption((await revisionSelect.locator('option', { hasText: `${title} r1` }).getAttribute('value'))!)
     expect(await revisionSelect.locator('option:checked').innerText()).toContain(`${title} r1`)
     expect(await form.locator('input[name="widthMm"]').inputValue()).toBe('60')
 
@@ -156,7 +157,10 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     // The lab page keeps its cautions next to the queue.
     expect(await byTest(page, 'caution').count()).toBe(1)
     const rowText = await row.innerText()
-    expect(rowText).toMatch(/Initial/)
+    expect(rowText).toMatch(/First cut/)
+    // Sheets needed against the shelf: one of the demo's 14.
+    expect(await byTest(page, `job-sheets-${jobId}`).innerText()).toMatch(/1 of \d+/)
+    expect(await byTest(page, `job-film-${jobId}`).innerText()).toMatch(/Allowed[\s\S]*Polyester \(PET\)/)
     expect(rowText).toContain(`${title} r1`)
     expect(rowText).toContain(robotName)
     expect(rowText).toContain(SPOT)
@@ -193,13 +197,19 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     expect(svg.match(/id="dw-copy-\d+"/g)).toHaveLength(3)
     expect(svg.match(/id="dw-frame-\d+"/g)).toHaveLength(3)
 
+    // Cut: the layout's one sheet comes off the shelf; applied: two of the three go on the robot, one is a spare.
+    expect(await byTest(page, 'job-film-verdict').innerText()).toMatch(/Allowed[\s\S]*Polyester/)
     await byTest(page, 'mark-cut').click()
+    expect(await page.locator('input[name="sheetsUsed"]').inputValue()).toBe('1')
+    await byTest(page, 'confirm-cut').click()
     await expect.poll(() => byTest(page, 'job-state').innerText()).toMatch(/^\s*Cut\s*$/)
-    expect(await byTest(page, 'job-history').innerText()).toMatch(new RegExp(`Marked as cut\\s+by ${DEMO_ACCOUNTS.operator.name}`))
+    expect(await byTest(page, 'job-history').innerText()).toMatch(new RegExp(`Marked as cut\\s+\\(1 sheet\\)\\s+by ${DEMO_ACCOUNTS.operator.name}`))
     await byTest(page, 'mark-applied').click()
+    expect(await page.locator('input[name="applied"]').inputValue()).toBe('2')
+    await byTest(page, 'confirm-applied').click()
     await expect.poll(() => byTest(page, 'job-state').innerText()).toMatch(/^\s*Applied\s*$/)
     expect(await byTest(page, 'mark-applied').count()).toBe(0)
-    expect(await byTest(page, 'job-history').innerText()).toMatch(new RegExp(`Marked as applied\\s+by ${DEMO_ACCOUNTS.operator.name}`))
+    expect(await byTest(page, 'job-history').innerText()).toMatch(new RegExp(`Marked as applied\\s+\\(2 on the robot\\)\\s+by ${DEMO_ACCOUNTS.operator.name}`))
     await screenshot(page, 'job-page-operator')
   })
 
@@ -214,9 +224,13 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     // A student does not place decals.
     expect(await byTest(student, 'placement-form').count()).toBe(0)
 
+    expect(await byTest(student, `spares-on-hand-${placementId}`).innerText()).toBe('1')
     await byTest(student, `reprint-${placementId}`).click()
     const form = byTest(student, 'reprint-form')
     await expect.poll(() => form.count()).toBe(1)
+    // The spare on the shelf is offered first; the student asks for a reprint instead.
+    expect(await byTest(student, 'spare-offer').innerText()).toMatch(/1 cut copy is on the shelf already/)
+    await byTest(student, 'reprint-anyway').click()
     // A reason is needed.
     await form.locator('button[type="submit"]').click()
     await expect.poll(() => form.locator('[data-test="error-reason"]').count()).toBe(1)

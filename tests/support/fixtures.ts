@@ -5,6 +5,7 @@ import type { Database } from '../../server/db/schema'
 import type { MemberRole } from '../../shared/types/roles'
 import type { Measurements } from '../../shared/types/pipeline'
 import { DEFAULT_SETTINGS } from '../../shared/utils/settings'
+import { polymerByCode } from '../../shared/films/polymers'
 
 type Db = Kysely<Database>
 let serial = 0
@@ -15,7 +16,7 @@ export interface ProgramFixture {
   id: number
   mentor: number
   teams: [TeamFixture, TeamFixture]
-  films: { pet: number; pvc: number }
+  films: { pet: number; pvc: number; pu: number }
   emails: Map<number, string>
 }
 
@@ -26,8 +27,28 @@ async function person(db: Db, programId: number, name: string, emails: Map<numbe
   return u.id
 }
 
-/** A program with a mentor, two teams (each with a student, a designer and an operator) and two films. */
-export async function buildProgram(db: Db, o: { passwordHash?: string } = {}): Promise<ProgramFixture> {
+/** A film of the register's polymer `polymer`, its verdict carried along as the database asks. */
+export async function addFilm(db: Db, programId: number, o: { name: string; polymer: string; opacity?: 'opaque' | 'translucent' | 'clear'; colourHex?: string; sheetsOnHand?: number }) {
+  return (await db.insertInto('film').values({
+    program_id: programId, name: o.name, polymer_code: o.polymer, polymer_verdict: polymerByCode(o.polymer)?.verdict ?? 'never',
+    colour: 'black', colour_hex: o.colourHex ?? '#111111', opacity: o.opacity ?? 'opaque', thickness_mm: 0.08,
+    sheet_width_mm: 300, sheet_height_mm: 200, min_feature_mm: 0.8, kerf_mm: null, laser_power_pct: 50, laser_speed_mm_s: 10, laser_passes: 1,
+    sheets_on_hand: o.sheetsOnHand ?? 20,
+  }).returning('id').executeTakeFirstOrThrow()).id
+}
+
+/**
+ * A film as the schema before the register (migration 0008) held it: a typed polymer and a
+ * declared chlorine-free, for tests of the migrations.
+ */
+export async function addTypedFilm(db: Db, programId: number, name: string, typed: string, chlorineFree = !/pvc/i.test(typed)) {
+  const r = await sql<{ id: number }>`insert into film (program_id, name, base_polymer, chlorine_free, colour, thickness_mm, sheet_width_mm, sheet_height_mm, min_feature_mm, laser_power_pct, laser_speed_mm_s, laser_passes)
+    values (${programId}, ${name}, ${typed}, ${chlorineFree}, 'black', 0.08, 300, 200, 0.8, 50, 10, 1) returning id`.execute(db)
+  return r.rows[0]!.id
+}
+
+/** A program with a mentor, two teams (each with a student, a designer and an operator) and three films: PET, PVC and polyurethane (ask the lab, not approved). */
+export async function buildProgram(db: Db, o: { passwordHash?: string; typedFilms?: boolean } = {}): Promise<ProgramFixture> {
   const hash = o.passwordHash ?? null
   const emails = new Map<number, string>()
   const program = await db.insertInto('program').values({ name: unique('Fixture program'), school: 'Fixture school' }).returning('id').executeTakeFirstOrThrow()
@@ -44,13 +65,11 @@ export async function buildProgram(db: Db, o: { passwordHash?: string } = {}): P
     }
     teams.push({ id: team.id, name, student: await member('student'), designer: await member('designer'), operator: await member('operator') })
   }
-  const film = (name: string, basePolymer: string, chlorineFree: boolean) => db.insertInto('film').values({
-    program_id: program.id, name, base_polymer: basePolymer, chlorine_free: chlorineFree, colour: 'black', thickness_mm: 0.08,
-    sheet_width_mm: 300, sheet_height_mm: 200, min_feature_mm: 0.8, laser_power_pct: 50, laser_speed_mm_s: 10, laser_passes: 1,
-  }).returning('id').executeTakeFirstOrThrow()
-  const pet = await film('Fixture PET film', 'Polyester (PET)', true)
-  const pvc = await film('Fixture PVC film', 'PVC (polyvinyl chloride)', false)
-  return { id: program.id, mentor, teams: teams as [TeamFixture, TeamFixture], films: { pet: pet.id, pvc: pvc.id }, emails }
+  const film = o.typedFilms ? (name: string, polymer: string) => addTypedFilm(db, program.id, name, polymer) : (name: string, polymer: string) => addFilm(db, program.id, { name, polymer })
+  const pet = await film('Fixture PET film', 'PET')
+  const pvc = await film('Fixture PVC film', 'PVC')
+  const pu = await film('Fixture PVC-free vinyl', 'PU')
+  return { id: program.id, mentor, teams: teams as [TeamFixture, TeamFixture], films: { pet, pvc, pu }, emails }
 }
 
 export const FIXTURE_MEASUREMENTS: Measurements = {

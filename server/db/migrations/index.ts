@@ -6,6 +6,7 @@ import * as m0004 from './0004_laser_work_area'
 import * as m0005 from './0005_structure'
 import * as m0006 from './0006_trust'
 import * as m0007 from './0007_requests'
+import * as m0008 from './0008_films'
 
 // A static list: a bundled server cannot read a folder of migration files.
 // Add new migrations here, in order, under a name that sorts after the last one.
@@ -17,4 +18,5 @@ export const migrations: Record<string, Migration> = {
   '0005_structure': m0005,
   '0006_trust': m0006,
   '0007_requests': m0007,
+  '0008_films': m0008,
 }

@@ -6,7 +6,8 @@ import { cutSheetFiles } from '#server/jobs/service'
 // One sheet per file: ?sheet=N picks it (default 1); the job page lists how many there are.
 export default defineEventHandler(async (event) => {
   const actor = await requireCan(event, 'queue.work')
-  const job = authorize(actor, 'job.view', await findJob(useDb(), actor, idParam(event)), 'No such job.')
+  const db = useDb()
+  const job = authorize(actor, 'job.view', await findJob(db, actor, idParam(event)), 'No such job.')
   const options = readQuery(event, cutSheetQuerySchema)
-  return sendCutSheet(event, await cutSheetFiles(job, options, 'dxf'), 'dxf', options.sheet ?? 1)
+  return sendCutSheet(event, await cutSheetFiles(db, actor, job, options, 'dxf'), 'dxf', options.sheet ?? 1)
 })

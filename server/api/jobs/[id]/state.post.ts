@@ -7,6 +7,6 @@ export default defineEventHandler(async (event) => {
   const actor = await requireCan(event, 'queue.work')
   const db = useDb()
   const job = authorize(actor, 'job.view', await findJob(db, actor, idParam(event)), 'No such job.')
-  const { state } = await readJson(event, jobStateSchema)
-  return moveJob(db, actor, job, state)
+  const input = await readJson(event, jobStateSchema)
+  return moveJob(db, actor, job, input)
 })

@@ -1,17 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { matchPolymer, polymerByCode, polymerClears, POLYMERS, searchPolymers, UNKNOWN_POLYMER } from '../../../shared/films/polymers'
-
-// Spellings a person may type for one name: case, spaces, hyphens, run together, brackets.
-function spellings(name: string): string[] {
-  const words = name.replace(/[()]/g, ' ').split(/[\s-]+/).filter(Boolean)
-  return [...new Set([
-    name, name.toUpperCase(), name.toLowerCase(),
-    words.join(' '), words.join('-'), words.join(''),
-    words.map((w) => w[0]!.toUpperCase() + w.slice(1)).join(' '),
-    `  ${words.join('  ')}  `,
-    `${name} film`, `White ${name.toLowerCase()} with acrylic adhesive`,
-  ])]
-}
+import { matchPolymer, polymerByCode, polymerClears, POLYMERS, searchPolymers, UNKNOWN_POLYMER } from '../../../../shared/films/polymers'
+import { spellings } from '../../../support/spellings'
 
 describe('the polymer register', () => {
   it('has the entries a lab needs, each with a verdict, a reason and a source', () => {
