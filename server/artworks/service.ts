@@ -62,6 +62,7 @@ export async function revisionDetail(db: Db, row: RevisionRow): Promise<Revision
     ...revisionSummary(row),
     artworkId: row.artwork_id,
     settings: row.settings as unknown as Record<string, unknown>,
+    choices: row.choices,
     timings: row.timings,
     engineVersions: row.engine_versions,
     source: { id: row.source_id, mediaType: row.media_type, fileName: row.file_name, widthPx: row.width_px, heightPx: row.height_px, bytes: row.bytes, contentHash: row.content_hash },
@@ -111,7 +112,7 @@ async function insertRevision(trx: Transaction<Database>, o: { artworkId: number
     settings: JSON.stringify(o.settings), width_mm: m.widthMm, height_mm: m.heightMm,
     prepared_key: o.files.prepared, outline_key: o.files.outline, vector_key: o.files.vector,
     measurements: JSON.stringify(m), timings: JSON.stringify(o.result.timings),
-    engine_versions: JSON.stringify(o.result.engineVersions), author_id: o.authorId,
+    engine_versions: JSON.stringify(o.result.engineVersions), choices: JSON.stringify(o.result.choices), author_id: o.authorId,
   }).returning(['id', 'number']).executeTakeFirstOrThrow()
   await trx.updateTable('artwork').set({ updated_at: new Date() }).where('id', '=', o.artworkId).execute()
   return rev

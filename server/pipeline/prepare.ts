@@ -27,6 +27,7 @@ import { multiply, scaleBilinear, scaling, translation, warpBilinear } from './h
 import { mapFamily, removeLines } from './lines'
 import { toGrey } from './luma'
 import { histogram as makeHistogram } from './otsu'
+import { thickenStrokes } from './thicken'
 import { parseSettings, type PipelineSettings, type PipelineSettingsInput } from '../../shared/utils/settings'
 
 export interface PrepareOptions {
@@ -52,6 +53,8 @@ export interface PrepareTimings {
   gridMs: number
   eveningMs: number
   thresholdMs: number
+  /** Thin strokes thickened (thickenToMm). */
+  thickenMs: number
   pngMs: number
   totalMs: number
 }
@@ -138,6 +141,23 @@ function trimBitmap(bm: Uint8Array, width: number, box: { x0: number, y0: number
     out.set(bm.subarray(y * width + box.x0, y * width + box.x1 + 1), (y - box.y0 + margin) * w + margin)
   }
   return { bitmap: out, width: w, height: h }
+}
+
+/**
+ * The bitmap with thin strokes thickened to `toMm` at the decal's size. For a drawing trimmed to
+ * its ink (drawingWidthMm), the scale is known only after trimming, and thickening can widen the
+ * ink by up to its own width plus a pixel: with B pixels of ink across now, the trimmed scale is
+ * at most (B + 1 + w) / drawingWidthMm for a thickening of w pixels, so w = toMm · (B + 1) /
+ * (drawingWidthMm − toMm) reaches toMm at any scale the trim can give.
+ */
+function thickenToWidth(bitmap: Uint8Array, width: number, height: number, toMm: number, pxPerMm: number, drawingWidthMm: number | null, speckFilterMm2: number): Uint8Array {
+  const speck = Math.max(1, speckFilterMm2 * pxPerMm * pxPerMm)
+  let px = toMm * pxPerMm
+  if (drawingWidthMm !== null) {
+    const box = inkBox(findPieces(bitmap, width, height).pieces, speck)
+    if (box) px = (toMm * (box.x1 - box.x0 + 2)) / Math.max(drawingWidthMm / 2, drawingWidthMm - toMm)
+  }
+  return thickenStrokes(bitmap, width, height, px, { speckAreaPx: speck })
 }
 
 const MIN_SIDE_PX = 8
@@ -318,7 +338,9 @@ async function prepare(
   const t4 = performance.now()
 
   const histogram = makeHistogram(grey!)
-  const { bitmap: workBitmap, level } = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork)
+  const thresholded = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork)
+  const level = thresholded.level
+  let workBitmap = thresholded.bitmap
   if (settings.swapInkAndPaper) for (let i = 0; i < n; i++) workBitmap[i] = 1 - workBitmap[i]!
   if (analysis.removeLines) {
     const k = workW / region.width / analysis.scale
@@ -326,9 +348,22 @@ async function prepare(
       removeLines(workBitmap, workW, workH, mapFamily(f, k, -region.left * (workW / region.width), -region.top * (workH / region.height)))
     }
   }
+  const t4b = performance.now()
+  // Thickened after the paper lines are gone (they are thin too, and would otherwise grow).
+  if (settings.thickenToMm !== null) {
+    workBitmap = thickenToWidth(workBitmap, workW, workH, settings.thickenToMm, pxPerMmWork, widthOf === 'drawing' ? widthMm : null, settings.speckFilterMm2)
+  }
+  const t4c = performance.now()
 
   let bitmap = workBitmap, width = workW, height = workH, pxPerMm = pxPerMmWork
   const choices = [...analysis.choices]
+  const mm = (v: number) => v.toFixed(1)
+  choices.push({
+    setting: 'thickenToMm', automatic: false, value: settings.thickenToMm,
+    reason: settings.thickenToMm === null
+      ? 'Strokes are kept as drawn.'
+      : `Strokes and dots narrower than ${Number(settings.thickenToMm.toFixed(2))} mm are thickened to that width, so they survive weeding.`,
+  })
   if (widthOf === 'drawing') {
     const speck = Math.max(1, settings.speckFilterMm2 * pxPerMmWork * pxPerMmWork)
     const box = inkBox(findPieces(workBitmap, workW, workH).pieces, speck)
@@ -338,7 +373,6 @@ async function prepare(
     pxPerMm = (box.x1 - box.x0 + 1) / widthMm
     const trimmed = trimBitmap(workBitmap, workW, box, Math.round(settings.marginMm * pxPerMm))
     bitmap = trimmed.bitmap; width = trimmed.width; height = trimmed.height
-    const mm = (v: number) => v.toFixed(1)
     choices.push({
       setting: 'marginMm', automatic: false, value: settings.marginMm,
       reason: `Trimmed to the drawing's ink, ${mm(widthMm)} × ${mm((box.y1 - box.y0 + 1) / pxPerMm)} mm, ${settings.marginMm > 0 ? `with ${mm(settings.marginMm)} mm of paper on every side` : 'with no margin'}.`,
@@ -360,7 +394,7 @@ async function prepare(
     choices,
     timings: {
       decodeMs: t1 - t0, analysisMs: t2 - t1, analysisSteps: analysis.timings, gridMs: t3 - t2, eveningMs: t4 - t3,
-      thresholdMs: t5 - t4, pngMs: t6 - t5, totalMs: t6 - t0,
+      thresholdMs: t5 - t4 - (t4c - t4b), thickenMs: t4c - t4b, pngMs: t6 - t5, totalMs: t6 - t0,
     },
   }
 }

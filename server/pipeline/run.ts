@@ -7,8 +7,7 @@ import type { CleanUpChoice, EngineVersions, Measurements, StageTimings } from '
 import { prepareDrawing, type PrepareOptions } from './prepare'
 import { traceBitmap, outlineToSvg } from './trace'
 import { cleanVector } from './clean'
-import { measureCurves, smallPieces, narrowestFeatureMm } from './geometry'
-import { fidelity } from './fidelity'
+import { measureOutline } from './measure'
 import type { PipelineSettingsInput } from '../../shared/utils/settings'
 export { PREVIEW_SOURCE_SIDE } from '../../shared/utils/settings'
 import { ENGINE_VERSIONS_BASE } from './versions'
@@ -28,6 +27,7 @@ export interface RunRequest {
 
 export interface RunResult {
   preparedPng: Uint8Array
+  /** The tracer's own outline, in prepared-bitmap pixels; empty for a preview (never stored). */
   rawOutlineSvg: string
   cleanSvg: string
   measurements: Measurements
@@ -50,28 +50,25 @@ export async function runPipeline(req: RunRequest): Promise<RunResult> {
   const t2 = performance.now()
   const clean = cleanVector(outline)
   const t3 = performance.now()
-  const geometry = measureCurves(clean.curvesMm, 1)
-  const fid = await fidelity(clean.svg, prepared)
-  // Measured on what will be cut: the clean vector rasterised back, so dropped specks do not count.
-  const narrowest = narrowestFeatureMm(fid.raster, prepared.width, prepared.height, prepared.pxPerMm)
+  const figures = measureOutline(clean, prepared, limit)
   const t4 = performance.now()
   return {
     preparedPng: new Uint8Array(prepared.png.buffer, prepared.png.byteOffset, prepared.png.byteLength),
-    rawOutlineSvg: outlineToSvg(outline),
+    rawOutlineSvg: req.purpose === 'revision' ? outlineToSvg(outline) : '',
     cleanSvg: clean.svg,
     histogram: Array.from(prepared.histogram),
     measurements: {
       widthMm: clean.widthMm,
       heightMm: clean.heightMm,
-      inkAreaMm2: geometry.inkAreaMm2,
-      cutLengthMm: geometry.cutLengthMm,
-      pieces: geometry.pieces,
-      holes: geometry.holes,
-      nodes: geometry.nodeCount,
-      narrowestFeatureMm: narrowest,
-      smallPieces: smallPieces(clean.curvesMm, 1, limit).length,
+      inkAreaMm2: figures.inkAreaMm2,
+      cutLengthMm: figures.cutLengthMm,
+      pieces: figures.pieces,
+      holes: figures.holes,
+      nodes: figures.nodeCount,
+      narrowestFeatureMm: figures.narrowestFeatureMm,
+      smallPieces: figures.smallPieces,
       smallPieceLimitMm2: limit,
-      fidelity: fid.iou,
+      fidelity: figures.fidelity,
       threshold: prepared.threshold,
       pxPerMm: prepared.pxPerMm,
       preparedWidthPx: prepared.width,

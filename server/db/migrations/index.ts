@@ -5,6 +5,7 @@ import * as m0003 from './0003_review_film_placements'
 import * as m0004 from './0004_laser_work_area'
 import * as m0005 from './0005_structure'
 import * as m0006 from './0006_trust'
+import * as m0009 from './0009_cleanup'
 
 // A static list: a bundled server cannot read a folder of migration files.
 // Add new migrations here, in order, under a name that sorts after the last one.
@@ -15,4 +16,5 @@ export const migrations: Record<string, Migration> = {
   '0004_laser_work_area': m0004,
   '0005_structure': m0005,
   '0006_trust': m0006,
+  '0009_cleanup': m0009,
 }
