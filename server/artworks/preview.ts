@@ -84,7 +84,7 @@ export async function previewArtwork(db: Db, artwork: ArtworkRow, input: { setti
   const small = await previewSource(source.object_key)
   // A copy crosses to the worker; the cached bytes stay here.
   const scaled = scaleSourceGeometry(settings, small.scale, small.width, small.height)
-  const result = await runInPool({ source: small.png.slice(), settings: scaled, widthMm: input.widthMm, purpose: 'preview' }, signal)
+  const result = await runInPool({ source: small.png.slice(), settings: scaled, widthMm: input.widthMm, purpose: 'preview', sourceKey: `${source.content_hash} preview` }, signal)
   return {
     svg: result.cleanSvg,
     preparedPng: `data:image/png;base64,${Buffer.from(result.preparedPng).toString('base64')}`,

@@ -18,7 +18,7 @@
 import sharp, { type Metadata, type OutputInfo } from 'sharp'
 import type { CleanUpChoice } from '../../shared/types/pipeline'
 import { preparedSize, type PreparedSize } from '../../shared/utils/units'
-import { ANALYSIS_SIDE, analyse, applyThreshold, evenWithMap, type Analysis } from './analyse'
+import { ANALYSIS_SIDE, applyThreshold, evenWithMap, finishAnalysis, readingKey, readSheet, type Analysis, type SheetReading } from './analyse'
 import { densityGrey } from './colour'
 import { findPieces, inkBox } from './components'
 import { NotADrawingError, PrepareError } from './errors'
@@ -41,6 +41,22 @@ export interface PrepareOptions {
   fastPng?: boolean
   /** Pieces under this area (mm², at the decal's size) are lost when weeding. Default 1. */
   smallPieceMm2?: number
+  /**
+   * The source's identity (its content hash): a run that gives one reuses the sheet's reading
+   * (analyse.ts, readSheet) of an earlier run on the same source with the same clean-up
+   * settings, as the tuning bench's previews do while the threshold or the outline changes.
+   */
+  sourceKey?: string
+}
+
+/** Sheet readings of recent runs that gave a sourceKey, newest last (a few MB each). */
+const readings = new Map<string, SheetReading>()
+const READINGS_KEPT = 4
+
+function keepReading(key: string, reading: SheetReading): void {
+  readings.delete(key)
+  readings.set(key, reading)
+  while (readings.size > READINGS_KEPT) readings.delete(readings.keys().next().value!)
 }
 
 export interface PrepareTimings {
@@ -255,20 +271,30 @@ async function prepare(
   }
   const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH)
 
-  // The analysis, on a shrunk copy.
+  // The analysis, on a shrunk copy; the sheet's reading kept from an earlier run when it can be.
   const aScale = Math.min(1, ANALYSIS_SIDE / Math.max(srcW, srcH))
   const aw = Math.max(1, Math.round(srcW * aScale)), ah = Math.max(1, Math.round(srcH * aScale))
-  const small = await source.rgb(null, aw, ah)
-  const t1 = performance.now()
-  const analysis = await analyse({
-    rgb: small, width: aw, height: ah, scale: aw / srcW,
-    sourceWidth: srcW, sourceHeight: srcH,
-    principal: { x: orientedWidth / 2 - (crop?.x ?? 0), y: orientedHeight / 2 - (crop?.y ?? 0) },
-    uprightWidth: orientedWidth, uprightHeight: orientedHeight,
-    photoLongSide: Math.max(orientedWidth, orientedHeight),
-    cropOffset: { x: crop?.x ?? 0, y: crop?.y ?? 0 },
-    settings, widthOf, widthMm,
-  })
+  const key = options.sourceKey ? `${options.sourceKey} ${orientedWidth}×${orientedHeight} ${readingKey(settings)}` : null
+  const kept = key ? readings.get(key) : undefined
+  // A kept reading costs nothing this time: its steps' times are not counted again.
+  let reading = kept && { ...kept, timings: { sheet: 0, frame: 0, paper: 0, lines: 0, colours: 0 } }
+  if (key && kept) keepReading(key, kept)
+  let t1 = performance.now()
+  if (!reading) {
+    const small = await source.rgb(null, aw, ah)
+    t1 = performance.now()
+    reading = await readSheet({
+      rgb: small, width: aw, height: ah, scale: aw / srcW,
+      sourceWidth: srcW, sourceHeight: srcH,
+      principal: { x: orientedWidth / 2 - (crop?.x ?? 0), y: orientedHeight / 2 - (crop?.y ?? 0) },
+      uprightWidth: orientedWidth, uprightHeight: orientedHeight,
+      photoLongSide: Math.max(orientedWidth, orientedHeight),
+      cropOffset: { x: crop?.x ?? 0, y: crop?.y ?? 0 },
+      settings, widthOf, widthMm,
+    })
+    if (key) keepReading(key, reading)
+  }
+  const analysis = finishAnalysis(reading, { settings, widthOf, widthMm })
   const smallPieceMm2 = options.smallPieceMm2 ?? 1
   if (widthOf === 'drawing') checkDrawing(analysis, smallPieceMm2)
   const t2 = performance.now()

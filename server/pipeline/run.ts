@@ -23,6 +23,8 @@ export interface RunRequest {
   /** 'preview' works at screen resolution and skips nothing a designer reads. */
   purpose: 'revision' | 'preview'
   smallPieceMm2?: number
+  /** The source's content hash, so repeated previews of one source reuse the sheet's reading. */
+  sourceKey?: string
 }
 
 export interface RunResult {
@@ -44,7 +46,7 @@ export const PREVIEW_OPTIONS: PrepareOptions = { minPxPerMm: 4, maxPxPerMm: 6, m
 export async function runPipeline(req: RunRequest): Promise<RunResult> {
   const t0 = performance.now()
   const limit = req.smallPieceMm2 ?? DEFAULT_SMALL_PIECE_MM2
-  const prepared = await prepareDrawing(req.source, req.settings, req.widthMm, { ...(req.purpose === 'preview' ? PREVIEW_OPTIONS : {}), smallPieceMm2: limit })
+  const prepared = await prepareDrawing(req.source, req.settings, req.widthMm, { ...(req.purpose === 'preview' ? PREVIEW_OPTIONS : {}), smallPieceMm2: limit, sourceKey: req.sourceKey })
   const t1 = performance.now()
   const outline = traceBitmap(prepared, prepared.settings)
   const t2 = performance.now()

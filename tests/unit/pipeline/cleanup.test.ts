@@ -91,6 +91,21 @@ describe('automatic is a setting like any other', () => {
   })
 })
 
+describe('previews of one source', () => {
+  it('reuse the sheet\'s reading while only the threshold or the outline changes, with the same result', async () => {
+    const c = await gridBlue()
+    const settings = [{}, { threshold: { mode: 'manual' as const, value: 120 } }, { cornerRounding: 0.4, speckFilterMm2: 2 }, { paperLines: 'keep' as const }]
+    for (const [i, s] of settings.entries()) {
+      const fresh = await prepareDrawing(c.source, s, c.widthMm)
+      const kept = await prepareDrawing(c.source, s, c.widthMm, { sourceKey: 'grid' })
+      expect(Buffer.from(kept.bitmap).equals(Buffer.from(fresh.bitmap)), `settings ${i}`).toBe(true)
+      expect(kept.choices).toEqual(fresh.choices)
+      // after the first, the reading came from the earlier run (no analysis of the paper)
+      if (i === 1 || i === 2) expect(kept.timings.analysisSteps.paper).toBe(0)
+    }
+  })
+})
+
 describe('thin strokes made weedable', () => {
   // A pencil line drawing 120 mm wide: strokes of 0.3 mm, a hook of 0.25 mm, a 1 mm dot (above
   // the speck filter) and a disc.
