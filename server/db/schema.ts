@@ -141,6 +141,8 @@ export interface RevisionTable {
   engine_versions: Json<EngineVersions>
   /** What the clean-up chose and why (empty for revisions made before it was recorded). */
   choices: ColumnType<CleanUpChoice[], string | undefined, never>
+  /** The drawing's width asked for, mm (null for revisions made before the decal was trimmed to it). */
+  drawing_width_mm: ColumnType<number | null, number | undefined, never>
   author_id: number
   created_at: CreatedAt
 }

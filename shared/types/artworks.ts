@@ -11,8 +11,11 @@ export interface RevisionSummary {
   id: number
   number: number
   status: ArtworkStatus
+  /** The decal's size: the drawing's ink, with the margin (if any) on every side. */
   widthMm: number
   heightMm: number
+  /** The drawing's width asked for (its ink, from leftmost to rightmost), mm. */
+  drawingWidthMm: number
   createdAt: string
   author: string
   measurements: Measurements
