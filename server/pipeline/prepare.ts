@@ -164,7 +164,8 @@ function trimBitmap(bm: Uint8Array, width: number, box: { x0: number, y0: number
  * its ink (drawingWidthMm), the scale is known only after trimming, and thickening can widen the
  * ink by up to its own width plus a pixel: with B pixels of ink across now, the trimmed scale is
  * at most (B + 1 + w) / drawingWidthMm for a thickening of w pixels, so w = toMm · (B + 1) /
- * (drawingWidthMm − toMm) reaches toMm at any scale the trim can give.
+ * (drawingWidthMm − toMm) reaches toMm at any scale the trim can give; and one pixel is
+ * added for the tracer.
  */
 function thickenToWidth(bitmap: Uint8Array, width: number, height: number, toMm: number, pxPerMm: number, drawingWidthMm: number | null, speckFilterMm2: number): Uint8Array {
   const speck = Math.max(1, speckFilterMm2 * pxPerMm * pxPerMm)
@@ -173,7 +174,9 @@ function thickenToWidth(bitmap: Uint8Array, width: number, height: number, toMm:
     const box = inkBox(findPieces(bitmap, width, height).pieces, speck)
     if (box) px = (toMm * (box.x1 - box.x0 + 2)) / Math.max(drawingWidthMm / 2, drawingWidthMm - toMm)
   }
-  return thickenStrokes(bitmap, width, height, px, { speckAreaPx: speck })
+  // One pixel more: the tracer's polygon lies within half a pixel of the bitmap's edges on each
+  // side, so a stroke just at the width on the bitmap can come out a pixel narrower in the outline.
+  return thickenStrokes(bitmap, width, height, px + 1, { speckAreaPx: speck })
 }
 
 const MIN_SIDE_PX = 8

@@ -121,9 +121,11 @@ describe('thin strokes made weedable', () => {
     const m = thick.measurements
     // the drawing keeps its width: the ink is trimmed again after thickening
     expect(m.widthMm).toBeCloseTo(120, 6)
-    // Measured on the clean vector rasterised back (narrowestFeature reads widths to within a
-    // pixel and a half of the drawn width): at least the asked width less that reading error.
-    expect(m.narrowestFeatureMm!).toBeGreaterThanOrEqual(0.8 - 1.5 / m.pxPerMm)
+    // Measured on what will be cut, the clean vector rasterised back: at least the asked width.
+    expect(m.narrowestFeatureMm!).toBeGreaterThanOrEqual(0.8)
+    // and at preview resolution too, where a pixel is a sixth of a millimetre
+    const preview = await runPipeline({ source, settings: { thickenToMm: 0.8 }, widthMm: 120, purpose: 'preview' })
+    expect(preview.measurements.narrowestFeatureMm!).toBeGreaterThanOrEqual(0.8)
     expect(m.pieces).toBe(thin.measurements.pieces)
     // the strokes are over 250 mm long in all, and at least 0.4 mm wider
     expect(m.inkAreaMm2 - thin.measurements.inkAreaMm2).toBeGreaterThan(0.4 * 250)
