@@ -381,13 +381,16 @@ function pieceFacts(pieces: readonly Piece[], minArea: number, pxPerMm: number):
 
 function hueSpread(rgb: Uint8Array, bitmap: Uint8Array, paper: PaperColour, standard: PipelineSettings['luma']): number {
   const k = LUMA[standard]
+  const [pr, pg, pb] = paper.ratio
   const hist = new Uint32Array(200)
   let n = 0
   for (let i = 0, j = 0; i < bitmap.length; i++, j += 3) {
     if (bitmap[i]) continue
     const l = k.r * rgb[j]! + k.g * rgb[j + 1]! + k.b * rgb[j + 2]!
     if (l < 16) continue
-    const d = Math.hypot(rgb[j]! / l - paper.ratio[0], rgb[j + 1]! / l - paper.ratio[1], rgb[j + 2]! / l - paper.ratio[2])
+    // (a square root of the sum rather than Math.hypot: the same distance, several times quicker)
+    const dr = rgb[j]! / l - pr, dg = rgb[j + 1]! / l - pg, db = rgb[j + 2]! / l - pb
+    const d = Math.sqrt(dr * dr + dg * dg + db * db)
     hist[Math.min(199, Math.floor(d * 200))]!++
     n++
   }
