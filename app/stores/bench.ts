@@ -1,10 +1,13 @@
 import { defineStore } from 'pinia'
 import type { ArtworkDetail, Preview, RevisionDetail, RevisionSummary } from '#shared/types/artworks'
 import type { Film } from '#shared/types/films'
+import type { CleanUpChoice, Measurements } from '#shared/types/pipeline'
 import { estimateCutSeconds } from '#shared/utils/cut-time'
 import { latestOnly, type LatestOnlyInfo } from '~/utils/latest-only'
-import { cloneSettings, followingHeightMm, normaliseSettings, sameSettings, settingsKey, SETTING_LIMITS, type BenchSettings } from '~/utils/bench-settings'
-import { benchWarnings } from '~/utils/bench-warnings'
+import { cloneSettings, decalSizeMm, normaliseSettings, sameSettings, settingsKey, SETTING_LIMITS, type BenchSettings } from '~/utils/bench-settings'
+import { chooseOption, keepChoice, type ChoiceOption, type OverridableSetting } from '~/utils/bench-choices'
+import type { Corners } from '~/utils/bench-corners'
+import { benchWarnings, type BenchWarning } from '~/utils/bench-warnings'
 import { parseOutlineSvg } from '~/utils/outline-svg'
 import { apiProblem, submissionKey, type ApiProblem } from '~/utils/api'
 
@@ -123,7 +126,7 @@ export const useBenchStore = defineStore('bench', () => {
     quiet = true
     base.value = detail
     settings.value = normaliseSettings(detail.settings)
-    widthMm.value = detail.widthMm
+    widthMm.value = detail.drawingWidthMm
     quiet = false
   }
 
@@ -186,13 +189,36 @@ export const useBenchStore = defineStore('bench', () => {
   }
 
   const nextNumber = computed(() => (artwork.value?.revisions[0]?.number ?? 0) + 1)
-  const dirty = computed(() => !!base.value && !sameSettings(settings.value, widthMm.value, normaliseSettings(base.value.settings), base.value.widthMm))
+  const dirty = computed(() => !!base.value && !sameSettings(settings.value, widthMm.value, normaliseSettings(base.value.settings), base.value.drawingWidthMm))
   const world = computed(() => base.value ? { width: base.value.source.widthPx, height: base.value.source.heightPx } : null)
-  const heightMm = computed(() => base.value ? followingHeightMm(widthMm.value, base.value.source, settings.value.crop) : 0)
+  /** The decal's own picture (prepared bitmap pixels) that the prepared and outline panels show. */
+  const decalWorld = computed(() => {
+    const m = preview.value?.measurements ?? base.value?.measurements
+    return m ? { width: m.preparedWidthPx, height: m.preparedHeightPx } : null
+  })
+  /** The decal's size for the width and margin on the controls, from the newest run's proportions. */
+  const decalSize = computed(() => {
+    const known = previewOf.value && preview.value
+      ? { drawingWidthMm: previewOf.value.widthMm, marginMm: previewOf.value.settings.marginMm, widthMm: preview.value.measurements.widthMm, heightMm: preview.value.measurements.heightMm }
+      : base.value ? { drawingWidthMm: base.value.drawingWidthMm, marginMm: normaliseSettings(base.value.settings).marginMm, widthMm: base.value.widthMm, heightMm: base.value.heightMm } : null
+    return decalSizeMm(widthMm.value, settings.value.marginMm, known)
+  })
   const outline = computed(() => (preview.value ? parseOutlineSvg(preview.value.svg) : null))
   const film = computed(() => films.value.find((f) => f.id === filmId.value) ?? null)
-  const warnings = computed(() => {
-    const m = preview.value?.measurements ?? (baseOutline.value ? base.value?.measurements : null)
+  /** What the clean-up chose, and why: the newest preview's, or the starting revision's. */
+  const choices = computed<CleanUpChoice[]>(() => preview.value?.choices ?? base.value?.choices ?? [])
+  /**
+   * The figures the bench shows. With the settings of the starting (or just saved) revision on
+   * the controls, that revision's own, as saved; otherwise the newest preview's, which are
+   * estimates: a preview works on a coarser bitmap than a revision (Preview.measurements).
+   */
+  const figures = computed<{ measurements: Measurements; savedAs: number | null } | null>(() => {
+    if (base.value && !dirty.value) return { measurements: base.value.measurements, savedAs: base.value.number }
+    if (preview.value) return { measurements: preview.value.measurements, savedAs: null }
+    return null
+  })
+  const warnings = computed<BenchWarning[]>(() => {
+    const m = figures.value?.measurements
     if (!m) return []
     const f = film.value
     const area = useSessionStore().me?.program.laserWorkArea
@@ -204,10 +230,35 @@ export const useBenchStore = defineStore('bench', () => {
   /** Estimated cut time on the chosen film, seconds (outlines = pieces and holes). */
   const cutSeconds = computed(() => {
     const f = film.value
-    const m = preview.value?.measurements
+    const m = figures.value?.measurements
     if (!f || !m || !(f.laserSpeedMmS > 0)) return null
     return estimateCutSeconds({ cutLengthMm: m.cutLengthMm, pieces: m.pieces + m.holes, speedMmS: f.laserSpeedMmS, passes: f.laserPasses })
   })
+
+  /** Keep a choice the pipeline made: its value written into the settings. */
+  function keep(choice: CleanUpChoice) {
+    settings.value = keepChoice(cloneSettings(settings.value), choice)
+    commit()
+  }
+  /** Set a clean-up choice to "Automatic" or an explicit value. */
+  function override(setting: OverridableSetting, option: ChoiceOption) {
+    settings.value = chooseOption(cloneSettings(settings.value), setting, option)
+    commit()
+  }
+  /** Straighten from these corners (a drag or a key asks for a preview when let go). */
+  function setCorners(points: Corners) {
+    settings.value.corners = { mode: 'manual', points: points.map((p) => ({ ...p })) as Corners }
+  }
+  /** A quarter turn, clockwise (1) or anticlockwise (-1). */
+  function turn(by: 1 | -1) {
+    settings.value.quarterTurns = (settings.value.quarterTurns + by + 4) % 4
+    commit()
+  }
+  /** A warning's one-click fix. */
+  function applyFix(fix: NonNullable<BenchWarning['oneClick']>) {
+    settings.value.thickenToMm = fix.settings.thickenToMm
+    commit()
+  }
 
   async function loadFilms() {
     try {
@@ -239,7 +290,7 @@ export const useBenchStore = defineStore('bench', () => {
       saveKey.settled()
       if (artwork.value && artwork.value.artwork.id === rev.artworkId) {
         const summary: RevisionSummary = {
-          id: rev.id, number: rev.number, status: rev.status, widthMm: rev.widthMm, heightMm: rev.heightMm,
+          id: rev.id, number: rev.number, status: rev.status, widthMm: rev.widthMm, heightMm: rev.heightMm, drawingWidthMm: rev.drawingWidthMm,
           createdAt: rev.createdAt, author: rev.author, measurements: rev.measurements,
         }
         const revisions = [summary, ...artwork.value.revisions.filter((r) => r.id !== rev.id)].sort((a, b) => b.number - a.number)
@@ -267,7 +318,7 @@ export const useBenchStore = defineStore('bench', () => {
   return {
     artworkId, artwork, base, baseOutline, settings, widthMm, preview, previewOf, pending, error, loading, loadError,
     saving, saveError, lastSaved, roundTrips, films, filmId,
-    nextNumber, dirty, world, heightMm, outline, warnings, stale, film, cutSeconds,
-    open, startFrom, reset, commit, save, close,
+    nextNumber, dirty, world, decalWorld, decalSize, outline, choices, figures, warnings, stale, film, cutSeconds,
+    open, startFrom, reset, commit, save, close, keep, override, setCorners, turn, applyFix,
   }
 })

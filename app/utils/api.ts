@@ -6,6 +6,8 @@ export interface ApiProblem {
   status: number
   message: string
   fieldErrors: Record<string, string>
+  /** What kind of refusal, when the server names one (e.g. 'not-a-drawing'). */
+  kind: string | null
 }
 
 const FALLBACK: Record<number, string> = {
@@ -28,7 +30,7 @@ export function apiProblem(err: unknown): ApiProblem {
     statusCode?: number
     status?: number
     response?: { status?: number }
-    data?: Partial<ApiErrorBody> & { fieldErrors?: Record<string, string[]> }
+    data?: Partial<ApiErrorBody> & { fieldErrors?: Record<string, string[]>; data?: { kind?: unknown } }
   }
   const body = e.data && typeof e.data === 'object' ? e.data : undefined
   const status = Number(e.statusCode ?? e.status ?? e.response?.status ?? body?.statusCode ?? 0) || 0
@@ -42,7 +44,8 @@ export function apiProblem(err: unknown): ApiProblem {
   const message = serverMessage
     || FALLBACK[status]
     || (status >= 500 ? 'Something went wrong on our side. Try again in a moment.' : 'That did not work. Try again.')
-  return { status, message, fieldErrors }
+  const kind = typeof body?.data?.kind === 'string' ? body.data.kind : null
+  return { status, message, fieldErrors, kind }
 }
 
 export function statusOf(err: unknown): number {

@@ -79,12 +79,18 @@ export function sameSettings(a: BenchSettings, aWidth: number, b: BenchSettings,
   return settingsKey(a, aWidth) === settingsKey(b, bWidth)
 }
 
-/** Height that follows from the width: the cropped (or whole) source keeps its proportions. */
-export function followingHeightMm(widthMm: number, source: { widthPx: number; heightPx: number }, crop: CropSetting | null): number {
-  const w = crop ? crop.width : source.widthPx
-  const h = crop ? crop.height : source.heightPx
-  if (!(w > 0) || !(h > 0)) return 0
-  return (widthMm * h) / w
+/** What a run made: the drawing's width and margin asked for, and the decal's size that came out. */
+export interface KnownSize { drawingWidthMm: number; marginMm: number; widthMm: number; heightMm: number }
+
+/**
+ * The decal's size for a drawing `drawingWidthMm` wide with `marginMm` of paper around it,
+ * from the last run's: the drawing keeps its proportions (its ink's height scales with its
+ * width), the margin is added on every side. Null before any run.
+ */
+export function decalSizeMm(drawingWidthMm: number, marginMm: number, known: KnownSize | null): { widthMm: number; heightMm: number } | null {
+  if (!known || !(known.drawingWidthMm > 0)) return null
+  const inkHeight = Math.max(0, known.heightMm - 2 * known.marginMm)
+  return { widthMm: drawingWidthMm + 2 * marginMm, heightMm: (inkHeight * drawingWidthMm) / known.drawingWidthMm + 2 * marginMm }
 }
 
 /** One row of a settings read-out: the label a designer knows, and the value in words. */
@@ -108,7 +114,7 @@ export function thresholdWords(t: ThresholdSetting): string {
 /** The settings (and width) in words, one line each, in the bench's order. */
 export function describeSettings(s: BenchSettings, widthMm: number): SettingLine[] {
   return [
-    { key: 'widthMm', label: 'Width', value: `${fmt(widthMm, 1)} mm` },
+    { key: 'widthMm', label: 'Width of the drawing', value: `${fmt(widthMm, 1)} mm` },
     { key: 'threshold', label: 'Threshold', value: thresholdWords(s.threshold) },
     { key: 'lightingEvening', label: 'Lighting evening', value: s.lightingEvening.mode === 'off' ? 'Off' : `${s.lightingEvening.mode === 'auto' ? 'Automatic' : 'On'}, strength ${Math.round(s.lightingEvening.strength * 100)} %` },
     { key: 'corners', label: 'Straighten the sheet', value: s.corners.mode === 'auto' ? 'Automatic' : s.corners.mode === 'off' ? 'Off' : 'By four corners' },
@@ -117,6 +123,7 @@ export function describeSettings(s: BenchSettings, widthMm: number): SettingLine
     { key: 'dropoutColour', label: 'Colour left out', value: s.dropoutColour.mode === 'auto' ? 'Automatic' : s.dropoutColour.mode === 'none' ? 'None' : s.dropoutColour.colours.join(', ') },
     { key: 'paperLines', label: 'Ruled or grid lines', value: { auto: 'Automatic', keep: 'Kept', remove: 'Removed' }[s.paperLines] },
     { key: 'marginMm', label: 'Margin around the drawing', value: `${fmt(s.marginMm, 1)} mm` },
+    { key: 'thickenToMm', label: 'Thin strokes', value: s.thickenToMm === null ? 'Kept as drawn' : `Thickened to ${fmt(s.thickenToMm, 2)} mm` },
     { key: 'swapInkAndPaper', label: 'Swap ink and paper', value: s.swapInkAndPaper ? 'Swapped' : 'Not swapped' },
     { key: 'crop', label: 'Crop', value: s.crop ? `${s.crop.width} × ${s.crop.height} px at (${s.crop.x}, ${s.crop.y})` : 'Whole source' },
     { key: 'speckFilterMm2', label: 'Speck filter', value: `${fmt(s.speckFilterMm2, 2)} mm²` },

@@ -82,6 +82,17 @@ export function panByStep(view: ViewState, dirX: number, dirY: number, world: Vi
   }, world)
 }
 
+/**
+ * The same view for a panel showing another world (the decal beside the source): the same
+ * zoom, and the centre at the same place relative to each world's size.
+ */
+export function viewBetween(view: ViewState, from: ViewSize, to: ViewSize): ViewState {
+  if (from.width === to.width && from.height === to.height) return view
+  const fx = from.width > 0 ? view.cx / from.width : 0.5
+  const fy = from.height > 0 ? view.cy / from.height : 0.5
+  return { zoom: view.zoom, cx: fx * to.width, cy: fy * to.height }
+}
+
 /** A view that frames a rectangle of the world (e.g. the crop) in a panel. */
 export function frameRect(rect: CropSetting, panel: ViewSize, world: ViewSize): ViewState {
   const fit = fitScale(panel, world)
@@ -127,9 +138,4 @@ export function fitCrop(c: CropSetting, world: ViewSize): CropSetting {
   const width = Math.min(W - x, Math.max(1, Math.round(c.width)))
   const height = Math.min(H - y, Math.max(1, Math.round(c.height)))
   return { x, y, width, height }
-}
-
-/** The part of the world a revision's outline covers: its crop, or the whole source. */
-export function outlineRect(crop: CropSetting | null, world: ViewSize): CropSetting {
-  return crop ?? { x: 0, y: 0, width: world.width, height: world.height }
 }

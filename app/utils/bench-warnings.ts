@@ -27,7 +27,7 @@ export const STUTTER_NODES = 20_000
 export const LOW_FIDELITY = 0.95
 
 /** Which control fixes a warning; the bench moves the focus there. */
-export type WarningFix = 'speckFilterMm2' | 'widthMm' | 'curveTolerance' | 'cornerRounding' | 'threshold' | 'swapInkAndPaper'
+export type WarningFix = 'speckFilterMm2' | 'widthMm' | 'curveTolerance' | 'cornerRounding' | 'threshold' | 'swapInkAndPaper' | 'thickenToMm'
 
 export interface BenchWarning {
   id: string
@@ -35,6 +35,8 @@ export interface BenchWarning {
   fix: WarningFix
   /** The fix's label, for "Go to …" links. */
   fixLabel: string
+  /** A fix the bench can make in one click: its button's words and the settings it writes. */
+  oneClick?: { label: string; settings: { thickenToMm: number } }
 }
 
 export interface WarningContext {
@@ -53,6 +55,7 @@ const FIX_LABELS: Record<WarningFix, string> = {
   cornerRounding: 'corner rounding',
   threshold: 'threshold',
   swapInkAndPaper: 'swap ink and paper',
+  thickenToMm: 'thin strokes',
 }
 
 /** "24 000": thin spaces would be nicer, but a plain space reads everywhere. */
@@ -72,7 +75,7 @@ export function benchWarnings(m: Measurements, ctx: WarningContext = {}): BenchW
   const film = ctx.filmName ?? 'thin film'
   const aSheet = (mm: number) => (ctx.filmName ? `the ${mm} mm sheet of ${ctx.filmName}` : `a ${mm} mm sheet`)
   const out: BenchWarning[] = []
-  const add = (id: string, text: string, fix: WarningFix) => out.push({ id, text, fix, fixLabel: FIX_LABELS[fix] })
+  const add = (id: string, text: string, fix: WarningFix, oneClick?: BenchWarning['oneClick']) => out.push({ id, text, fix, fixLabel: FIX_LABELS[fix], ...(oneClick ? { oneClick } : {}) })
 
   if (m.pieces === 0) {
     add('empty', 'The outline is empty: nothing in the prepared bitmap counts as ink — move the threshold, or swap ink and paper if the drawing is light on dark', 'threshold')
@@ -83,7 +86,9 @@ export function benchWarnings(m: Measurements, ctx: WarningContext = {}): BenchW
     add('small-pieces', `${n} ${n === 1 ? 'piece is' : 'pieces are'} smaller than ${formatMmValue(m.smallPieceLimitMm2)} mm² and will be lost when weeding — raise the speck filter`, 'speckFilterMm2')
   }
   if (m.narrowestFeatureMm !== null && m.narrowestFeatureMm < minStroke) {
-    add('thin-stroke', `The narrowest stroke is ${formatMmValue(m.narrowestFeatureMm)} mm; ${film} tears below about ${formatMmValue(minStroke)} mm when weeding — make the decal wider or thicken the drawing`, 'widthMm')
+    // Thickening to the film's smallest weedable feature (or the common 0.8 mm) fixes it at this size.
+    add('thin-stroke', `The narrowest stroke is ${formatMmValue(m.narrowestFeatureMm)} mm; ${film} tears below about ${formatMmValue(minStroke)} mm when weeding — thicken the thin strokes, or make the decal wider`, 'thickenToMm',
+      { label: `Thicken to ${formatMmValue(minStroke)} mm`, settings: { thickenToMm: minStroke } })
   }
   if (m.nodes > STUTTER_NODES) {
     add('many-nodes', `The outline has ${groupThousands(m.nodes)} nodes; the cut will stutter — raise the curve tolerance`, 'curveTolerance')

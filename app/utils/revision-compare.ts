@@ -89,6 +89,15 @@ export function diffMasks(a: Uint8ClampedArray, b: Uint8ClampedArray, width: num
 }
 
 /** Share of all ink (in either) that differs, 0…1. */
+/**
+ * The raster two outlines are compared on: `longest` pixels wide, each outline drawn at that
+ * width from the top left corner, as tall as the taller of the two needs.
+ */
+export function overlayFrame(outlines: { widthMm: number; heightMm: number }[], longest: number): { width: number; height: number } {
+  const aspect = Math.max(...outlines.map((o) => (o.widthMm > 0 ? o.heightMm / o.widthMm : 0)))
+  return { width: longest, height: Math.max(1, Math.round(longest * aspect)) }
+}
+
 export function changedShare(d: Pick<DiffResult, 'onlyA' | 'onlyB' | 'both'>): number {
   const total = d.onlyA + d.onlyB + d.both
   return total === 0 ? 0 : (d.onlyA + d.onlyB) / total

@@ -4,6 +4,7 @@
 
 import { WIDTH_MM_MAX, WIDTH_MM_MIN } from '#shared/utils/schemas'
 import { DEFAULT_SETTINGS, SETTING_LIMITS } from '#shared/utils/settings'
+import { normaliseSettings } from './bench-settings'
 
 export const REVISE_LIMITS = SETTING_LIMITS
 
@@ -15,7 +16,7 @@ export interface ReviseFields {
   widthMm: string | number
   thresholdMode: 'auto' | 'manual'
   thresholdValue: string | number
-  lightingEvening: boolean
+  lightingEvening: 'auto' | 'on' | 'off'
   speckFilterMm2: string | number
   cornerRounding: string | number
   curveTolerance: string | number
@@ -36,14 +37,14 @@ function show(n: number, digits = 2): string {
 /** The form filled from a stored revision, so a new revision starts from what is on screen. */
 export function fieldsFromRevision(settings: Stored, widthMm: number, usedThreshold: number): ReviseFields {
   const threshold = (settings.threshold ?? DEFAULTS.threshold) as { mode?: string; value?: unknown }
-  const lighting = (settings.lightingEvening ?? DEFAULTS.lightingEvening) as { enabled?: unknown }
+  const lighting = normaliseSettings(settings).lightingEvening
   const manual = threshold.mode === 'manual'
   return {
     widthMm: show(widthMm, 1),
     thresholdMode: manual ? 'manual' : 'auto',
     // With an automatic threshold, offer the level it chose as the starting point for a manual one.
     thresholdValue: String(manual ? num(threshold.value, usedThreshold) : usedThreshold),
-    lightingEvening: lighting.enabled === true,
+    lightingEvening: lighting.mode,
     speckFilterMm2: show(num(settings.speckFilterMm2, DEFAULTS.speckFilterMm2), 3),
     cornerRounding: show(num(settings.cornerRounding, DEFAULTS.cornerRounding)),
     curveTolerance: show(num(settings.curveTolerance, DEFAULTS.curveTolerance)),
@@ -84,11 +85,10 @@ export function revisionRequest(fields: ReviseFields, base: Stored): { body: { w
   const cornerRounding = inRange('cornerRounding', fields.cornerRounding, L.cornerRounding.min, L.cornerRounding.max, '', errors, { slack: 0.005 })
   const curveTolerance = inRange('curveTolerance', fields.curveTolerance, L.curveTolerance.min, L.curveTolerance.max, '', errors)
   if (Object.keys(errors).length) return { body: null, errors }
-  const lighting = (base.lightingEvening ?? DEFAULTS.lightingEvening) as Stored
   const settings: Stored = {
     ...base,
     threshold: fields.thresholdMode === 'manual' ? { mode: 'manual', value: thresholdValue } : { mode: 'auto' },
-    lightingEvening: { ...lighting, enabled: fields.lightingEvening },
+    lightingEvening: { strength: normaliseSettings(base).lightingEvening.strength, mode: fields.lightingEvening },
     swapInkAndPaper: fields.swapInkAndPaper,
     speckFilterMm2,
     // The upper bound is exactly 4/3; "1.33" as shown (or typed) means that.

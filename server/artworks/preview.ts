@@ -1,7 +1,8 @@
 import sharp from 'sharp'
 import { createError } from 'h3'
 import type { Preview } from '#shared/types/artworks'
-import { PREVIEW_SOURCE_SIDE, type PipelineSettings } from '#shared/utils/settings'
+import type { CleanUpChoice } from '#shared/types/pipeline'
+import { PREVIEW_SOURCE_SIDE, scaleSourceGeometry, type PipelineSettings } from '#shared/utils/settings'
 import type { Db } from '../platform/db'
 import { getObject } from '../platform/object-store'
 import { runInPool } from '../platform/pipeline-pool'
@@ -51,15 +52,20 @@ function previewSource(key: string): Promise<PreviewSource> {
   return made
 }
 
-/** The crop rectangle is in source pixels; the preview source is smaller by `scale`. */
-function scaleCrop(settings: PipelineSettings, s: PreviewSource): PipelineSettings {
-  if (!settings.crop || s.scale === 1) return settings
-  const c = settings.crop
-  const x = Math.min(s.width - 1, Math.floor(c.x * s.scale))
-  const y = Math.min(s.height - 1, Math.floor(c.y * s.scale))
-  const right = Math.min(s.width, Math.max(x + 1, Math.round((c.x + c.width) * s.scale)))
-  const bottom = Math.min(s.height, Math.max(y + 1, Math.round((c.y + c.height) * s.scale)))
-  return { ...settings, crop: { x, y, width: right - x, height: bottom - y } }
+/**
+ * The run's choices as they apply to the whole source: corners the analysis found on the
+ * preview source are given back in source pixels (to a tenth of a pixel, on the picture), so
+ * pinning them on the bench means the same corners for the saved revision.
+ */
+function choicesOnSource(choices: CleanUpChoice[], settings: PipelineSettings, s: PreviewSource, source: { width_px: number; height_px: number }): CleanUpChoice[] {
+  if (s.scale === 1) return choices
+  const onSource = (v: number, max: number) => Math.min(max, Math.max(0, Math.round((v / s.scale) * 10) / 10))
+  return choices.map((c) => {
+    if (c.setting !== 'corners' || c.value.mode !== 'manual') return c
+    if (!c.automatic && settings.corners.mode === 'manual') return { ...c, value: settings.corners }
+    const points = c.value.points.map((p) => ({ x: onSource(p.x, source.width_px), y: onSource(p.y, source.height_px) })) as typeof c.value.points
+    return { ...c, value: { mode: 'manual', points } }
+  })
 }
 
 /**
@@ -77,12 +83,14 @@ export async function previewArtwork(db: Db, artwork: ArtworkRow, input: { setti
   }
   const small = await previewSource(source.object_key)
   // A copy crosses to the worker; the cached bytes stay here.
-  const result = await runInPool({ source: small.png.slice(), settings: scaleCrop(settings, small), widthMm: input.widthMm, purpose: 'preview' }, signal)
+  const scaled = scaleSourceGeometry(settings, small.scale, small.width, small.height)
+  const result = await runInPool({ source: small.png.slice(), settings: scaled, widthMm: input.widthMm, purpose: 'preview', sourceKey: `${source.content_hash} preview` }, signal)
   return {
     svg: result.cleanSvg,
     preparedPng: `data:image/png;base64,${Buffer.from(result.preparedPng).toString('base64')}`,
     histogram: result.histogram,
     measurements: result.measurements,
     timings: result.timings,
+    choices: choicesOnSource(result.choices, settings, small, source),
   }
 }

@@ -54,7 +54,7 @@ export function findArtwork(db: Db, actor: Actor, id: number): Promise<ArtworkRo
 export function revisionsOf(db: Db, artworkId: number) {
   return db.selectFrom('revision').innerJoin('users', 'users.id', 'revision.author_id')
     .innerJoin('revision_status', 'revision_status.revision_id', 'revision.id')
-    .select(['revision.id', 'revision.number', 'revision.width_mm', 'revision.height_mm', 'revision.created_at', 'revision.measurements', 'users.name as author_name', 'revision_status.status'])
+    .select(['revision.id', 'revision.number', 'revision.width_mm', 'revision.height_mm', 'revision.drawing_width_mm', 'revision.created_at', 'revision.measurements', 'users.name as author_name', 'revision_status.status'])
     .where('revision.artwork_id', '=', artworkId).orderBy('revision.number', 'desc').execute()
 }
 

@@ -42,8 +42,13 @@ export async function listArtworks(db: Db, actor: Actor, o: ArtworkFilter & { cu
   return { items: shown.map(toListItem), total, nextCursor: more && last ? encodeCursor({ at: last.order_at, id: last.id }) : null }
 }
 
-function revisionSummary(r: { id: number; number: number; width_mm: number; height_mm: number; created_at: Date; author_name: string; status: RevisionSummary['status']; measurements: RevisionSummary['measurements'] }): RevisionSummary {
-  return { id: r.id, number: r.number, status: r.status, widthMm: r.width_mm, heightMm: r.height_mm, createdAt: new Date(r.created_at).toISOString(), author: r.author_name, measurements: r.measurements }
+function revisionSummary(r: { id: number; number: number; width_mm: number; height_mm: number; drawing_width_mm: number | null; created_at: Date; author_name: string; status: RevisionSummary['status']; measurements: RevisionSummary['measurements'] }): RevisionSummary {
+  return {
+    id: r.id, number: r.number, status: r.status, widthMm: r.width_mm, heightMm: r.height_mm,
+    // Before the decal was trimmed to the drawing, the width asked for was the whole picture's.
+    drawingWidthMm: r.drawing_width_mm ?? r.width_mm,
+    createdAt: new Date(r.created_at).toISOString(), author: r.author_name, measurements: r.measurements,
+  }
 }
 
 /** The artwork's page. The caller has found it in the actor's scope. */
@@ -63,6 +68,7 @@ export async function revisionDetail(db: Db, row: RevisionRow): Promise<Revision
     ...revisionSummary(row),
     artworkId: row.artwork_id,
     settings: row.settings as unknown as Record<string, unknown>,
+    choices: row.choices,
     timings: row.timings,
     engineVersions: row.engine_versions,
     source: { id: row.source_id, mediaType: row.media_type, fileName: row.file_name, widthPx: row.width_px, heightPx: row.height_px, bytes: row.bytes, contentHash: row.content_hash },
@@ -85,7 +91,7 @@ function resultObjects(result: RunResult): { files: StoredFiles; objects: Object
   return { files: { prepared: prepared.key, outline: outline.key, vector: vector.key }, objects: [prepared, outline, vector] }
 }
 
-async function insertRevision(trx: Transaction<Database>, o: { artworkId: number; sourceId: number; settings: PipelineSettings; result: RunResult; files: StoredFiles; authorId: number }) {
+async function insertRevision(trx: Transaction<Database>, o: { artworkId: number; sourceId: number; settings: PipelineSettings; drawingWidthMm: number; result: RunResult; files: StoredFiles; authorId: number }) {
   // Lock the artwork so two saves at once get consecutive numbers.
   await trx.selectFrom('artwork').select('id').where('id', '=', o.artworkId).forUpdate().executeTakeFirstOrThrow()
   const { next } = await trx.selectFrom('revision').select(sql<number>`coalesce(max(number), 0)::int + 1`.as('next'))
@@ -93,10 +99,10 @@ async function insertRevision(trx: Transaction<Database>, o: { artworkId: number
   const m = o.result.measurements
   const rev = await trx.insertInto('revision').values({
     artwork_id: o.artworkId, number: next, source_id: o.sourceId,
-    settings: JSON.stringify(o.settings), width_mm: m.widthMm, height_mm: m.heightMm,
+    settings: JSON.stringify(o.settings), width_mm: m.widthMm, height_mm: m.heightMm, drawing_width_mm: o.drawingWidthMm,
     prepared_key: o.files.prepared, outline_key: o.files.outline, vector_key: o.files.vector,
     measurements: JSON.stringify(m), timings: JSON.stringify(o.result.timings),
-    engine_versions: JSON.stringify(o.result.engineVersions), author_id: o.authorId,
+    engine_versions: JSON.stringify(o.result.engineVersions), choices: JSON.stringify(o.result.choices), author_id: o.authorId,
   }).returning(['id', 'number']).executeTakeFirstOrThrow()
   await trx.updateTable('artwork').set({ updated_at: new Date() }).where('id', '=', o.artworkId).execute()
   return rev
@@ -131,7 +137,7 @@ export async function createArtwork(db: Db, actor: Actor, team: TeamSubject, inp
         file_name: input.fileName.slice(0, 200) || `source.${facts.extension}`, width_px: facts.widthPx, height_px: facts.heightPx,
         bytes: input.bytes.byteLength, uploaded_by: actor.id,
       }).returning('id').executeTakeFirstOrThrow()
-      const rev = await insertRevision(trx, { artworkId: artwork.id, sourceId: source.id, settings, result, files, authorId: actor.id })
+      const rev = await insertRevision(trx, { artworkId: artwork.id, sourceId: source.id, settings, drawingWidthMm: input.widthMm, result, files, authorId: actor.id })
       await audit(trx, { ...by(actor), action: 'upload', subject: 'artwork', subjectId: artwork.id, detail: { title: input.title, revision: rev.number, fileName: input.fileName } })
       await settleClaim(trx, claim)
       return { artworkId: artwork.id, revisionId: rev.id }
@@ -163,7 +169,7 @@ export async function createRevision(db: Db, actor: Actor, artwork: ArtworkRow, 
   const claim = await claimAndStore(db, objects)
   try {
     const rev = await inTransaction(db, async (trx) => {
-      const r = await insertRevision(trx, { artworkId: artwork.id, sourceId: source.id, settings, result, files, authorId: actor.id })
+      const r = await insertRevision(trx, { artworkId: artwork.id, sourceId: source.id, settings, drawingWidthMm: input.widthMm, result, files, authorId: actor.id })
       await audit(trx, { ...by(actor), action: 'revise', subject: 'artwork', subjectId: artwork.id, detail: { title: artwork.title, revision: r.number } })
       await settleClaim(trx, claim)
       return r

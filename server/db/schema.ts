@@ -3,7 +3,7 @@ import type { ColumnType, Generated } from 'kysely'
 import type { MemberRole } from '../../shared/types/roles'
 import type { ArtworkStatus } from '../../shared/types/artworks'
 import type { AuditAction, AuditSubject } from '../../shared/types/audit'
-import type { EngineVersions, Measurements, StageTimings } from '../../shared/types/pipeline'
+import type { CleanUpChoice, EngineVersions, Measurements, StageTimings } from '../../shared/types/pipeline'
 import type { PipelineSettings } from '../../shared/utils/settings'
 import type { Halogen, PolymerSource, PolymerVerdict } from '../../shared/films/polymers'
 import type { Opacity } from '../../shared/films/library'
@@ -143,6 +143,10 @@ export interface RevisionTable {
   measurements: Json<Measurements>
   timings: Json<StageTimings>
   engine_versions: Json<EngineVersions>
+  /** What the clean-up chose and why (empty for revisions made before it was recorded). */
+  choices: ColumnType<CleanUpChoice[], string | undefined, never>
+  /** The drawing's width asked for, mm (null for revisions made before the decal was trimmed to it). */
+  drawing_width_mm: ColumnType<number | null, number | undefined, never>
   author_id: number
   created_at: CreatedAt
 }

@@ -18,7 +18,7 @@
 import sharp, { type Metadata, type OutputInfo } from 'sharp'
 import type { CleanUpChoice } from '../../shared/types/pipeline'
 import { preparedSize, type PreparedSize } from '../../shared/utils/units'
-import { ANALYSIS_SIDE, analyse, applyThreshold, evenWithMap, type Analysis } from './analyse'
+import { ANALYSIS_SIDE, applyThreshold, evenWithMap, finishAnalysis, readingKey, readSheet, type Analysis, type SheetReading } from './analyse'
 import { densityGrey } from './colour'
 import { findPieces, inkBox } from './components'
 import { NotADrawingError, PrepareError } from './errors'
@@ -27,6 +27,7 @@ import { multiply, scaleBilinear, scaling, translation, warpBilinear } from './h
 import { mapFamily, removeLines } from './lines'
 import { toGrey } from './luma'
 import { histogram as makeHistogram } from './otsu'
+import { thickenStrokes } from './thicken'
 import { parseSettings, type PipelineSettings, type PipelineSettingsInput } from '../../shared/utils/settings'
 
 export interface PrepareOptions {
@@ -40,6 +41,22 @@ export interface PrepareOptions {
   fastPng?: boolean
   /** Pieces under this area (mm², at the decal's size) are lost when weeding. Default 1. */
   smallPieceMm2?: number
+  /**
+   * The source's identity (its content hash): a run that gives one reuses the sheet's reading
+   * (analyse.ts, readSheet) of an earlier run on the same source with the same clean-up
+   * settings, as the tuning bench's previews do while the threshold or the outline changes.
+   */
+  sourceKey?: string
+}
+
+/** Sheet readings of recent runs that gave a sourceKey, newest last (a few MB each). */
+const readings = new Map<string, SheetReading>()
+const READINGS_KEPT = 4
+
+function keepReading(key: string, reading: SheetReading): void {
+  readings.delete(key)
+  readings.set(key, reading)
+  while (readings.size > READINGS_KEPT) readings.delete(readings.keys().next().value!)
 }
 
 export interface PrepareTimings {
@@ -52,6 +69,8 @@ export interface PrepareTimings {
   gridMs: number
   eveningMs: number
   thresholdMs: number
+  /** Thin strokes thickened (thickenToMm). */
+  thickenMs: number
   pngMs: number
   totalMs: number
 }
@@ -138,6 +157,26 @@ function trimBitmap(bm: Uint8Array, width: number, box: { x0: number, y0: number
     out.set(bm.subarray(y * width + box.x0, y * width + box.x1 + 1), (y - box.y0 + margin) * w + margin)
   }
   return { bitmap: out, width: w, height: h }
+}
+
+/**
+ * The bitmap with thin strokes thickened to `toMm` at the decal's size. For a drawing trimmed to
+ * its ink (drawingWidthMm), the scale is known only after trimming, and thickening can widen the
+ * ink by up to its own width plus a pixel: with B pixels of ink across now, the trimmed scale is
+ * at most (B + 1 + w) / drawingWidthMm for a thickening of w pixels, so w = toMm · (B + 1) /
+ * (drawingWidthMm − toMm) reaches toMm at any scale the trim can give; and one pixel is
+ * added for the tracer.
+ */
+function thickenToWidth(bitmap: Uint8Array, width: number, height: number, toMm: number, pxPerMm: number, drawingWidthMm: number | null, speckFilterMm2: number): Uint8Array {
+  const speck = Math.max(1, speckFilterMm2 * pxPerMm * pxPerMm)
+  let px = toMm * pxPerMm
+  if (drawingWidthMm !== null) {
+    const box = inkBox(findPieces(bitmap, width, height).pieces, speck)
+    if (box) px = (toMm * (box.x1 - box.x0 + 2)) / Math.max(drawingWidthMm / 2, drawingWidthMm - toMm)
+  }
+  // One pixel more: the tracer's polygon lies within half a pixel of the bitmap's edges on each
+  // side, so a stroke just at the width on the bitmap can come out a pixel narrower in the outline.
+  return thickenStrokes(bitmap, width, height, px + 1, { speckAreaPx: speck })
 }
 
 const MIN_SIDE_PX = 8
@@ -235,20 +274,30 @@ async function prepare(
   }
   const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH)
 
-  // The analysis, on a shrunk copy.
+  // The analysis, on a shrunk copy; the sheet's reading kept from an earlier run when it can be.
   const aScale = Math.min(1, ANALYSIS_SIDE / Math.max(srcW, srcH))
   const aw = Math.max(1, Math.round(srcW * aScale)), ah = Math.max(1, Math.round(srcH * aScale))
-  const small = await source.rgb(null, aw, ah)
-  const t1 = performance.now()
-  const analysis = await analyse({
-    rgb: small, width: aw, height: ah, scale: aw / srcW,
-    sourceWidth: srcW, sourceHeight: srcH,
-    principal: { x: orientedWidth / 2 - (crop?.x ?? 0), y: orientedHeight / 2 - (crop?.y ?? 0) },
-    uprightWidth: orientedWidth, uprightHeight: orientedHeight,
-    photoLongSide: Math.max(orientedWidth, orientedHeight),
-    cropOffset: { x: crop?.x ?? 0, y: crop?.y ?? 0 },
-    settings, widthOf, widthMm,
-  })
+  const key = options.sourceKey ? `${options.sourceKey} ${orientedWidth}×${orientedHeight} ${readingKey(settings)}` : null
+  const kept = key ? readings.get(key) : undefined
+  // A kept reading costs nothing this time: its steps' times are not counted again.
+  let reading = kept && { ...kept, timings: { sheet: 0, frame: 0, paper: 0, lines: 0, colours: 0 } }
+  if (key && kept) keepReading(key, kept)
+  let t1 = performance.now()
+  if (!reading) {
+    const small = await source.rgb(null, aw, ah)
+    t1 = performance.now()
+    reading = await readSheet({
+      rgb: small, width: aw, height: ah, scale: aw / srcW,
+      sourceWidth: srcW, sourceHeight: srcH,
+      principal: { x: orientedWidth / 2 - (crop?.x ?? 0), y: orientedHeight / 2 - (crop?.y ?? 0) },
+      uprightWidth: orientedWidth, uprightHeight: orientedHeight,
+      photoLongSide: Math.max(orientedWidth, orientedHeight),
+      cropOffset: { x: crop?.x ?? 0, y: crop?.y ?? 0 },
+      settings, widthOf, widthMm,
+    })
+    if (key) keepReading(key, reading)
+  }
+  const analysis = finishAnalysis(reading, { settings, widthOf, widthMm })
   const smallPieceMm2 = options.smallPieceMm2 ?? 1
   if (widthOf === 'drawing') checkDrawing(analysis, smallPieceMm2)
   const t2 = performance.now()
@@ -318,7 +367,9 @@ async function prepare(
   const t4 = performance.now()
 
   const histogram = makeHistogram(grey!)
-  const { bitmap: workBitmap, level } = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork)
+  const thresholded = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork)
+  const level = thresholded.level
+  let workBitmap = thresholded.bitmap
   if (settings.swapInkAndPaper) for (let i = 0; i < n; i++) workBitmap[i] = 1 - workBitmap[i]!
   if (analysis.removeLines) {
     const k = workW / region.width / analysis.scale
@@ -326,9 +377,22 @@ async function prepare(
       removeLines(workBitmap, workW, workH, mapFamily(f, k, -region.left * (workW / region.width), -region.top * (workH / region.height)))
     }
   }
+  const t4b = performance.now()
+  // Thickened after the paper lines are gone (they are thin too, and would otherwise grow).
+  if (settings.thickenToMm !== null) {
+    workBitmap = thickenToWidth(workBitmap, workW, workH, settings.thickenToMm, pxPerMmWork, widthOf === 'drawing' ? widthMm : null, settings.speckFilterMm2)
+  }
+  const t4c = performance.now()
 
   let bitmap = workBitmap, width = workW, height = workH, pxPerMm = pxPerMmWork
   const choices = [...analysis.choices]
+  const mm = (v: number) => v.toFixed(1)
+  choices.push({
+    setting: 'thickenToMm', automatic: false, value: settings.thickenToMm,
+    reason: settings.thickenToMm === null
+      ? 'Strokes are kept as drawn.'
+      : `Strokes and dots narrower than ${Number(settings.thickenToMm.toFixed(2))} mm are thickened to that width, so they survive weeding.`,
+  })
   if (widthOf === 'drawing') {
     const speck = Math.max(1, settings.speckFilterMm2 * pxPerMmWork * pxPerMmWork)
     const box = inkBox(findPieces(workBitmap, workW, workH).pieces, speck)
@@ -338,7 +402,6 @@ async function prepare(
     pxPerMm = (box.x1 - box.x0 + 1) / widthMm
     const trimmed = trimBitmap(workBitmap, workW, box, Math.round(settings.marginMm * pxPerMm))
     bitmap = trimmed.bitmap; width = trimmed.width; height = trimmed.height
-    const mm = (v: number) => v.toFixed(1)
     choices.push({
       setting: 'marginMm', automatic: false, value: settings.marginMm,
       reason: `Trimmed to the drawing's ink, ${mm(widthMm)} × ${mm((box.y1 - box.y0 + 1) / pxPerMm)} mm, ${settings.marginMm > 0 ? `with ${mm(settings.marginMm)} mm of paper on every side` : 'with no margin'}.`,
@@ -360,7 +423,7 @@ async function prepare(
     choices,
     timings: {
       decodeMs: t1 - t0, analysisMs: t2 - t1, analysisSteps: analysis.timings, gridMs: t3 - t2, eveningMs: t4 - t3,
-      thresholdMs: t5 - t4, pngMs: t6 - t5, totalMs: t6 - t0,
+      thresholdMs: t5 - t4 - (t4c - t4b), thickenMs: t4c - t4b, pngMs: t6 - t5, totalMs: t6 - t0,
     },
   }
 }

@@ -7,8 +7,7 @@ import type { CleanUpChoice, EngineVersions, Measurements, StageTimings } from '
 import { prepareDrawing, type PrepareOptions } from './prepare'
 import { traceBitmap, outlineToSvg } from './trace'
 import { cleanVector } from './clean'
-import { measureCurves, smallPieces, narrowestFeatureMm } from './geometry'
-import { fidelity } from './fidelity'
+import { measureOutline } from './measure'
 import type { PipelineSettingsInput } from '../../shared/utils/settings'
 export { PREVIEW_SOURCE_SIDE } from '../../shared/utils/settings'
 import { ENGINE_VERSIONS_BASE } from './versions'
@@ -24,10 +23,13 @@ export interface RunRequest {
   /** 'preview' works at screen resolution and skips nothing a designer reads. */
   purpose: 'revision' | 'preview'
   smallPieceMm2?: number
+  /** The source's content hash, so repeated previews of one source reuse the sheet's reading. */
+  sourceKey?: string
 }
 
 export interface RunResult {
   preparedPng: Uint8Array
+  /** The tracer's own outline, in prepared-bitmap pixels; empty for a preview (never stored). */
   rawOutlineSvg: string
   cleanSvg: string
   measurements: Measurements
@@ -44,34 +46,31 @@ export const PREVIEW_OPTIONS: PrepareOptions = { minPxPerMm: 4, maxPxPerMm: 6, m
 export async function runPipeline(req: RunRequest): Promise<RunResult> {
   const t0 = performance.now()
   const limit = req.smallPieceMm2 ?? DEFAULT_SMALL_PIECE_MM2
-  const prepared = await prepareDrawing(req.source, req.settings, req.widthMm, { ...(req.purpose === 'preview' ? PREVIEW_OPTIONS : {}), smallPieceMm2: limit })
+  const prepared = await prepareDrawing(req.source, req.settings, req.widthMm, { ...(req.purpose === 'preview' ? PREVIEW_OPTIONS : {}), smallPieceMm2: limit, sourceKey: req.sourceKey })
   const t1 = performance.now()
   const outline = traceBitmap(prepared, prepared.settings)
   const t2 = performance.now()
   const clean = cleanVector(outline)
   const t3 = performance.now()
-  const geometry = measureCurves(clean.curvesMm, 1)
-  const fid = await fidelity(clean.svg, prepared)
-  // Measured on what will be cut: the clean vector rasterised back, so dropped specks do not count.
-  const narrowest = narrowestFeatureMm(fid.raster, prepared.width, prepared.height, prepared.pxPerMm)
+  const figures = measureOutline(clean, prepared, limit)
   const t4 = performance.now()
   return {
     preparedPng: new Uint8Array(prepared.png.buffer, prepared.png.byteOffset, prepared.png.byteLength),
-    rawOutlineSvg: outlineToSvg(outline),
+    rawOutlineSvg: req.purpose === 'revision' ? outlineToSvg(outline) : '',
     cleanSvg: clean.svg,
     histogram: Array.from(prepared.histogram),
     measurements: {
       widthMm: clean.widthMm,
       heightMm: clean.heightMm,
-      inkAreaMm2: geometry.inkAreaMm2,
-      cutLengthMm: geometry.cutLengthMm,
-      pieces: geometry.pieces,
-      holes: geometry.holes,
-      nodes: geometry.nodeCount,
-      narrowestFeatureMm: narrowest,
-      smallPieces: smallPieces(clean.curvesMm, 1, limit).length,
+      inkAreaMm2: figures.inkAreaMm2,
+      cutLengthMm: figures.cutLengthMm,
+      pieces: figures.pieces,
+      holes: figures.holes,
+      nodes: figures.nodeCount,
+      narrowestFeatureMm: figures.narrowestFeatureMm,
+      smallPieces: figures.smallPieces,
       smallPieceLimitMm2: limit,
-      fidelity: fid.iou,
+      fidelity: figures.fidelity,
       threshold: prepared.threshold,
       pxPerMm: prepared.pxPerMm,
       preparedWidthPx: prepared.width,

@@ -1,4 +1,4 @@
-import type { EngineVersions, Measurements, StageTimings } from './pipeline'
+import type { CleanUpChoice, EngineVersions, Measurements, StageTimings } from './pipeline'
 import type { Can } from './policy'
 
 export const ARTWORK_STATUSES = ['draft', 'in-review', 'approved', 'sent-back'] as const
@@ -11,8 +11,11 @@ export interface RevisionSummary {
   id: number
   number: number
   status: ArtworkStatus
+  /** The decal's size: the drawing's ink, with the margin (if any) on every side. */
   widthMm: number
   heightMm: number
+  /** The drawing's width asked for (its ink, from leftmost to rightmost), mm. */
+  drawingWidthMm: number
   createdAt: string
   author: string
   measurements: Measurements
@@ -30,6 +33,8 @@ export interface RevisionDetail extends RevisionSummary {
   artworkId: number
   reviews: ReviewEntry[]
   settings: Record<string, unknown>
+  /** What the clean-up chose for this revision (or was told), and why: one line per choice. */
+  choices: CleanUpChoice[]
   timings: StageTimings
   engineVersions: EngineVersions
   source: SourceInfo
@@ -82,8 +87,14 @@ export interface Preview {
   /** The prepared bitmap as a data: URL (PNG). */
   preparedPng: string
   histogram: number[]
+  /**
+   * Measured on the preview's own coarser bitmap (measurements.pxPerMm): estimates of what
+   * the saved revision, at its full resolution, will measure.
+   */
   measurements: Measurements
   timings: StageTimings
+  /** The clean-up's choices for these settings, and why (as a saved revision would record them). */
+  choices: CleanUpChoice[]
 }
 
 export interface ReviewQueueItem {

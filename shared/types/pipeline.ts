@@ -17,6 +17,7 @@ export type CleanUpChoice =
   | { setting: 'paperLines', automatic: boolean, value: 'keep' | 'remove', reason: string }
   | { setting: 'threshold', automatic: boolean, value: Pinned<ThresholdSetting>, reason: string }
   | { setting: 'marginMm', automatic: false, value: number, reason: string }
+  | { setting: 'thickenToMm', automatic: false, value: number | null, reason: string }
 
 export type CleanUpSetting = CleanUpChoice['setting']
 

@@ -27,6 +27,8 @@ export const SETTING_LIMITS = {
   adaptiveR: { min: 8, max: 255 },
   fineAngleDeg: { min: -45, max: 45 },
   marginMm: { min: 0, max: 50 },
+  /** Width thin strokes are thickened to, mm (when thickening is on). */
+  thickenToMm: { min: 0.1, max: 10 },
 } as const
 
 /**
@@ -122,6 +124,11 @@ export const pipelineSettingsSchema = z.object({
   crop: cropSchema.nullable().default(null),
   /** Clear paper added around the drawing's ink on every side, mm. */
   marginMm: z.number().min(SETTING_LIMITS.marginMm.min).max(SETTING_LIMITS.marginMm.max).default(0),
+  /**
+   * Thin strokes made weedable: every stroke and dot narrower than this, at the decal's size,
+   * is thickened to it (mm); null leaves the strokes as drawn.
+   */
+  thickenToMm: z.number().min(SETTING_LIMITS.thickenToMm.min).max(SETTING_LIMITS.thickenToMm.max).nullable().default(null),
   /** Ink blobs (and holes) of up to this area at the target size are dropped, mm². */
   speckFilterMm2: z.number().min(SETTING_LIMITS.speckFilterMm2.min).max(SETTING_LIMITS.speckFilterMm2.max).default(0.5),
   /** 0 = every corner sharp … 4/3 = no corner left. */

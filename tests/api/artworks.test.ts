@@ -43,14 +43,18 @@ describe('uploading a drawing', () => {
     const { artwork, revision } = r.body
     expect(artwork).toMatchObject({ title: 'Wren on a gear', status: 'draft', team: { id: wrens }, author: DEMO_ACCOUNTS.student.name, revisionCount: 1 })
     expect(revision.number).toBe(1)
+    // The decal is trimmed to the drawing: the ink (ring and bar, drawingSvg) is 676 × 512 px of
+    // the 1200 × 800 px picture, so 120 mm wide → 90.9 mm high (anti-aliased edges: ± 0.1 mm).
     expect(revision.widthMm).toBe(120)
-    // 1200 × 800 px at 120 mm wide → 80 mm high.
-    expect(revision.heightMm).toBe(80)
+    expect(revision.drawingWidthMm).toBe(120)
+    expect(Math.abs(revision.heightMm - (120 * 512) / 676)).toBeLessThan(0.1)
     const m = revision.measurements
     expect(m.pieces).toBe(2)
     expect(m.holes).toBe(1)
     expect(m.fidelity).toBeGreaterThan(0.99)
-    expect(m.pxPerMm).toBeGreaterThanOrEqual(10)
+    // About 10 px/mm: the working grid is made at 10, and trimming to the ink's exact width
+    // moves the scale by a fraction of a pixel across the drawing.
+    expect(m.pxPerMm).toBeGreaterThan(9.9)
     expect(m.narrowestFeatureMm).toBeGreaterThan(5)
     expect(revision.engineVersions.potrace).toBe('2.1.8')
     expect(revision.source).toMatchObject({ mediaType: 'image/png', fileName: 'wren.png', widthPx: 1200, heightPx: 800, bytes: file.byteLength, contentHash: sha256(file) })
@@ -65,8 +69,8 @@ describe('uploading a drawing', () => {
     expect(vector.disposition).toMatch(/filename="wren-on-a-gear-r1\.svg"/)
     const svg = new TextDecoder().decode(vector.bytes)
     expect(svg).toMatch(/width="120mm"/)
-    expect(svg).toMatch(/height="80mm"/)
-    expect(svg).toMatch(/viewBox="0 0 120 80"/)
+    expect(svg).toContain(`height="${revision.heightMm}mm"`)
+    expect(svg).toContain(`viewBox="0 0 120 ${revision.heightMm}"`)
     const prepared = await bytesOf(student, revision.files.prepared)
     expect(prepared.type).toBe('image/png')
     const meta = await sharp(prepared.bytes).metadata()
@@ -99,7 +103,9 @@ describe('uploading a drawing', () => {
     const r = await uploadArtwork(student, { file, title: 'Sideways photo', teamId: wrens, widthMm: 80 })
     expect(r.status).toBe(201)
     expect(r.body.revision.source).toMatchObject({ widthPx: 800, heightPx: 1200 })
-    expect(r.body.revision.heightMm).toBe(120)
+    // Upright, the drawing's ink is 512 × 676 px: 80 mm wide → 105.6 mm high (± 0.2 mm).
+    expect(r.body.revision.widthMm).toBe(80)
+    expect(Math.abs(r.body.revision.heightMm - (80 * 676) / 512)).toBeLessThan(0.2)
   })
 
   it('refuses what is not a picture we take with 415, and leaves nothing behind', async () => {
@@ -135,11 +141,13 @@ describe('uploading a drawing', () => {
     expect((await uploadArtwork(new ApiClient(), { file, title: 'Anyone', teamId: wrens })).status).toBe(401)
   })
 
-  it('stops a pathological outline with 422, names the setting to change, and stores nothing', async () => {
+  it('refuses salt-and-pepper noise as specks with 422, names the setting to change, and stores nothing', async () => {
     const before = { rows: await rowCounts(), keys: await allKeys() }
     const r = await uploadArtwork(student, { file: await noise(1000, 1000), title: 'Static', teamId: wrens, widthMm: 100 })
     expect(r.status).toBe(422)
-    expect(r.body.message).toMatch(/speck filter/)
+    // Not traced at all: most of its pieces would be lost when weeding.
+    expect(r.body.data).toEqual({ kind: 'not-a-drawing' })
+    expect(r.body.message).toMatch(/^Most of the \d+ pieces would be smaller than 1 mm² .*raise the speck filter/)
     expect({ rows: await rowCounts(), keys: await allKeys() }).toEqual(before)
   })
 })
@@ -199,8 +207,10 @@ describe('revisions', () => {
     expect(p.body.svg).toMatch(/^<svg[^>]+width="100mm"/)
     expect(p.body.preparedPng).toMatch(/^data:image\/png;base64,/)
     expect(p.body.histogram).toHaveLength(256)
+    // The histogram is of the grey reading the threshold saw: the drawing and a little paper
+    // round it, before the trim.
     const { preparedWidthPx, preparedHeightPx } = p.body.measurements
-    expect(p.body.histogram.reduce((a: number, b: number) => a + b, 0)).toBe(preparedWidthPx * preparedHeightPx)
+    expect(p.body.histogram.reduce((a: number, b: number) => a + b, 0)).toBeGreaterThanOrEqual(preparedWidthPx * preparedHeightPx)
     expect(p.body.measurements.threshold).toBe(120)
     expect({ rows: await rowCounts(), keys: await allKeys() }).toEqual(before)
   })

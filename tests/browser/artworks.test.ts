@@ -116,9 +116,10 @@ describe('from a phone photo to revisions, in the browser', () => {
     await expect.poll(() => page.locator('[data-test="revision-row-1"]').count()).toBe(1)
     expect(await page.locator('[data-test^="revision-row-"]').count()).toBe(1)
     expect(await text(page, 'artwork-facts')).toMatch(/Copper Wrens[\s\S]*Draft[\s\S]*Priya Castellanos/)
-    // 1600 × 1200 px upright (after the orientation tag) at 120 mm wide → 90 mm high.
+    // Upright (after the orientation tag) the drawing's ink spans x 120…1400 and y 230…1050 of
+    // the 1600 × 1200 px photo: the decal is trimmed to it, 120 mm wide → 76.9 mm high.
     await expect.poll(() => text(page, 'measure-widthMm')).toBe('120')
-    expect(await text(page, 'measure-heightMm')).toBe('90')
+    expect(Math.abs(Number(await text(page, 'measure-heightMm')) - (120 * 820) / 1280)).toBeLessThanOrEqual(0.2)
     // Ring, disc, bar, triangle: four pieces, the ring's one hole.
     expect(await text(page, 'measure-pieces')).toBe('4 pieces')
     expect(await text(page, 'measure-holes')).toBe('1 hole')
@@ -127,7 +128,8 @@ describe('from a phone photo to revisions, in the browser', () => {
     expect(await text(page, 'measure-inkAreaMm2')).toMatch(/mm²$/)
     // About 450 mm of outline: under a metre, so in millimetres only.
     expect(await text(page, 'measure-cutLengthMm')).toMatch(/^\d{3} mm$/)
-    expect(Number(await text(page, 'measure-pxPerMm'))).toBeGreaterThanOrEqual(10)
+    // about 10 px/mm: the trim to the ink's exact width moves it by a fraction of a pixel
+    expect(Number(await text(page, 'measure-pxPerMm'))).toBeGreaterThan(9.9)
     expect(await text(page, 'engine-versions')).toMatch(/potrace 2\.1\.8/)
     for (const panel of ['source', 'prepared', 'vector']) {
       await expect.poll(() => page.locator(`[data-test="panel-${panel}"] img`).evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth), { message: panel }).toBeGreaterThan(0)
@@ -173,23 +175,30 @@ describe('from a phone photo to revisions, in the browser', () => {
     // Out of range is caught in the form, beside the field.
     await expect.poll(() => page.locator('[data-test="error-thresholdValue"]').count()).toBe(1)
     await form.locator('input[name="thresholdValue"]').fill('100')
-    await form.locator('input[name="lightingEvening"]').check()
+    await form.locator('input[name="lightingEvening"][value="on"]').check()
     await form.locator('button[type="submit"]').click()
 
     await page.waitForURL((u) => u.searchParams.get('r') === '2', { timeout: 30_000 })
     await expect.poll(() => page.locator('[data-test^="revision-row-"]').count()).toBe(2)
-    expect(await page.locator('[data-test="revision-row-2"] [data-test="revision-size"]').innerText()).toBe('90 × 67.5 mm')
-    expect(await page.locator('[data-test="revision-row-1"] [data-test="revision-size"]').innerText()).toBe('120 × 90 mm')
+    // Sizes of the trimmed drawing (ink 1280 × 820 px): 90 × 57.7 and 120 × 76.9 mm, give or take
+    // the anti-aliased edges' 0.2 mm.
+    const size = async (n: number) => (await page.locator(`[data-test="revision-row-${n}"] [data-test="revision-size"]`).innerText()).match(/^([\d.]+) × ([\d.]+) mm$/)!.slice(1).map(Number)
+    const [w2, h2] = await size(2)
+    const [w1, h1] = await size(1)
+    expect(w2).toBe(90)
+    expect(Math.abs(h2! - (90 * 820) / 1280)).toBeLessThanOrEqual(0.2)
+    expect(w1).toBe(120)
+    expect(Math.abs(h1! - (120 * 820) / 1280)).toBeLessThanOrEqual(0.2)
     // The newest first, and the shown revision is the new one.
     expect(await page.locator('[data-test^="revision-row-"]').first().getAttribute('data-test')).toBe('revision-row-2')
     expect(await page.locator('[data-test="revision-row-2"]').getAttribute('aria-current')).toBe('true')
     await expect.poll(() => text(page, 'measure-widthMm')).toBe('90')
-    expect(await text(page, 'measure-heightMm')).toBe('67.5')
+    expect(Number(await text(page, 'measure-heightMm'))).toBe(h2)
     expect(await text(page, 'measure-threshold')).toBe('100')
     expect(await page.locator('[data-test="revision-row-2"]').innerText()).toMatch(/Kofi Lindqvist/)
     // The form now starts from revision 2.
     await expect.poll(() => form.locator('input[name="thresholdValue"]').inputValue()).toBe('100')
-    expect(await form.locator('input[name="lightingEvening"]').isChecked()).toBe(true)
+    expect(await form.locator('input[name="lightingEvening"][value="on"]').isChecked()).toBe(true)
     await screenshot(page, 'artwork-designer-r2')
 
     // Choosing revision 1 in the list shows it again.
@@ -231,7 +240,7 @@ describe('from a phone photo to revisions, in the browser', () => {
     await page.close()
   })
 
-  it('says plainly what the server said about a file that is not a picture, and stops an oversized one before sending', async () => {
+  it('says plainly what the server said about a file that is not a picture or not a drawing, and stops an oversized one before sending', async () => {
     const page = await tabletPage('')
     await signInThroughForm(page, DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
     await page.waitForURL((u) => u.pathname === '/studio')
@@ -264,6 +273,22 @@ describe('from a phone photo to revisions, in the browser', () => {
     expect(new URL(page.url()).pathname).toBe('/artworks/new')
     expect(await page.locator('[data-test="upload-progress"]').count()).toBe(0)
     await screenshot(page, 'upload-not-a-picture')
+
+    // A picture of blank paper: read, but it cannot become a decal. The server's sentence, what
+    // usually helps, and nothing stored; choosing another picture clears it.
+    const blank = await sharp({ create: { width: 900, height: 600, channels: 3, background: '#f2efe8' } }).jpeg().toBuffer()
+    await form.locator('input[name="file"]').setInputFiles({ name: 'empty-page.jpg', mimeType: 'image/jpeg', buffer: blank })
+    await form.locator('button[type="submit"]').click()
+    const refused = page.locator('[data-test="upload-refused"]')
+    await expect.poll(() => refused.count(), { timeout: 20_000 }).toBe(1)
+    expect(await text(page, 'refusal-reason')).toMatch(/^No drawing was found: the picture reads as blank paper\./)
+    expect(await refused.innerText()).toMatch(/This picture cannot become a decal[\s\S]*Nothing was stored/)
+    expect(await page.locator('[data-test="refusal-tips"] li').count()).toBeGreaterThanOrEqual(2)
+    expect(await page.locator('[data-test="form-error"]').count()).toBe(0)
+    expect(new URL(page.url()).pathname).toBe('/artworks/new')
+    await screenshot(page, 'upload-not-a-drawing')
+    await form.locator('input[name="file"]').setInputFiles({ name: 'another.png', mimeType: 'image/png', buffer: await sharp(Buffer.from('<svg xmlns="http://www.w3.org/2000/svg" width="40" height="40"><rect width="40" height="40" fill="#fff"/><circle cx="20" cy="20" r="12"/></svg>')).png().toBuffer() })
+    await expect.poll(() => refused.count()).toBe(0)
     await page.close()
   })
 })

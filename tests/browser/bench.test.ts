@@ -6,6 +6,7 @@ import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 import { signedIn } from '../support/client'
 import { testDb } from '../support/db'
 import { uploadArtwork } from '../support/upload'
+import { skewedWithShadow } from '../unit/pipeline/hard-cases'
 
 await setupBrowser()
 
@@ -32,6 +33,8 @@ function benchDrawingSvg(): string {
 }
 
 let artworkId: number
+/** A photo of a sheet taken at an angle, its drawing 25 mm wide: its 3 mm strokes become 0.6 mm. */
+let skewedId: number
 
 beforeAll(async () => {
   const wrens = (await testDb().selectFrom('team').select('id').where('name', '=', 'Copper Wrens').executeTakeFirstOrThrow()).id
@@ -40,6 +43,9 @@ beforeAll(async () => {
   const r = await uploadArtwork(student, { file, title: 'Ring, bar and grey moon', teamId: wrens, fileName: 'moon.png' })
   expect(r.status, JSON.stringify(r.body)).toBe(201)
   artworkId = r.body.artwork.id
+  const skewed = await uploadArtwork(student, { file: (await skewedWithShadow()).source, title: 'Gear and bolt, photographed', teamId: wrens, widthMm: 25, fileName: 'gear.jpg' })
+  expect(skewed.status, JSON.stringify(skewed.body)).toBe(201)
+  skewedId = skewed.body.artwork.id
 })
 
 const status = (page: Page) => page.locator('[data-test="preview-status"]')
@@ -144,16 +150,19 @@ describe('the tuning bench', () => {
     await page.keyboard.press('ArrowRight')
     await page.keyboard.press('0')
     await expect.poll(() => page.locator('[data-test="zoom-level"]').textContent()).toContain('100 %')
-    // Wheel over one panel and drag in another: all three follow with the same zoom.
+    // Wheel over one panel and drag in another: all three follow. The prepared bitmap and the
+    // outline show the same picture (the trimmed decal) at the same scale; the source, its own.
     const stageScale = (name: string) => page.locator(`[data-test="panel-${name}"] > div`).first().evaluate((el) => /scale\(([\d.]+)\)/.exec((el as HTMLElement).style.transform)?.[1])
     const stageMove = (name: string) => page.locator(`[data-test="panel-${name}"] > div`).first().evaluate((el) => (el as HTMLElement).style.transform)
     const outlinePanel = page.locator('[data-test="panel-outline"]')
     await outlinePanel.scrollIntoViewIfNeeded()
+    const sourceBefore = await stageScale('source')
     await outlinePanel.hover()
     await page.mouse.wheel(0, -300)
     await expect.poll(() => page.locator('[data-test="zoom-level"]').textContent()).not.toContain('100 %')
-    const scales = await Promise.all(['source', 'prepared', 'outline'].map(stageScale))
+    const scales = await Promise.all(['prepared', 'outline'].map(stageScale))
     expect(new Set(scales).size, scales.join(', ')).toBe(1)
+    expect(Number(await stageScale('source'))).toBeGreaterThan(Number(sourceBefore))
     const before = await Promise.all(['source', 'prepared'].map(stageMove))
     const pb = (await page.locator('[data-test="panel-prepared"]').boundingBox())!
     await page.mouse.move(pb.x + pb.width / 2, pb.y + pb.height / 2)
@@ -177,14 +186,16 @@ describe('the tuning bench', () => {
     const width = page.locator('[data-test="widthMm-input"]')
     await afterPreview(page, async () => { await width.fill('320'); await width.press('Enter') })
     expect(await page.locator('[data-test="warning-too-wide"]').textContent()).toMatch(/320 mm wide, wider than the 300 mm sheet of Matte black polyester film — reduce the width/)
-    expect(await page.locator('[data-test="warning-too-tall"]').textContent()).toMatch(/213 mm tall/)
+    // The decal is the drawing: 320 mm of ink across, the height following its proportions.
+    expect(await page.locator('[data-test="decal-size"]').textContent()).toMatch(/320 × \d+(\.\d)? mm/)
     await page.locator('[data-test="warning-too-wide"] button').click()
     await expect.poll(() => page.evaluate(() => document.activeElement?.id)).toBe('widthMm-box')
     await afterPreview(page, async () => { await width.fill('150'); await width.press('Enter') })
     expect(await page.locator('[data-test="warning-too-wide"]').count()).toBe(0)
 
-    // A crop dragged on the source, in source pixels; the height follows; then cleared again.
-    const heightBefore = await page.locator('[data-test="height-follows"]').textContent()
+    // A crop dragged on the source, in source pixels; the decal's height follows the part of the
+    // drawing kept; then cleared again.
+    const heightBefore = await page.locator('[data-test="decal-size"]').textContent()
     await page.locator('[data-test="crop-mode"]').click()
     await page.locator('[data-test="panel-source"]').scrollIntoViewIfNeeded()
     const box = (await page.locator('[data-test="panel-source"]').boundingBox())!
@@ -203,11 +214,11 @@ describe('the tuning bench', () => {
     const fit = Math.min(box.width / 1200, box.height / 800)
     expect(Math.abs(Number(m![1]) - (0.2 * box.width) / fit)).toBeLessThanOrEqual(8)
     expect(Math.abs(Number(m![2]) - (0.6 * box.height) / fit)).toBeLessThanOrEqual(8)
-    expect(await page.locator('[data-test="height-follows"]').textContent()).not.toBe(heightBefore)
+    await expect.poll(() => page.locator('[data-test="decal-size"]').textContent()).not.toBe(heightBefore)
     expect(Number(await page.locator('[data-test="crop-width"]').inputValue())).toBe(Number(m![1]))
     await afterPreview(page, () => page.locator('[data-test="clear-crop"]').click())
     expect(await page.locator('[data-test="crop-summary"]').textContent()).toContain('The whole source')
-    expect(await page.locator('[data-test="height-follows"]').textContent()).toBe(heightBefore)
+    await expect.poll(() => page.locator('[data-test="decal-size"]').textContent()).toBe(heightBefore)
 
     // Round trips: a few more changes, each let go of and drawn.
     for (const v of ['0.25', '0.3', '0.35', '0.4', '0.45', '0.5', '0.3', '0.2']) {
@@ -236,6 +247,9 @@ describe('the tuning bench', () => {
     await screenshot(page, 'bench-desktop')
     await page.setViewportSize({ width: 820, height: 1100 })
 
+    // Until saved, the figures are the preview's estimates; once saved, the revision's own.
+    expect(await page.locator('[data-test="figures-kind"]').getAttribute('data-kind')).toBe('estimate')
+
     // Save: one click; the list grows and the next number moves on.
     const save = page.locator('[data-test="save"]')
     expect(await save.textContent()).toContain('Save as revision 2')
@@ -248,6 +262,8 @@ describe('the tuning bench', () => {
     expect(await page.locator('[data-test="revision-count"]').textContent()).toContain('2 revisions')
     expect(await save.isDisabled()).toBe(true) // nothing new to save until a setting changes
     expect(await save.textContent()).toContain('Save as revision 3')
+    expect(await page.locator('[data-test="figures-kind"]').getAttribute('data-kind')).toBe('saved')
+    expect(await page.locator('[data-test="figures-kind"]').textContent()).toMatch(/The figures of revision 2, as saved/)
 
     // Compare r1 with r2: the changed settings are listed as changed.
     await page.locator('[data-test="compare-link"]').click()
@@ -263,6 +279,131 @@ describe('the tuning bench', () => {
     expect(await page.locator('[data-test="compare-legend"]').textContent()).toMatch(/only in r1.*only in r2.*in both/s)
     await screenshot(page, 'compare-tablet')
 
+    await page.close()
+  })
+
+  it('a designer keeps a clean-up choice, moves the sheet\'s corners three ways, turns the photo and thickens from the warning', { timeout: 180_000 }, async () => {
+    const page = await tabletPage('')
+    await signInThroughForm(page, DEMO_ACCOUNTS.designer.email, DEMO_PASSWORD)
+    await page.waitForURL((u) => u.pathname === '/studio')
+    await page.goto(new URL(`/artworks/${skewedId}/bench`, inject('baseUrl')).toString(), { waitUntil: 'networkidle' })
+    await page.waitForFunction(() => Number(document.querySelector('[data-test="preview-status"]')?.getAttribute('data-previews')) >= 1, undefined, { timeout: 30_000 })
+
+    // Every choice with its reason; the sheet was found at an angle, its corners drawn dashed.
+    const choice = (s: string) => page.locator(`[data-test="choice-${s}"]`)
+    expect(await page.locator('[data-test^="choice-"][data-automatic]').count()).toBe(8)
+    expect(await choice('corners').getAttribute('data-automatic')).toBe('true')
+    expect(await choice('corners').locator('[data-test="choice-reason"]').textContent()).toMatch(/photographed at an angle/)
+    expect(await page.locator('[data-test="corners"]').getAttribute('data-source')).toBe('found')
+    await page.locator('[data-test="panel-source"]').scrollIntoViewIfNeeded()
+    await screenshot(page, 'bench-corners-found')
+
+    // Keep the lighting choice as it is: written into the settings, now "set on the bench".
+    const lighting = await choice('lightingEvening').locator('[data-test="choice-select-lightingEvening"]').inputValue()
+    expect(lighting).toBe('auto')
+    await afterPreview(page, () => choice('lightingEvening').locator('[data-test="choice-keep-lightingEvening"]').click())
+    expect(await choice('lightingEvening').getAttribute('data-automatic')).toBe('false')
+    expect(await choice('lightingEvening').locator('[data-test="choice-reason"]').textContent()).toMatch(/as set\.$/)
+    expect(['on', 'off']).toContain(await page.locator('[data-test="choice-select-lightingEvening"]').inputValue())
+    // … and override another: the ruled or grid lines kept.
+    await afterPreview(page, () => page.locator('[data-test="choice-select-paperLines"]').selectOption('keep'))
+    expect(await choice('paperLines').getAttribute('data-automatic')).toBe('false')
+
+    // Corners: each handle a target of at least 24 × 24 px (WCAG 2.2, 2.5.8).
+    const corner = (i: number) => page.locator(`[data-test="corner-${i}"]`)
+    await page.locator('[data-test="panel-source"]').evaluate((el) => el.scrollIntoView({ block: 'center' }))
+    for (let i = 0; i < 4; i++) {
+      const b = (await corner(i).boundingBox())!
+      expect(Math.min(b.width, b.height)).toBeGreaterThanOrEqual(24)
+    }
+    const at = async (i: number) => ({ x: Number(await corner(i).getAttribute('data-x')), y: Number(await corner(i).getAttribute('data-y')) })
+    // 1. Dragged: the bottom right corner 30 screen pixels left; the corners become the bench's own.
+    const start = await at(2)
+    const hb = (await corner(2).boundingBox())!
+    await afterPreview(page, async () => {
+      await page.mouse.move(hb.x + hb.width / 2, hb.y + hb.height / 2)
+      await page.mouse.down()
+      await page.mouse.move(hb.x + hb.width / 2 - 15, hb.y + hb.height / 2, { steps: 3 })
+      await page.mouse.move(hb.x + hb.width / 2 - 30, hb.y + hb.height / 2, { steps: 3 })
+      await page.mouse.up()
+    })
+    expect(await page.locator('[data-test="corners"]').getAttribute('data-source')).toBe('set')
+    const dragged = await at(2)
+    expect(dragged.x).toBeLessThan(start.x - 20)
+    expect(Math.abs(dragged.y - start.y)).toBeLessThan(3)
+    expect(await choice('corners').getAttribute('data-automatic')).toBe('false')
+    // 2. The keyboard: three presses right move it three source pixels; Shift + up a fiftieth of
+    // the photo's long side (1400 px: 28 px).
+    await afterPreview(page, async () => {
+      await corner(2).focus()
+      for (let i = 0; i < 3; i++) await page.keyboard.press('ArrowRight')
+      await page.keyboard.press('Shift+ArrowUp')
+    })
+    const keyed = await at(2)
+    expect(keyed.x).toBeCloseTo(dragged.x + 3, 5)
+    expect(keyed.y).toBeCloseTo(dragged.y - 28, 5)
+    expect(await page.locator('[data-test="corner-status"]').textContent()).toMatch(/Moved the bottom right corner/)
+    // 3. A single pointer, no dragging: press the handle, then click where it goes.
+    await page.locator('[data-test="panel-source"]').evaluate((el) => el.scrollIntoView({ block: 'center' }))
+    const cb = (await corner(2).boundingBox())!
+    await corner(2).click()
+    expect(await corner(2).getAttribute('aria-pressed')).toBe('true')
+    const target = page.locator('[data-test="corner-target"]')
+    const tb = (await target.boundingBox())!
+    // 20 screen pixels right of and below where the handle is now
+    await afterPreview(page, () => target.click({ position: { x: cb.x - tb.x + cb.width / 2 + 20, y: cb.y - tb.y + cb.height / 2 + 20 } }))
+    const clicked = await at(2)
+    expect(clicked.x).toBeGreaterThan(keyed.x)
+    expect(clicked.y).toBeGreaterThan(keyed.y)
+    expect(await corner(2).getAttribute('aria-pressed')).toBe('false')
+    // Back to the corners the clean-up finds.
+    await afterPreview(page, () => page.locator('[data-test="choice-select-corners"]').selectOption('auto'))
+    expect(await page.locator('[data-test="corners"]').getAttribute('data-source')).toBe('found')
+
+    // A quarter turn: the decal stands on its side (the drawing stays 25 mm wide).
+    const size = async () => (await page.locator('[data-test="decal-size"]').textContent())!.match(/([\d.]+) × ([\d.]+) mm/)!.slice(1).map(Number)
+    const [w0, h0] = await size()
+    expect(w0).toBe(25)
+    expect(h0!).toBeLessThan(25)
+    await afterPreview(page, () => page.locator('[data-test="turn-right"]').click())
+    expect(await page.locator('[data-test="turned"]').textContent()).toBe('Turned a quarter clockwise')
+    await expect.poll(async () => (await size())[1]!).toBeGreaterThan(25)
+
+    // The narrowest stroke is too thin for film; one click thickens it to 0.8 mm (no film chosen).
+    const warning = page.locator('[data-test="warning-thin-stroke"]')
+    await expect.poll(() => warning.count()).toBe(1)
+    const fix = warning.locator('[data-test="warning-one-click"]')
+    expect(await fix.textContent()).toContain('Thicken to 0.8 mm')
+    await warning.scrollIntoViewIfNeeded()
+    await screenshot(page, 'bench-thin-stroke-warning')
+    await afterPreview(page, () => fix.click())
+    expect(await page.locator('[data-test="thicken-toggle"]').isChecked()).toBe(true)
+    expect(await page.locator('[data-test="thickenToMm-input"]').inputValue()).toBe('0.8')
+    expect(await choice('thickenToMm').locator('[data-test="choice-value"]').textContent()).toContain('Thickened to 0.8 mm')
+    await expect.poll(() => warning.count()).toBe(0)
+    expect(Number((await page.locator('[data-test="m-narrowestFeatureMm"]').textContent())!.replace(' mm', ''))).toBeGreaterThanOrEqual(0.8)
+    await page.evaluate(() => window.scrollTo(0, 0))
+    await screenshot(page, 'bench-cleanup-tablet')
+
+    // Saved: the revision records the choices, and the figures are its own.
+    await Promise.all([
+      page.waitForResponse((r) => r.url().endsWith(`/api/artworks/${skewedId}/revisions`) && r.status() === 201),
+      page.locator('[data-test="save"]').click(),
+    ])
+    await expect.poll(() => page.locator('[data-test="figures-kind"]').getAttribute('data-kind')).toBe('saved')
+    const saved = await page.evaluate(async (id) => (await fetch(`/api/artworks/${id}`)).json(), skewedId)
+    const rev = await page.evaluate(async (rid) => (await fetch(`/api/revisions/${rid}`)).json(), saved.revisions[0].id)
+    expect(rev.settings).toMatchObject({ quarterTurns: 1, thickenToMm: 0.8, paperLines: 'keep', corners: { mode: 'auto' } })
+    expect(rev.choices.find((c: { setting: string }) => c.setting === 'lightingEvening').automatic).toBe(false)
+    expect(rev.measurements.narrowestFeatureMm).toBeGreaterThanOrEqual(0.8)
+
+    // The artwork page lists each choice with its reason, and the drawing's width.
+    await page.goto(new URL(`/artworks/${skewedId}`, inject('baseUrl')).toString(), { waitUntil: 'networkidle' })
+    expect(await page.locator('[data-test="drawing-width"]').textContent()).toMatch(/The drawing is 25 mm wide, trimmed to its ink/)
+    expect(await page.locator('[data-test^="revision-choice-"]').count()).toBe(8)
+    expect(await page.locator('[data-test="revision-choice-thickenToMm"]').textContent()).toMatch(/Thickened to 0\.8 mm/)
+    await page.locator('[data-test="revision-choices"]').scrollIntoViewIfNeeded()
+    await screenshot(page, 'artwork-choices')
     await page.close()
   })
 })

@@ -25,16 +25,23 @@ let artworkId: number
 let robotId: number
 let placementId: number
 let jobId: number
+/** The decal's height at 60 mm wide: the drawing's own proportions (it is trimmed to its ink). */
+let heightMm: number
 
 const url = (page: Page, path: string) => new URL(path, page.url()).toString()
 const byTest = (page: Page, test: string) => page.locator(`[data-test="${test}"]`)
+/** A size as the pages write it: one decimal at most (app/utils/artworks.ts, formatNumber). */
+const oneDecimal = (v: number) => new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 }).format(v)
 
 beforeAll(async () => {
   const student = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
   const wrens = (await student.get('/api/me')).body.teams.find((t: { name: string }) => t.name === 'Copper Wrens').id
-  // 600 × 400 px at 60 mm wide: a 60 × 40 mm decal.
+  // The drawing's ink is 338 × 256 px of the 600 × 400 px picture: at 60 mm wide a decal of
+  // 60 × 45.4 mm (give or take its anti-aliased edges).
   const up = await uploadArtwork(student, { file: await drawing('png', 600, 400), title, teamId: wrens, widthMm: 60, fileName: 'tern-crest.png' })
   expect(up.status, JSON.stringify(up.body)).toBe(201)
+  heightMm = up.body.revision.heightMm
+  expect(Math.abs(heightMm - (60 * 256) / 338)).toBeLessThan(0.2)
   revisionId = up.body.revision.id
   artworkId = up.body.artwork.id
   const submitted = await student.post(`/api/revisions/${revisionId}/submit`)
@@ -60,7 +67,7 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     expect(words).toContain(title)
     expect(words).toContain('Copper Wrens')
     expect(words).toContain(DEMO_ACCOUNTS.student.name)
-    expect(words).toMatch(/60 × 40 mm/)
+    expect(words).toContain(`60 × ${oneDecimal(heightMm)} mm`)
     expect(words).toMatch(/Narrowest feature/)
     expect(words).toMatch(/Fidelity\s+\d+\.\d %/)
     // The drawing itself is shown, and the card links to the artwork at this revision.
@@ -110,8 +117,8 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     await filmSelect.selectOption({ label: PET })
     await form.locator('input[name="spot"]').fill(SPOT)
     await form.locator('input[name="widthMm"]').fill('50')
-    // 60 × 40 mm drawn, placed 50 mm wide: the height follows at 33.33 mm.
-    await expect.poll(() => form.innerText()).toMatch(/Height follows: 33\.3\d? mm/)
+    // Placed 50 mm wide, the height follows the drawing's proportions.
+    await expect.poll(async () => Number(/Height follows: ([\d.]+) mm/.exec(await form.innerText())?.[1])).toBeCloseTo((50 * heightMm) / 60, 1)
     await form.locator('input[name="quantity"]').fill('2')
     await form.locator('input[name="spares"]').fill('1')
     await form.locator('button[type="submit"]').click()
@@ -129,7 +136,7 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     const text = await placed.innerText()
     expect(text).toContain(SPOT)
     expect(text).toContain(`${title} r1`)
-    expect(text).toMatch(/50 × 33\.3 mm/)
+    expect(text).toContain(`50 × ${oneDecimal((50 * heightMm) / 60)} mm`)
     expect(text).toContain(PET)
     expect(await byTest(page, `placement-job-${jobId}`).innerText()).toMatch(/First cut, 3 copies\s*Queued/)
     expect(await byTest(page, `placement-revision-${placementId}`).getAttribute('href')).toBe(`/artworks/${artworkId}?r=1`)
@@ -137,7 +144,7 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     const thumb = placed.locator('img')
     await expect.poll(() => thumb.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBeGreaterThan(0)
     const box = await thumb.boundingBox()
-    expect(box!.width / box!.height).toBeCloseTo(50 / 33.333, 1)
+    expect(box!.width / box!.height).toBeCloseTo(60 / heightMm, 1)
     await screenshot(page, 'robot-page-mentor')
 
     // The robots list shows the same decal in the robot's card.
@@ -173,7 +180,7 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     const image = byTest(page, 'cut-sheet-image')
     await expect.poll(() => image.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBeGreaterThan(0)
     expect(await byTest(page, 'job-state').innerText()).toMatch(/Queued/)
-    // 3 copies of 50 × 33.3 mm fit on one 300 × 200 mm sheet; the film's laser settings and the estimate are shown.
+    // 3 copies of 50 × 37.9 mm fit on one 300 × 200 mm sheet; the film's laser settings and the estimate are shown.
     expect(await byTest(page, 'usage').innerText()).toMatch(/Film usage \d+\.\d % of 1 sheet/)
     expect(await byTest(page, 'laser-settings').innerText()).toMatch(/55 %[\s\S]*12 mm\/s[\s\S]*1/)
     expect(await byTest(page, 'estimate').innerText()).toMatch(/About \d+[\s\S]*mm\/s/)

@@ -1,13 +1,13 @@
 import { describe, expect, it } from 'vitest'
 import type { Measurements } from '../../../shared/types/pipeline'
-import { BENCH_DEFAULTS, followingHeightMm, normaliseSettings, sameSettings } from '../../../app/utils/bench-settings'
+import { BENCH_DEFAULTS, decalSizeMm, normaliseSettings, sameSettings } from '../../../app/utils/bench-settings'
 import {
   clampView, cropFromPoints, fitCrop, fitView, frameRect, panByScreen, panByStep, screenToWorld, worldToScreen, zoomAt, ZOOM_MAX,
 } from '../../../app/utils/bench-view'
 import { benchWarnings, DEFAULT_SHEET_MM, groupThousands, MIN_WEEDABLE_STROKE_MM } from '../../../app/utils/bench-warnings'
 import { histogramHeights, histogramPath, inkShare, levelAfterKey, levelAt } from '../../../app/utils/bench-histogram'
 import { parseOutlineSvg, tintedOutlineSvg } from '../../../app/utils/outline-svg'
-import { changedShare, compareRows, defaultPair, diffMasks } from '../../../app/utils/revision-compare'
+import { changedShare, compareRows, defaultPair, diffMasks, overlayFrame } from '../../../app/utils/revision-compare'
 
 const measurements = (over: Partial<Measurements> = {}): Measurements => ({
   widthMm: 150, heightMm: 100, inkAreaMm2: 4000, cutLengthMm: 900, pieces: 3, holes: 1, nodes: 120,
@@ -36,9 +36,12 @@ describe('bench settings', () => {
     expect(sameSettings(a, 100, normaliseSettings({ speckFilterMm2: 2, swapInkAndPaper: true }), 100)).toBe(false)
   })
 
-  it('lets the height follow the width, with the crop\'s proportions', () => {
-    expect(followingHeightMm(120, { widthPx: 1200, heightPx: 800 }, null)).toBe(80)
-    expect(followingHeightMm(100, { widthPx: 1200, heightPx: 800 }, { x: 0, y: 0, width: 400, height: 400 })).toBe(100)
+  it('lets the decal\'s height follow the drawing\'s width, with the margin on every side', () => {
+    // the last run: a drawing 120 mm wide with 5 mm of margin came out 130 × 100 mm (ink 120 × 90)
+    const known = { drawingWidthMm: 120, marginMm: 5, widthMm: 130, heightMm: 100 }
+    expect(decalSizeMm(60, 0, known)).toEqual({ widthMm: 60, heightMm: 45 })
+    expect(decalSizeMm(240, 2, known)).toEqual({ widthMm: 244, heightMm: 184 })
+    expect(decalSizeMm(60, 0, null)).toBeNull()
   })
 })
 
@@ -121,7 +124,10 @@ describe('warnings in the trade\'s words', () => {
     const byId = Object.fromEntries(w.map((x) => [x.id, x]))
     expect(byId['small-pieces']!.text).toBe('3 pieces are smaller than 1 mm² and will be lost when weeding — raise the speck filter')
     expect(byId['small-pieces']!.fix).toBe('speckFilterMm2')
-    expect(byId['thin-stroke']!.text).toBe('The narrowest stroke is 0.4 mm; thin film tears below about 0.8 mm when weeding — make the decal wider or thicken the drawing')
+    expect(byId['thin-stroke']!.text).toBe('The narrowest stroke is 0.4 mm; thin film tears below about 0.8 mm when weeding — thicken the thin strokes, or make the decal wider')
+    // one click thickens to 0.8 mm, common practice when no film is chosen
+    expect(byId['thin-stroke']!.oneClick).toEqual({ label: 'Thicken to 0.8 mm', settings: { thickenToMm: 0.8 } })
+    expect(byId['thin-stroke']!.fix).toBe('thickenToMm')
     expect(byId['many-nodes']!.text).toBe('The outline has 24 000 nodes; the cut will stutter — raise the curve tolerance')
     expect(byId['many-nodes']!.fix).toBe('curveTolerance')
     expect(byId['too-wide']!.text).toBe('The design is 320 mm wide, wider than a 300 mm sheet — reduce the width')
@@ -134,9 +140,12 @@ describe('warnings in the trade\'s words', () => {
   it('checks against a chosen film\'s sheet and smallest weedable feature, by name', () => {
     const w = benchWarnings(measurements({ narrowestFeatureMm: 1.2, widthMm: 250 }), { sheetMm: { width: 200, height: 300 }, minStrokeMm: 1.5, filmName: 'Satin teal' })
     expect(w.map((x) => x.text)).toEqual([
-      'The narrowest stroke is 1.2 mm; Satin teal tears below about 1.5 mm when weeding — make the decal wider or thicken the drawing',
+      'The narrowest stroke is 1.2 mm; Satin teal tears below about 1.5 mm when weeding — thicken the thin strokes, or make the decal wider',
       'The design is 250 mm wide, wider than the 200 mm sheet of Satin teal — reduce the width',
     ])
+    // the film's own smallest weedable feature is what one click thickens to
+    expect(w[0]!.oneClick).toEqual({ label: 'Thicken to 1.5 mm', settings: { thickenToMm: 1.5 } })
+    expect(w[1]!.oneClick).toBeUndefined()
   })
 
   it('one small piece is "a piece", and an empty outline points at the threshold', () => {
@@ -230,6 +239,10 @@ describe('comparing two revisions', () => {
     expect(Array.from(d.image.slice(8, 12))).toEqual([3, 3, 3, 255])
     expect(d.image[15]).toBe(0) // neither: transparent
     expect(changedShare(d)).toBeCloseTo(2 / 3, 12)
+  })
+
+  it('lays two trimmed drawings at the same width, as tall as the taller needs', () => {
+    expect(overlayFrame([{ widthMm: 120, heightMm: 90 }, { widthMm: 60, heightMm: 50 }], 1000)).toEqual({ width: 1000, height: 833 })
   })
 
   it('picks a sensible pair when the address names none or only one', () => {

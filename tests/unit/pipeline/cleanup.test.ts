@@ -12,7 +12,7 @@ import { findSheet, sheetAspect, type Quad } from '../../../server/pipeline/shee
 import work from '../../../server/pipeline/worker'
 import { parseSettings, scaleSourceGeometry } from '../../../shared/utils/settings'
 import { gridBlue } from './hard-cases'
-import { gaussian, mulberry32, svgDoc, svgToPng } from './helpers'
+import { gaussian, mulberry32, referenceNarrowest, svgDoc, svgToPng } from './helpers'
 
 /** 400 × 300 white image with a black 200 × 200 square (x 50…249, y 40…239). */
 const MARKER = svgDoc(400, 300, '<rect x="50" y="40" width="200" height="200"/>')
@@ -57,7 +57,7 @@ describe('trim to the drawing', () => {
     expect(Math.abs(framed.measurements.widthMm - 22)).toBeLessThan(0.2)
     expect(framed.measurements.inkAreaMm2).toBeCloseTo(400, -1)
     expect(Math.abs(framed.measurements.inkAreaMm2 / 400 - 1)).toBeLessThan(0.01)
-    expect(r.choices.map((c) => c.setting)).toEqual(['corners', 'lightingEvening', 'inkColour', 'dropoutColour', 'paperLines', 'threshold', 'marginMm'])
+    expect(r.choices.map((c) => c.setting)).toEqual(['corners', 'lightingEvening', 'inkColour', 'dropoutColour', 'paperLines', 'threshold', 'thickenToMm', 'marginMm'])
   })
 
   it('the whole frame is kept by prepareBitmap (the width is the frame\'s)', async () => {
@@ -88,6 +88,55 @@ describe('automatic is a setting like any other', () => {
     expect(half.crop).toEqual({ x: 50, y: 20, width: 500, height: 400 })
     expect(half.corners).toEqual({ mode: 'manual', points: [{ x: 0, y: 0 }, { x: 500, y: 5 }, { x: 495, y: 350 }, { x: 2.5, y: 345 }] })
     expect(scaleSourceGeometry(s, 1, 640, 480)).toBe(s)
+  })
+})
+
+describe('previews of one source', () => {
+  it('reuse the sheet\'s reading while only the threshold or the outline changes, with the same result', async () => {
+    const c = await gridBlue()
+    const settings = [{}, { threshold: { mode: 'manual' as const, value: 120 } }, { cornerRounding: 0.4, speckFilterMm2: 2 }, { paperLines: 'keep' as const }]
+    for (const [i, s] of settings.entries()) {
+      const fresh = await prepareDrawing(c.source, s, c.widthMm)
+      const kept = await prepareDrawing(c.source, s, c.widthMm, { sourceKey: 'grid' })
+      expect(Buffer.from(kept.bitmap).equals(Buffer.from(fresh.bitmap)), `settings ${i}`).toBe(true)
+      expect(kept.choices).toEqual(fresh.choices)
+      // after the first, the reading came from the earlier run (no analysis of the paper)
+      if (i === 1 || i === 2) expect(kept.timings.analysisSteps.paper).toBe(0)
+    }
+  })
+})
+
+describe('thin strokes made weedable', () => {
+  // A pencil line drawing 120 mm wide: strokes of 0.3 mm, a hook of 0.25 mm, a 1 mm dot (above
+  // the speck filter) and a disc.
+  const PENCIL = svgDoc(1300, 900, '<g fill="none" stroke="#222"><path d="M50 850 L50 50 L1250 50" stroke-width="2.5"/>'
+    + '<path d="M200 700 C400 150 800 900 1100 250" stroke-width="3"/><path d="M250 300 L650 240" stroke-width="3"/></g>'
+    + '<circle cx="900" cy="650" r="5" fill="#222"/><circle cx="500" cy="550" r="90" fill="#222"/>')
+
+  it('thickens every stroke of the decal to at least the asked width, and says so', async () => {
+    const source = new Uint8Array(await svgToPng(PENCIL))
+    const thin = await runPipeline({ source, settings: {}, widthMm: 120, purpose: 'revision' })
+    expect(thin.measurements.narrowestFeatureMm!).toBeLessThan(0.45)
+    const thick = await runPipeline({ source, settings: { thickenToMm: 0.8 }, widthMm: 120, purpose: 'revision' })
+    const m = thick.measurements
+    // the drawing keeps its width: the ink is trimmed again after thickening
+    expect(m.widthMm).toBeCloseTo(120, 6)
+    // Measured on what will be cut, the clean vector rasterised back: at least the asked width.
+    expect(m.narrowestFeatureMm!).toBeGreaterThanOrEqual(0.8)
+    // and at preview resolution too, where a pixel is a sixth of a millimetre
+    const preview = await runPipeline({ source, settings: { thickenToMm: 0.8 }, widthMm: 120, purpose: 'preview' })
+    expect(preview.measurements.narrowestFeatureMm!).toBeGreaterThanOrEqual(0.8)
+    expect(m.pieces).toBe(thin.measurements.pieces)
+    // the strokes are over 250 mm long in all, and at least 0.4 mm wider
+    expect(m.inkAreaMm2 - thin.measurements.inkAreaMm2).toBeGreaterThan(0.4 * 250)
+    expect(thick.choices.find((c) => c.setting === 'thickenToMm')).toMatchObject({ automatic: false, value: 0.8, reason: expect.stringMatching(/narrower than 0\.8 mm are thickened/) })
+    expect(thin.choices.find((c) => c.setting === 'thickenToMm')).toMatchObject({ value: null, reason: 'Strokes are kept as drawn.' })
+
+    // Reference: scikit-image's medial axis and SciPy's distance transform on the prepared
+    // bitmap (reference/narrowest.py, Debian python3-skimage): at least the asked width.
+    const prepared = await prepareDrawing(source, { thickenToMm: 0.8 }, 120)
+    const [ref] = referenceNarrowest([prepared])
+    expect(ref!.widthPx! / prepared.pxPerMm).toBeGreaterThanOrEqual(0.8)
   })
 })
 

@@ -32,6 +32,7 @@ describe('settings', () => {
       swapInkAndPaper: false,
       crop: null,
       marginMm: 0,
+      thickenToMm: null,
       speckFilterMm2: 0.5,
       cornerRounding: 1,
       curveTolerance: 0.2,
@@ -44,6 +45,8 @@ describe('settings', () => {
     expect(() => parseSettings({ corners: { mode: 'manual', points: [{ x: 0, y: 0 }] } })).toThrow()
     expect(() => parseSettings({ threshold: { mode: 'manual', value: 300 } })).toThrow()
     expect(() => parseSettings({ cornerRounding: 2 })).toThrow()
+    expect(() => parseSettings({ thickenToMm: 0 })).toThrow()
+    expect(parseSettings({ thickenToMm: 0.8 }).thickenToMm).toBe(0.8)
     expect(parseSettings({ cornerRounding: 4 / 3 }).cornerRounding).toBeCloseTo(1.3333, 4)
   })
 })
