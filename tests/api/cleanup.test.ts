@@ -191,7 +191,7 @@ describe('what cannot become a decal', () => {
     const tiny = await sharp({ create: { width: 5, height: 5, channels: 3, background: '#000000' } }).png().toBuffer()
     const small = await uploadArtwork(student, { file: tiny, title: 'Tiny', teamId: wrens, widthMm: 100 })
     expect(small.status).toBe(422)
-    expect(small.body.message).toMatch(/too small to hold a drawing/)
+    expect(small.body.message).toMatch(/at least 16 pixels on each side/)
     expect({ rows: await rowCounts(), keys: await allKeys() }).toEqual(before)
   })
 })

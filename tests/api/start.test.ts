@@ -67,6 +67,8 @@ describe('npm start', () => {
     const say = (what: string) => `${what}; npm start printed:\n${out}`
     try {
       await until(say('the app to answer'), async () => (await health(ports.app)) === 200, 120_000)
+      // The start is over once it prints its summary; a crash before that is a failed start, not a crash to recover from.
+      await until(say('the start to finish'), async () => out.includes('Press Ctrl-C'), 60_000)
       const app = descendants(child.pid!).find((p) => p.command.includes('server/index.mjs'))
       expect(app, out).toBeTruthy()
       process.kill(app!.pid, 'SIGKILL')
