@@ -8,6 +8,7 @@ import { buildApp } from './lib/build'
 import { startApp } from './lib/app-process'
 import { createDb, migrateToLatest } from '../server/db/connect'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, loadDemo } from '../server/db/demo'
+import { loadDemoSeason } from './lib/demo-season'
 
 const dev = process.argv.includes('--dev')
 const port = Number(process.env.PORT ?? 3000)
@@ -55,6 +56,17 @@ async function main() {
       buildApp()
       await superviseApp({ port, host, env, isStopping: () => stopping, onStop: (stop) => stops.push(stop) })
       url = `http://localhost:${port}`
+    }
+    // A newly loaded demo program gets a season in progress, made through the app itself.
+    if (demo && !dev && process.env.DECALWRIGHT_DEMO_SEASON !== '0') {
+      try {
+        await loadDemoSeason(`http://${host}:${port}`, (what, done, total) => {
+          console.log(done < total ? `Demo season     ${done + 1}/${total} ${what} …` : 'Demo season     loaded')
+        })
+      } catch (err) {
+        // The app is up and the program is usable; say what went wrong instead of stopping.
+        console.error(`The demo season stopped part way: ${err instanceof Error ? err.message : err}`)
+      }
     }
     console.log('')
     console.log(`Decalwright     ${url}${dev ? ' (development mode)' : ''}`)

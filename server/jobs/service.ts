@@ -104,7 +104,7 @@ function toView(r: JobRow, film: Film, stock: JobStock | null): JobView {
 }
 
 /** Every queued job's sheets against the shelf, in queue order. */
-async function stockForecast(db: Db, programId: number): Promise<Map<number, JobStock>> {
+export async function stockForecast(db: Db, programId: number): Promise<Map<number, JobStock>> {
   const rows = await queuedSheetInputs(db, programId)
   const onHand = new Map(rows.map((r) => [r.film_id, r.sheets_on_hand]))
   return forecastSheets(rows.map((r) => ({

@@ -163,3 +163,16 @@ export interface HistoryEntry {
   subjectId: string | null
   detail: Record<string, unknown>
 }
+
+/** What waits for a mentor on the Program page. */
+export interface ProgramWaiting {
+  /** Revisions submitted and not yet decided. */
+  toReview: number
+  jobsQueued: number
+  /** Queued jobs that cannot be cut as things stand, each with the reason in words. */
+  jobsBlocked: { jobId: number; title: string; robot: string; reason: string }[]
+  /** Usable films with few sheets left, or fewer than the queued jobs need. */
+  filmsLow: { filmId: number; name: string; onHand: number; needed: number }[]
+  /** Robots with no decal placed on them. */
+  robotsBare: { robotId: number; name: string; team: string }[]
+}

@@ -185,6 +185,7 @@ const ROUTES: Record<string, RouteRule> = {
   'GET /api/outbox': { guard: 'outbox.view', ask: () => ({ path: '/api/outbox' }) },
   'POST /api/people/[id]/sign-out-everywhere': { guard: 'people.manage', scope: 'program', ask: (w) => ({ path: `/api/people/${t().person[w]}/sign-out-everywhere` }) },
   'PATCH /api/program': { guard: 'program.manage', ask: () => ({ path: '/api/program', body: {} }) },
+  'GET /api/program/waiting': { guard: 'program.manage', ask: () => ({ path: '/api/program/waiting' }) },
   'GET /api/reviews': { guard: 'revision.review', ask: () => ({ path: '/api/reviews' }) },
 
   'POST /api/artworks': { scope: 'team.view', action: 'artwork.upload', ask: (w) => ({ path: '/api/artworks', upload: { teamId: t().team[w] } }) },

@@ -7,6 +7,8 @@ import path from 'node:path'
 import { rmSync } from 'node:fs'
 import { describe, expect, it } from 'vitest'
 import { sparePort } from '../support/extra-app'
+import { ApiClient } from '../support/client'
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/demo'
 
 function listening(port: number): Promise<boolean> {
   return new Promise((resolve) => {
@@ -68,7 +70,15 @@ describe('npm start', () => {
     try {
       await until(say('the app to answer'), async () => (await health(ports.app)) === 200, 120_000)
       // The start is over once it prints its summary; a crash before that is a failed start, not a crash to recover from.
-      await until(say('the start to finish'), async () => out.includes('Press Ctrl-C'), 60_000)
+      await until(say('the start to finish'), async () => out.includes('Press Ctrl-C'), 180_000)
+      // A first start loads a season in progress through the app itself: the mentor finds work waiting.
+      expect(out).toMatch(/Demo season\s+loaded/)
+      const mentor = new ApiClient(`http://127.0.0.1:${ports.app}`)
+      await mentor.signIn(DEMO_ACCOUNTS.mentor.email, DEMO_PASSWORD)
+      const waiting = (await mentor.get('/api/program/waiting')).body
+      expect(waiting).toMatchObject({ toReview: 2, jobsQueued: 2, robotsBare: [] })
+      const artworks = (await mentor.get('/api/artworks')).body.items as { status: string }[]
+      expect(new Set(artworks.map((a) => a.status))).toEqual(new Set(['draft', 'in-review', 'sent-back', 'approved']))
       const app = descendants(child.pid!).find((p) => p.command.includes('server/index.mjs'))
       expect(app, out).toBeTruthy()
       process.kill(app!.pid, 'SIGKILL')
@@ -81,8 +91,10 @@ describe('npm start', () => {
       child.kill('SIGTERM')
       await until(say('npm start to end'), () => exited, 60_000)
       for (const [name, port] of Object.entries(ports)) expect(await listening(port), `${name} on ${port}`).toBe(false)
-      const alive = stack.filter((p) => { try { process.kill(p.pid, 0); return true } catch { return false } })
-      expect(alive, 'processes left running').toEqual([])
+      // Helpers of the TypeScript runner end when their parent's pipe closes, a moment after it.
+      const alive = () => stack.filter((p) => { try { process.kill(p.pid, 0); return true } catch { return false } })
+      await until('every process of the stack to end', () => alive().length === 0, 10_000).catch(() => undefined)
+      expect(alive(), 'processes left running').toEqual([])
     } finally {
       if (!exited) {
         for (const p of descendants(child.pid!)) try { process.kill(p.pid, 'SIGKILL') } catch { /* gone */ }
@@ -90,5 +102,5 @@ describe('npm start', () => {
       }
       rmSync(storage, { recursive: true, force: true })
     }
-  }, 240_000)
+  }, 400_000)
 })
