@@ -238,7 +238,8 @@ describe('from a phone photo to revisions, in the browser', () => {
     else expect((await page.locator('[data-test="artworks-table"] tbody tr').allInnerTexts()).filter((row) => !row.includes('Tidewater Sprockets'))).toEqual([])
     await teamSelect.selectOption({ label: 'Copper Wrens' })
     await expect.poll(() => page.locator('[data-test="artworks-table"]').count()).toBe(1)
-    expect(await text(page, 'artworks-table')).toContain(title)
+    await expect.poll(() => text(page, 'artworks-table')).toContain(title)
+    expect((await page.locator('[data-test="artworks-table"] tbody tr').allInnerTexts()).filter((row) => !row.includes('Copper Wrens'))).toEqual([])
     await page.close()
   })
 
