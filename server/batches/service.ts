@@ -28,7 +28,7 @@ export async function listBatches(db: Db, actor: Actor): Promise<BatchList> {
 }
 
 /** Why these jobs cannot be cut together, or null. */
-function refusal(ids: number[], rows: JobRow[]): { status: number, message: string } | null {
+function refusal(ids: number[], rows: JobRow[]): { status: number; message: string } | null {
   const found = new Set(rows.map((r) => r.job_id))
   const missing = ids.filter((id) => !found.has(id))
   if (missing.length) return { status: 404, message: `No such job: ${missing.join(', ')}.` }

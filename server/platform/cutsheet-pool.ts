@@ -21,7 +21,7 @@ function useCutSheetPool(): Piscina {
   return pool
 }
 
-type BatchAnswer = Extract<CutSheetAnswer, { kind: 'batch', ok: true }>['result']
+type BatchAnswer = Extract<CutSheetAnswer, { kind: 'batch'; ok: true }>['result']
 
 /** Builds a batch's sheets in a worker thread; input it cannot make a sheet of becomes a 422. */
 export async function buildSheetsInPool(input: Extract<CutSheetRequest, { kind: 'batch' }>['input']): Promise<BatchAnswer> {
