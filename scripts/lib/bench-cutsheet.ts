@@ -16,7 +16,7 @@ import { buildCutSheetWorker } from './pipeline-worker-build'
 const COPIES = 200
 const TARGET_MS = 300
 
-function median(xs: number[]): number {
+export function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b)
   return s.length % 2 ? s[(s.length - 1) / 2]! : (s[s.length / 2 - 1]! + s[s.length / 2]!) / 2
 }

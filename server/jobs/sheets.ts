@@ -122,8 +122,8 @@ async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string): Pro
 
 /** Sheet `n` (from 1) in `format`, from the store when it was built before. */
 export async function sheetFile(jobs: SheetJob[], o: SheetOptions, format: 'svg' | 'dxf', n: number): Promise<SheetFile> {
-  const layout = sheetLayout(jobs, o)
-  if (!layout.fits) throw createError({ statusCode: 422, message: `${layout.reason ?? 'The copies do not fit on the sheet.'} Change the gap, margin or frame, or ask for the decal smaller.` })
+  // Nothing is packed on the request thread: a kept sheet is read back, and a new one is packed
+  // in the worker, which answers copies that do not fit with the reason (a 422).
   const key = sheetKey(jobs, o)
   let sheets = await storedCount(key)
   const fromStore = sheets !== null

@@ -66,9 +66,9 @@ async function file(c: ApiClient, path: string) {
 }
 
 /** A queued job of `quantity` copies at `widthMm` of a revision on a robot of team `team`, in `filmId`. */
-async function queued(p: ProgramFixture, revisionId: number, widthMm: number, quantity: number, filmId = p.films.pet, team = 0) {
+async function queued(p: ProgramFixture, revisionId: number, widthMm: number, quantity: number, filmId = p.films.pet) {
   const db = testDb()
-  const robot = await addRobot(db, p.teams[team].id)
+  const robot = await addRobot(db, p.teams[0].id)
   const placement = await db.insertInto('placement').values({ robot_id: robot, revision_id: revisionId, film_id: filmId, spot: 'side', width_mm: widthMm, quantity, created_by: p.mentor })
     .returning('id').executeTakeFirstOrThrow()
   return (await db.insertInto('job').values({ placement_id: placement.id, kind: 'initial', quantity, film_id: filmId, width_mm: widthMm, created_by: p.mentor })
