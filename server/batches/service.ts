@@ -64,14 +64,14 @@ export async function createBatch(db: Db, actor: Actor, ids: number[]): Promise<
 /** The batch's page: its jobs, the shared sheets, the film and the time it takes. */
 export async function batchDetail(db: Db, actor: Actor, b: BatchRow, o: SheetOptions = DEFAULT_SHEET): Promise<BatchDetail> {
   const rows = await jobsOfBatch(db, actor, b.id)
-  const [jobs, film] = await Promise.all([jobViews(db, actor, rows), filmOfProgram(db, actor.programId, b.film_id)])
+  const [jobs, film, layout] = await Promise.all([jobViews(db, actor, rows), filmOfProgram(db, actor.programId, b.film_id), rows.length ? sheetLayout(rows, o) : null])
   const empty = { cutLengthMm: 0, estimate: { seconds: 0, text: 'no time', how: 'The batch has no jobs.' } }
   const noLayout = { fits: false, reason: 'The batch has no jobs.', method: 'packer' as const, sheets: 0, perSheet: 0, turned: false, usagePercent: 0, kerfMm: 0, copies: [] }
   const { cutLengthMm, estimate } = rows.length ? cutEstimate(rows) : empty
   return {
     id: b.id, state: b.state, createdAt: iso(b.created_at)!, createdBy: b.creator_name, cutAt: iso(b.cut_at), cutBy: b.cutter_name, sheetsUsed: b.sheets_used,
     film: toFilm(film!), jobs, copies: rows.reduce((n, r) => n + r.job_quantity, 0),
-    layout: rows.length ? sheetLayout(rows, o) : noLayout,
+    layout: layout ?? noLayout,
     cutLengthMm, estimate,
     can: flags(actor, ['queue.work']),
   }
@@ -83,7 +83,7 @@ export async function cutBatch(db: Db, actor: Actor, b: BatchRow, input: z.outpu
   const rows = await jobsOfBatch(db, actor, b.id)
   if (rows.length === 0) throw createError({ statusCode: 409, message: 'This batch has no jobs left to cut.' })
   if (rows.some((r) => !r.film_cleared)) throw createError({ statusCode: 422, message: 'This film may not be cut. See the film\'s page.' })
-  const sheets = input.sheetsUsed ?? defaultSheetCount(rows)
+  const sheets = input.sheetsUsed ?? await defaultSheetCount(rows)
   await inTransaction(db, async (trx) => {
     const now = new Date()
     const done = await trx.updateTable('batch').set({ state: 'cut', cut_by: actor.id, cut_at: now, sheets_used: sheets })

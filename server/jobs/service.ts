@@ -149,14 +149,15 @@ export function cutEstimate(rows: JobRow[]) {
 /** The job's page. The caller has found the job in the actor's scope. */
 export async function jobDetail(db: Db, actor: Actor, r: JobRow, o: SheetOptions = DEFAULT_SHEET): Promise<JobDetail> {
   const { cutLengthMm, estimate } = cutEstimate([r])
-  const [history, film, stock] = await Promise.all([
+  const [layout, history, film, stock] = await Promise.all([
+    sheetLayout([r], o),
     historyOf(db, actor, { jobId: r.job_id }),
     filmOfProgram(db, actor.programId, r.film_id),
     r.state === 'queued' ? stockForecast(db, actor.programId) : Promise.resolve(new Map<number, JobStock>()),
   ])
   return {
     ...toView(r, toFilm(film!), stock.get(r.job_id) ?? null),
-    layout: sheetLayout([r], o),
+    layout,
     // Per copy: the page multiplies by the quantity.
     cutLengthMm: cutLengthMm / r.job_quantity, pieces: r.measurements.pieces,
     estimate,
@@ -192,10 +193,12 @@ export async function moveJob(db: Db, actor: Actor, r: JobRow, input: z.output<t
   if ((to === 'cut' && from !== 'queued') || (to === 'applied' && from !== 'cut')) {
     throw createError({ statusCode: 409, message: to === 'cut' ? `This job is ${from} already.` : 'A job is applied after it is cut.' })
   }
+  // Laid out before the transaction: the pool's answer never holds a connection.
+  const cutSheets = to === 'cut' ? input.sheetsUsed ?? await defaultSheetCount([r]) : 0
   const moved = await inTransaction(db, async (trx) => {
     if (to === 'cut') {
       if (!r.film_cleared) throw createError({ statusCode: 422, message: 'This film may not be cut. See the film\'s page.' })
-      const sheets = input.sheetsUsed ?? defaultSheetCount([r])
+      const sheets = cutSheets
       await advance(trx, r, from, { state: 'cut', cut_by: actor.id, cut_at: new Date(), sheets_used: sheets })
       await takeSheets(trx, actor, { filmId: r.film_id, sheets, jobId: r.job_id, kind: 'cut' })
       await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity) })).where('id', '=', r.placement_id).execute()
@@ -248,10 +251,11 @@ export async function failJob(db: Db, actor: Actor, r: JobRow, input: z.output<t
   if (r.state === 'queued') inNoBatch(r)
   const spoilt = input.copies ?? r.job_quantity
   if (spoilt > r.job_quantity) throw fieldError(400, `This job cuts ${r.job_quantity}: at most that many can be spoilt.`, 'copies')
+  const queuedSheets = r.state === 'queued' ? input.sheetsUsed ?? await defaultSheetCount([r]) : 0
   const after = await inTransaction(db, async (trx) => {
     const now = new Date()
     if (r.state === 'queued') {
-      const sheets = input.sheetsUsed ?? defaultSheetCount([r])
+      const sheets = queuedSheets
       await advance(trx, r, 'queued', { state: 'failed', cut_by: actor.id, cut_at: now, sheets_used: sheets, failed_by: actor.id, failed_at: now, failure: input.failure, failure_note: input.note })
       await takeSheets(trx, actor, { filmId: r.film_id, sheets, jobId: r.job_id, kind: 'failed-cut' })
       if (r.job_quantity > spoilt) await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity - spoilt) })).where('id', '=', r.placement_id).execute()

@@ -10,10 +10,10 @@ import type { JobLayout } from '#shared/types/robots'
 import { DEFAULT_KERF_MM } from '#shared/films/library'
 import type { cutSheetQuerySchema } from '#shared/utils/schemas'
 import { CUT_SHEET_LIMITS, WEEDING_LINE_LIMITS } from '#shared/constants/cut-sheet'
-import { packBatch, type PackInput } from '../cutsheet/pack'
+import type { PackInput } from '../cutsheet/pack'
 import { readCleanVector, type CutCurve } from '../cutsheet/path'
 import type { BatchDesign, BatchSheetInput } from '../cutsheet/sheet'
-import { buildSheetsInPool } from '../platform/cutsheet-pool'
+import { buildSheetsInPool, packInPool } from '../platform/cutsheet-pool'
 import { getObject, objectExists, putObject } from '../platform/object-store'
 
 /** Bump when the files change for the same input, so kept sheets are built again. */
@@ -61,9 +61,9 @@ function sheetInput(jobs: SheetJob[], o: SheetOptions): Omit<BatchSheetInput, 'd
   }
 }
 
-/** How the copies go on the sheets (boxes only: quick, on the request thread). */
-export function sheetLayout(jobs: SheetJob[], o: SheetOptions): JobLayout {
-  const p = packBatch(sheetInput(jobs, o))
+/** How the copies go on the sheets (boxes only, in the pool: hundreds of copies take tens of milliseconds). */
+export async function sheetLayout(jobs: SheetJob[], o: SheetOptions): Promise<JobLayout> {
+  const p = await packInPool(sheetInput(jobs, o))
   return {
     fits: p.fits, reason: p.reason, method: p.method, sheets: p.sheets, usagePercent: p.usagePercent,
     perSheet: p.perSheet[0]?.copies ?? 0, turned: p.copies.some((c) => c.turned), kerfMm: kerfFor(jobs, o),
@@ -72,8 +72,8 @@ export function sheetLayout(jobs: SheetJob[], o: SheetOptions): JobLayout {
 }
 
 /** Sheets a cut uses unless the operator says otherwise: the default options' count. */
-export function defaultSheetCount(jobs: SheetJob[]): number {
-  return sheetLayout(jobs, DEFAULT_SHEET).sheets
+export async function defaultSheetCount(jobs: SheetJob[]): Promise<number> {
+  return (await sheetLayout(jobs, DEFAULT_SHEET)).sheets
 }
 
 /** The content key: the same jobs' drawings, sizes, counts and sheet with the same options give the same files. */

@@ -21,18 +21,28 @@ function useCutSheetPool(): Piscina {
   return pool
 }
 
-type BatchAnswer = Extract<CutSheetAnswer, { kind: 'batch'; ok: true }>['result']
+type Answer<K extends CutSheetRequest['kind']> = Extract<CutSheetAnswer, { kind: K; ok: true }>['result']
 
-/** Builds a batch's sheets in a worker thread; input it cannot make a sheet of becomes a 422. */
-export async function buildSheetsInPool(input: Extract<CutSheetRequest, { kind: 'batch' }>['input']): Promise<BatchAnswer> {
+/** Runs one request in a worker thread; input it cannot make a sheet of becomes a 422. */
+async function inPool<R extends CutSheetRequest>(req: R): Promise<Answer<R['kind']>> {
   let answer: CutSheetAnswer
   try {
-    answer = await useCutSheetPool().run({ kind: 'batch', input } satisfies CutSheetRequest)
+    answer = await useCutSheetPool().run(req)
   } catch (err) {
     if ((err as Error).message?.includes('Task queue is at limit')) throw createError({ statusCode: 503, message: 'The cut sheet workers are busy. Try again in a moment.' })
     throw err
   }
-  if (answer.ok && answer.kind === 'batch') return answer.result
+  if (answer.ok && answer.kind === req.kind) return answer.result as Answer<R['kind']>
   if (!answer.ok && answer.kind === 'settings') throw createError({ statusCode: 422, message: answer.message })
   throw new Error(`cut sheet failed: ${answer.ok ? 'unexpected answer' : answer.message}`)
+}
+
+/** Builds a batch's sheets, SVG and DXF as bytes. */
+export function buildSheetsInPool(input: Extract<CutSheetRequest, { kind: 'batch' }>['input']) {
+  return inPool({ kind: 'batch', input })
+}
+
+/** Where the copies go, without the files. */
+export function packInPool(input: Extract<CutSheetRequest, { kind: 'pack' }>['input']) {
+  return inPool({ kind: 'pack', input })
 }

@@ -66,9 +66,9 @@ describe('the operator\'s sheet', () => {
     await page.waitForURL((u) => u.pathname.startsWith('/lab/batches/'))
     await page.waitForLoadState('networkidle')
     const batchId = Number(page.url().split('/').pop())
-    for (const id of jobs) await expect(page.locator(`[data-test="batch-job-${id}"]`).count()).resolves.toBe(1)
-    await expect(page.locator('[data-test="batch-kerf"]').textContent()).resolves.toContain('0.15')
     await screenshot(page, 'batch-page')
+    for (const id of jobs) await page.locator(`[data-test="batch-job-${id}"]`).waitFor()
+    await expect(page.locator('[data-test="batch-kerf"]').textContent()).resolves.toContain('0.15')
 
     for (const format of ['A4', 'Letter'] as const) {
       const { pages, text } = await printed(page, 'batch-sheet', format)
