@@ -69,6 +69,9 @@ describe('the operator\'s sheet', () => {
     await screenshot(page, 'batch-page')
     for (const id of jobs) await page.locator(`[data-test="batch-job-${id}"]`).waitFor()
     await expect(page.locator('[data-test="batch-kerf"]').textContent()).resolves.toContain('0.15')
+    // The shared sheet's picture, built in the pool and kept.
+    const image = page.locator('[data-test="cut-sheet-image"]')
+    await expect.poll(() => image.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth), { timeout: 20_000 }).toBeGreaterThan(0)
 
     for (const format of ['A4', 'Letter'] as const) {
       const { pages, text } = await printed(page, 'batch-sheet', format)

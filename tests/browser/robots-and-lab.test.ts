@@ -178,7 +178,8 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     await page.waitForURL((u) => u.pathname === `/lab/jobs/${jobId}`)
     await page.waitForLoadState('networkidle')
     const image = byTest(page, 'cut-sheet-image')
-    await expect.poll(() => image.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBeGreaterThan(0)
+    // The first sheet is built in a worker thread and kept: allow for the thread's start on a busy machine.
+    await expect.poll(() => image.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth), { timeout: 20_000 }).toBeGreaterThan(0)
     expect(await byTest(page, 'job-state').innerText()).toMatch(/Queued/)
     // 3 copies of 50 × 37.9 mm fit on one 300 × 200 mm sheet; the film's laser settings and the estimate are shown.
     expect(await byTest(page, 'usage').innerText()).toMatch(/Film usage \d+\.\d % of 1 sheet/)
