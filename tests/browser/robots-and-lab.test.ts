@@ -201,9 +201,9 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     // The film sheet is the page, in millimetres.
     expect(svg).toMatch(/^<svg[^>]*\swidth="300mm"/)
     expect(svg).toMatch(/^<svg[^>]*\sheight="200mm"/)
-    // Three copies, each with its weeding frame.
-    expect(svg.match(/id="dw-copy-\d+"/g)).toHaveLength(3)
-    expect(svg.match(/id="dw-frame-\d+"/g)).toHaveLength(3)
+    // Three copies, each named by its job and number and with its weeding frame.
+    expect(svg.match(/id="dw-copy-[\d-]+"/g)).toEqual([1, 2, 3].map((n) => `id="dw-copy-${jobId}-${n}"`))
+    expect(svg.match(/id="dw-frame-[\d-]+"/g)).toHaveLength(3)
 
     // Cut: the layout's one sheet comes off the shelf; applied: two of the three go on the robot, one is a spare.
     expect(await byTest(page, 'job-film-verdict').innerText()).toMatch(/Allowed[\s\S]*Polyester/)
