@@ -1,5 +1,5 @@
 import { fileURLToPath } from 'node:url'
-import { buildPipelineWorker } from './scripts/lib/pipeline-worker-build'
+import { buildWorkers } from './scripts/lib/pipeline-worker-build'
 
 // Nuxt configuration. Every endpoint comes from NUXT_* variables at run time
 // (runtimeConfig), so one build serves development, tests and production.
@@ -111,8 +111,8 @@ export default defineNuxtConfig({
       ],
     },
     hooks: {
-      // The pipeline runs in worker threads, which need a file of their own next to the server.
-      compiled: (nitro) => buildPipelineWorker(nitro.options.dev ? nitro.options.buildDir : nitro.options.output.serverDir),
+      // The pipeline and the cut sheets run in worker threads, which need files of their own next to the server.
+      compiled: (nitro) => buildWorkers(nitro.options.dev ? nitro.options.buildDir : nitro.options.output.serverDir),
     },
   },
   hooks: {

@@ -16,6 +16,7 @@ import { buildPipelineWorker, PIPELINE_WORKER_FILE } from './lib/pipeline-worker
 import type { WorkerAnswer } from '../server/pipeline/worker'
 import { benchBrowserRoundTrip } from './lib/bench-browser'
 import { benchCutSheets } from './lib/bench-cutsheet'
+import { benchSheets } from './lib/bench-sheets'
 import { benchPlates } from './lib/bench-plates'
 import { benchGeometry } from './lib/bench-geometry'
 import { benchColour } from './lib/bench-colour'
@@ -171,6 +172,7 @@ async function main() {
   await pool.destroy()
 
   await benchCutSheets(RUNS)
+  await benchSheets(RUNS)
   await benchPlates(RUNS)
   await benchColour(RUNS)
   await benchCleanup(RUNS)

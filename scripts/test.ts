@@ -13,6 +13,7 @@ try {
     { pkg: 'python3-shapely', present: () => existsSync('/usr/lib/python3/dist-packages/shapely'), why: 'the independent geometry library the cut sheets are measured with' },
     { pkg: 'python3-ezdxf', present: () => existsSync('/usr/lib/python3/dist-packages/ezdxf'), why: 'the independent DXF reader and auditor the cut sheets are checked with' },
     { pkg: 'python3-fonttools', present: () => existsSync('/usr/lib/python3/dist-packages/fontTools'), why: 'the second font library the plate font is checked against' },
+    { pkg: 'poppler-utils', present: () => existsSync('/usr/bin/pdfinfo') && existsSync('/usr/bin/pdftotext'), why: 'the PDF reader the printed job sheet is checked with' },
     { pkg: 'python3-skimage', present: () => existsSync('/usr/lib/python3/dist-packages/skimage'), why: 'the image library the narrowest stroke (skeleton, distance transform), colour conversion, adaptive threshold and straightening are checked against' },
   ])
 } catch (err) {

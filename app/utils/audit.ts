@@ -134,6 +134,10 @@ function known(e: AuditEntry, d: Detail, ctx: AuditContext): string {
       return `cancelled job ${e.subjectId} (“${text(d, 'title') ?? ''}”): ${text(d, 'reason') ?? ''}`
     case 'fail-job':
       return `recorded that job ${e.subjectId} (“${text(d, 'title') ?? ''}”) failed: ${text(d, 'failure') ?? 'failed'}${text(d, 'note') ? `, ${text(d, 'note')}` : ''}; recut as job ${text(d, 'recutJobId') ?? '?'}`
+    case 'join-batch':
+      return `put job ${e.subjectId} (“${text(d, 'title') ?? ''}”) in batch ${text(d, 'batchId') ?? '?'}`
+    case 'leave-batch':
+      return `took job ${e.subjectId} (“${text(d, 'title') ?? ''}”) out of batch ${text(d, 'batchId') ?? '?'}`
     case 'edit-placement': {
       const changes = d.changes && typeof d.changes === 'object' ? Object.entries(d.changes as Record<string, { from?: unknown; to?: unknown }>) : []
       const words = changes.map(([k, c]) => `${PLACEMENT_FIELDS[k] ?? k} ${String(c?.from)} → ${String(c?.to)}`)

@@ -4,20 +4,19 @@
 // floor measured in the same run (copying the finished files' bytes once), so a busy machine
 // shows as a slower floor too.
 import path from 'node:path'
-import { fileURLToPath } from 'node:url'
 import { monitorEventLoopDelay, performance } from 'node:perf_hooks'
-import { build } from 'esbuild'
 import Piscina from 'piscina'
 import type { CutCurve, Point, Segment } from '../../server/cutsheet/path'
 import { writeSheetDxfBytes } from '../../server/cutsheet/dxf'
 import { buildCutSheets, planCutSheets, type BatchSheetInput } from '../../server/cutsheet/sheet'
 import { writeSheetSvg } from '../../server/cutsheet/svg'
 import type { CutSheetAnswer, CutSheetRequest } from '../../server/cutsheet/worker'
+import { buildCutSheetWorker } from './pipeline-worker-build'
 
 const COPIES = 200
 const TARGET_MS = 300
 
-function median(xs: number[]): number {
+export function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b)
   return s.length % 2 ? s[(s.length - 1) / 2]! : (s[s.length / 2 - 1]! + s[s.length / 2]!) / 2
 }
@@ -64,19 +63,6 @@ export function detailedDrawing(): { curves: CutCurve[]; widthMm: number; height
   return { curves, widthMm: W, heightMm: H, nodes: curves.reduce((n, c) => n + c.segments.length, 0) }
 }
 
-async function buildWorker(outDir: string): Promise<string> {
-  const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..')
-  const file = path.join(outDir, 'cutsheet-worker.mjs')
-  await build({
-    entryPoints: [path.join(root, 'server/cutsheet/worker.ts')],
-    outfile: file, bundle: true, platform: 'node', format: 'esm', target: 'node20', logLevel: 'warning',
-    // piscina must stay the one the worker thread runs in: move() marks answers with a symbol
-    // private to that copy of the package.
-    external: ['piscina'],
-  })
-  return file
-}
-
 export async function benchCutSheets(runs: number): Promise<void> {
   const drawing = detailedDrawing()
   const base: BatchSheetInput = {
@@ -92,7 +78,7 @@ export async function benchCutSheets(runs: number): Promise<void> {
   // First, in a worker thread as the server should run it (before this thread has garbage of
   // its own to collect): the event loop's longest pause meanwhile.
   const dir = path.resolve('node_modules/.cache/decalwright-bench')
-  const pool = new Piscina({ filename: await buildWorker(dir), maxThreads: 1, minThreads: 1 })
+  const pool = new Piscina({ filename: await buildCutSheetWorker(dir), maxThreads: 1, minThreads: 1 })
   const request: CutSheetRequest = { kind: 'batch', input: cases[1]![1] }
   await pool.run(request) // warm the thread
   // Floor: the same measurement while this process does nothing, for as long as the runs take

@@ -1,21 +1,32 @@
-// Bundles server/pipeline/worker.ts into one file that piscina loads in each worker thread.
-// sharp (native), potrace and svgo stay external and resolve from the server's node_modules.
+// Bundles the worker threads' entries into one file each, which piscina loads in each thread:
+// server/pipeline/worker.ts (sharp, native, with potrace and svgo, stays external and resolves
+// from the server's node_modules) and server/cutsheet/worker.ts (piscina stays external: move()
+// marks answers with a symbol private to the copy of piscina that runs the thread).
 import path from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { build } from 'esbuild'
 
 export const PIPELINE_WORKER_FILE = 'pipeline-worker.mjs'
+export const CUTSHEET_WORKER_FILE = 'cutsheet-worker.mjs'
+
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..')
+
+function bundle(entry: string, outfile: string, external: string[]) {
+  return build({ entryPoints: [path.join(root, entry)], outfile, bundle: true, platform: 'node', format: 'esm', target: 'node20', external, logLevel: 'warning' })
+}
 
 export async function buildPipelineWorker(outDir: string): Promise<void> {
-  const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..')
-  await build({
-    entryPoints: [path.join(root, 'server/pipeline/worker.ts')],
-    outfile: path.join(outDir, PIPELINE_WORKER_FILE),
-    bundle: true,
-    platform: 'node',
-    format: 'esm',
-    target: 'node20',
-    external: ['sharp', 'potrace', 'svgo'],
-    logLevel: 'warning',
-  })
+  await bundle('server/pipeline/worker.ts', path.join(outDir, PIPELINE_WORKER_FILE), ['sharp', 'potrace', 'svgo'])
+}
+
+/** The cut sheets' worker; returns its path. */
+export async function buildCutSheetWorker(outDir: string): Promise<string> {
+  const file = path.join(outDir, CUTSHEET_WORKER_FILE)
+  await bundle('server/cutsheet/worker.ts', file, ['piscina'])
+  return file
+}
+
+/** Both workers, next to the server (the Nitro `compiled` hook). */
+export async function buildWorkers(outDir: string): Promise<void> {
+  await Promise.all([buildPipelineWorker(outDir), buildCutSheetWorker(outDir)])
 }

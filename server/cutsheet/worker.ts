@@ -5,6 +5,7 @@
 // answer with a symbol private to the copy of piscina that runs the thread.
 import { move, transferableSymbol, valueSymbol } from 'piscina'
 import { writeSheetDxfBytes } from './dxf'
+import { packBatch, type PackInput, type PackResult } from './pack'
 import { planCutSheets, type BatchSheetInput, type BatchSheets, type BuiltSheet } from './sheet'
 import { writeSheetSvg } from './svg'
 import { testGrid, type TestGrid, type TestGridInput } from './test-grid'
@@ -12,12 +13,15 @@ import { testGrid, type TestGrid, type TestGridInput } from './test-grid'
 export type CutSheetRequest =
   | { kind: 'batch', input: BatchSheetInput }
   | { kind: 'test-grid', input: TestGridInput }
+  /** Only where the copies go (the job and batch pages): a few hundred copies take tens of milliseconds. */
+  | { kind: 'pack', input: PackInput }
 
 export type SheetBytes = Omit<BuiltSheet, 'svg' | 'dxf'> & { svg?: Uint8Array, dxf?: Uint8Array }
 
 export type CutSheetAnswer =
   | { ok: true, kind: 'batch', result: Omit<BatchSheets, 'sheets'> & { sheets: SheetBytes[] } }
   | { ok: true, kind: 'test-grid', result: Omit<TestGrid, 'svg' | 'dxf'> & { svg: Uint8Array, dxf: Uint8Array } }
+  | { ok: true, kind: 'pack', result: PackResult }
   | { ok: false, kind: 'settings' | 'internal', message: string }
 
 const utf8 = new TextEncoder()
@@ -38,6 +42,7 @@ export function runCutSheetRequest(req: CutSheetRequest): { answer: CutSheetAnsw
       const g = testGrid(req.input)
       return { answer: { ok: true, kind: 'test-grid', result: { ...g, svg: keep(utf8.encode(g.svg)), dxf: keep(utf8.encode(g.dxf)) } }, bytes }
     }
+    if (req.kind === 'pack') return { answer: { ok: true, kind: 'pack', result: packBatch(req.input) }, bytes }
     const formats = { svg: req.input.formats?.svg ?? true, dxf: req.input.formats?.dxf ?? true }
     const out = planCutSheets(req.input)
     // The DXF is written straight to bytes (ASCII), never as one huge string.

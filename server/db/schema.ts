@@ -289,6 +289,23 @@ export interface JobTable {
   failure: CutFailure | null
   failure_note: string | null
   recut_of: number | null
+  /** The batch it is cut in (migration 0010), while queued in one or once cut in it. */
+  batch_id: ColumnType<number | null, number | null | undefined, number | null>
+}
+
+export type BatchState = 'queued' | 'cut'
+
+/** Queued jobs in one film of one program, cut together on shared sheets. */
+export interface BatchTable {
+  id: Generated<number>
+  program_id: number
+  film_id: number
+  state: Generated<BatchState>
+  created_by: number
+  created_at: CreatedAt
+  cut_by: number | null
+  cut_at: Timestamp | null
+  sheets_used: number | null
 }
 
 export interface MailOutboxTable {
@@ -369,6 +386,7 @@ export interface Database {
   robot: RobotTable
   placement: PlacementTable
   job: JobTable
+  batch: BatchTable
   mail_outbox: MailOutboxTable
   user_session: UserSessionTable
   rate_count: RateCountTable

@@ -25,14 +25,14 @@ function visibleJobs(db: Db, actor: Actor) {
     .select((eb) => [
       'job.id as job_id', 'job.kind', 'job.quantity as job_quantity', 'job.reason', 'job.state', 'job.created_at as job_created_at', 'job.cut_at', 'job.applied_at',
       'job.width_mm as job_width', 'job.sheets_used', 'job.applied_count', 'job.cancelled_at', 'job.cancel_reason', 'job.failed_at', 'job.failure', 'job.failure_note',
-      'job.recut_of', 'job.film_id',
+      'job.recut_of', 'job.film_id', 'job.batch_id',
       'creator.name as creator_name', 'cutter.name as cutter_name', 'applier.name as applier_name', 'canceller.name as canceller_name', 'failer.name as failer_name',
       'placement.id as placement_id', 'placement.spot', 'placement.quantity as placement_quantity', 'placement.spares_on_hand', 'placement.removed_at',
       'robot.id as robot_id', 'robot.name as robot_name', 'robot.season',
       'team.id as teamId', 'team.program_id as programId', 'team.name as team_name', 'team.colour as team_colour',
       'revision.id as revision_id', 'revision.number as revision_number', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
       'revision.vector_key', 'revision.measurements', 'artwork.id as artwork_id', 'artwork.title',
-      'film.sheet_width_mm', 'film.sheet_height_mm', 'film.laser_speed_mm_s', 'film.laser_passes', 'film.cleared as film_cleared',
+      'film.sheet_width_mm', 'film.sheet_height_mm', 'film.laser_speed_mm_s', 'film.laser_passes', 'film.cleared as film_cleared', 'film.kerf_mm as film_kerf',
       eb.selectFrom('job as recut').select('recut.id').whereRef('recut.recut_of', '=', 'job.id').orderBy('recut.id').limit(1).as('recut_by'),
     ])
 }
@@ -41,6 +41,17 @@ export type JobRow = Awaited<ReturnType<ReturnType<typeof visibleJobs>['executeT
 
 export function findJob(db: Db, actor: Actor, id: number): Promise<JobRow | undefined> {
   return visibleJobs(db, actor).where('job.id', '=', id).executeTakeFirst()
+}
+
+/** The jobs with these ids that the actor may see, in id order (fewer when some are not). */
+export function findJobs(db: Db, actor: Actor, ids: number[]): Promise<JobRow[]> {
+  if (ids.length === 0) return Promise.resolve([])
+  return visibleJobs(db, actor).where('job.id', 'in', ids).orderBy('job.id').execute()
+}
+
+/** A batch's jobs, in id order. */
+export function jobsOfBatch(db: Db, actor: Actor, batchId: number): Promise<JobRow[]> {
+  return visibleJobs(db, actor).where('job.batch_id', '=', batchId).orderBy('job.id').execute()
 }
 
 // The queue's order: queued jobs first, oldest first (first asked, first cut); then the rest,

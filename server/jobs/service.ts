@@ -9,28 +9,20 @@ import type { Film } from '#shared/types/films'
 import type { JobDetail, JobKind, JobStock, JobView } from '#shared/types/robots'
 import { CUT_FAILURE_LABELS } from '#shared/types/robots'
 import type { jobFailureSchema, jobStateSchema } from '#shared/utils/schemas'
-import { CUT_SHEET_LIMITS } from '#shared/constants/cut-sheet'
 import { estimateCutSeconds, formatDuration, MOVE_ALLOWANCE_S } from '#shared/utils/cut-time'
-import { layoutSheets } from '#shared/utils/sheet-layout'
 import { forecastSheets } from '#shared/films/stock'
-import { readCleanVector, type CutCurve } from '../cutsheet/path'
-import { cutSheetSvg } from '../cutsheet/svg'
-import { cutSheetDxf } from '../cutsheet/dxf'
 import { decodeCursor, pageOf } from '../platform/cursor'
 import { inTransaction, type Db } from '../platform/db'
 import { absoluteUrl, queueMail } from '../platform/mail'
 import { fileSlug } from '../platform/file-names'
 import { fieldError } from '../platform/http'
-import { getObject } from '../platform/object-store'
 import { flags, type Actor } from '../policy'
 import { audit, by, historyOf } from '../history/service'
 import { newJobMail } from '../mail/templates'
 import { notUsableBecause, takeSheets, toFilm } from '../films/service'
 import { filmOfProgram, filmsOfProgram } from '../films/queries'
+import { DEFAULT_SHEET, defaultSheetCount, sheetFile, sheetLayout, type SheetFile, type SheetOptions } from './sheets'
 import { findJob, jobPage, operatorEmails, queuedSheetInputs, type JobFilter, type JobRow } from './queries'
-
-export interface SheetOptions { mirror: boolean; frame: number; gap: number; margin: number }
-export const DEFAULT_SHEET: SheetOptions = { mirror: false, frame: CUT_SHEET_LIMITS.frame.default, gap: CUT_SHEET_LIMITS.gap.default, margin: CUT_SHEET_LIMITS.margin.default }
 
 export interface NewJob {
   placementId: number
@@ -100,6 +92,7 @@ function toView(r: JobRow, film: Film, stock: JobStock | null): JobView {
     revision: { id: r.revision_id, number: r.revision_number, artworkId: r.artwork_id, title: r.title, vectorUrl: `/api/revisions/${r.revision_id}/vector.svg` },
     film,
     stock,
+    batchId: r.batch_id,
   }
 }
 
@@ -126,54 +119,48 @@ export async function listJobs(db: Db, actor: Actor, o: JobFilter & { cursor?: s
   return pageOf(rows, o.limit, (r) => toView(r, byId.get(r.film_id)!, stock.get(r.job_id) ?? null), (r) => ({ rank: r.order_rank, key: r.order_key }))
 }
 
-/** The placed copy's curves at the job's width (the revision's vector scaled). */
-async function copyGeometry(r: JobRow): Promise<{ curves: CutCurve[]; widthMm: number; heightMm: number }> {
-  const vector = readCleanVector((await getObject(r.vector_key)).toString('utf8'))
-  const k = r.job_width / vector.widthMm
-  const s = (p: { x: number; y: number }) => ({ x: p.x * k, y: p.y * k })
-  const curves = vector.curves.map((c) => ({
-    segments: c.segments.map((g) => g.kind === 'line'
-      ? { kind: 'line' as const, from: s(g.from), to: s(g.to) }
-      : { kind: 'cubic' as const, from: s(g.from), c1: s(g.c1), c2: s(g.c2), to: s(g.to) }),
-  }))
-  return { curves, widthMm: vector.widthMm * k, heightMm: vector.heightMm * k }
+/** The jobs' views, each with its film and, while queued, its sheets against the shelf. */
+export async function jobViews(db: Db, actor: Actor, rows: JobRow[]): Promise<JobView[]> {
+  const [films, stock] = await Promise.all([filmsOfProgram(db, actor.programId), stockForecast(db, actor.programId)])
+  const byId = new Map(films.map((f) => [f.id, toFilm(f)]))
+  return rows.map((r) => toView(r, byId.get(r.film_id)!, stock.get(r.job_id) ?? null))
 }
 
-function layoutFor(r: JobRow, copy: { widthMm: number; heightMm: number }, o: SheetOptions) {
-  try {
-    return layoutSheets({
-      copyWidthMm: copy.widthMm, copyHeightMm: copy.heightMm, copies: r.job_quantity,
-      sheetWidthMm: r.sheet_width_mm, sheetHeightMm: r.sheet_height_mm, gapMm: o.gap, marginMm: o.margin,
-      weedingFrameMm: o.frame > 0 ? o.frame : undefined,
-    })
-  } catch (err) {
-    if (err instanceof RangeError) throw createError({ statusCode: 422, message: err.message })
-    throw err
+/** Cut length and time of every copy of these jobs, all in one film. */
+export function cutEstimate(rows: JobRow[]) {
+  const first = rows[0]!
+  let cutLengthMm = 0, outlines = 0
+  for (const r of rows) {
+    const scale = r.job_width / r.revision_width
+    cutLengthMm += r.measurements.cutLengthMm * scale * r.job_quantity
+    outlines += (r.measurements.pieces + r.measurements.holes) * r.job_quantity
+  }
+  const { laser_speed_mm_s: speed, laser_passes: passes } = first
+  const seconds = estimateCutSeconds({ cutLengthMm, pieces: outlines, speedMmS: speed, passes })
+  return {
+    cutLengthMm,
+    estimate: {
+      seconds, text: formatDuration(seconds),
+      how: `Cut length ${Math.round(cutLengthMm)} mm × ${passes} pass${passes === 1 ? '' : 'es'} ÷ ${speed} mm/s, plus ${MOVE_ALLOWANCE_S} s per outline per pass for the moves between them.`,
+    },
   }
 }
 
-const defaultSheets = (r: JobRow) => layoutFor(r, { widthMm: r.job_width, heightMm: copyHeight(r) }, DEFAULT_SHEET).sheets
-
 /** The job's page. The caller has found the job in the actor's scope. */
 export async function jobDetail(db: Db, actor: Actor, r: JobRow, o: SheetOptions = DEFAULT_SHEET): Promise<JobDetail> {
-  const scale = r.job_width / r.revision_width
-  const m = r.measurements
-  const cutLengthMm = m.cutLengthMm * scale
-  const layout = layoutFor(r, { widthMm: r.job_width, heightMm: copyHeight(r) }, o)
-  const seconds = estimateCutSeconds({ cutLengthMm: cutLengthMm * r.job_quantity, pieces: (m.pieces + m.holes) * r.job_quantity, speedMmS: r.laser_speed_mm_s, passes: r.laser_passes })
-  const [history, film, stock] = await Promise.all([
+  const { cutLengthMm, estimate } = cutEstimate([r])
+  const [layout, history, film, stock] = await Promise.all([
+    sheetLayout([r], o),
     historyOf(db, actor, { jobId: r.job_id }),
     filmOfProgram(db, actor.programId, r.film_id),
     r.state === 'queued' ? stockForecast(db, actor.programId) : Promise.resolve(new Map<number, JobStock>()),
   ])
   return {
     ...toView(r, toFilm(film!), stock.get(r.job_id) ?? null),
-    layout: { perSheet: layout.perSheet, sheets: layout.sheets, turned: layout.turned, usagePercent: layout.usagePercent, fits: layout.fits, reason: layout.reason, columns: layout.columns, rows: layout.rows },
-    cutLengthMm, pieces: m.pieces,
-    estimate: {
-      seconds, text: formatDuration(seconds),
-      how: `Cut length ${Math.round(cutLengthMm * r.job_quantity)} mm × ${r.laser_passes} pass${r.laser_passes === 1 ? '' : 'es'} ÷ ${r.laser_speed_mm_s} mm/s, plus ${MOVE_ALLOWANCE_S} s per outline per pass for the moves between them.`,
-    },
+    layout,
+    // Per copy: the page multiplies by the quantity.
+    cutLengthMm: cutLengthMm / r.job_quantity, pieces: r.measurements.pieces,
+    estimate,
     history: history.map((h) => ({ at: h.at, action: h.action, by: h.by, detail: h.detail })),
     can: flags(actor, ['queue.work'], r),
   }
@@ -181,10 +168,10 @@ export async function jobDetail(db: Db, actor: Actor, r: JobRow, o: SheetOptions
 
 /** What the history says about a job. */
 export type JobNames = Pick<JobRow, 'job_id' | 'robot_id' | 'title' | 'robot_name' | 'spot' | 'job_quantity'>
-const jobRef = (r: JobNames) => ({ title: r.title, robot: r.robot_name, spot: r.spot, quantity: r.job_quantity })
+export const jobRef = (r: JobNames) => ({ title: r.title, robot: r.robot_name, spot: r.spot, quantity: r.job_quantity })
 
 /** Moves the job from `from` in one statement, so two people at once cannot both move it. */
-async function advance(trx: Transaction<Database>, r: Pick<JobRow, 'job_id'>, from: JobRow['state'], set: Updateable<JobTable>) {
+export async function advance(trx: Transaction<Database>, r: Pick<JobRow, 'job_id'>, from: JobRow['state'], set: Updateable<JobTable>) {
   const done = await trx.updateTable('job').set(set).where('id', '=', r.job_id).where('state', '=', from).executeTakeFirst()
   if (!done.numUpdatedRows) throw createError({ statusCode: 409, message: 'Someone else moved this job just now. Reload the page.' })
 }
@@ -202,13 +189,16 @@ function defaultApplied(r: JobRow): number {
 export async function moveJob(db: Db, actor: Actor, r: JobRow, input: z.output<typeof jobStateSchema>): Promise<JobDetail> {
   const to = input.state
   const from = r.state
+  if (to === 'cut') inNoBatch(r)
   if ((to === 'cut' && from !== 'queued') || (to === 'applied' && from !== 'cut')) {
     throw createError({ statusCode: 409, message: to === 'cut' ? `This job is ${from} already.` : 'A job is applied after it is cut.' })
   }
+  // Laid out before the transaction: the pool's answer never holds a connection.
+  const cutSheets = to === 'cut' ? input.sheetsUsed ?? await defaultSheetCount([r]) : 0
   const moved = await inTransaction(db, async (trx) => {
     if (to === 'cut') {
       if (!r.film_cleared) throw createError({ statusCode: 422, message: 'This film may not be cut. See the film\'s page.' })
-      const sheets = input.sheetsUsed ?? defaultSheets(r)
+      const sheets = cutSheets
       await advance(trx, r, from, { state: 'cut', cut_by: actor.id, cut_at: new Date(), sheets_used: sheets })
       await takeSheets(trx, actor, { filmId: r.film_id, sheets, jobId: r.job_id, kind: 'cut' })
       await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity) })).where('id', '=', r.placement_id).execute()
@@ -225,6 +215,13 @@ export async function moveJob(db: Db, actor: Actor, r: JobRow, input: z.output<t
     return findJob(trx, actor, r.job_id)
   })
   return jobDetail(db, actor, moved!)
+}
+
+/** A queued job in a batch is cut with its batch: alone, it would take sheets of its own. */
+function inNoBatch(r: Pick<JobRow, 'job_id' | 'batch_id' | 'state'>) {
+  if (r.batch_id !== null && r.state === 'queued') {
+    throw createError({ statusCode: 409, message: `Job ${r.job_id} is in batch ${r.batch_id}: mark the batch cut, or take the job out of it first.` })
+  }
 }
 
 /** A job that has not been cut is cancelled, with the reason. The caller has checked `queue.work`. */
@@ -251,12 +248,14 @@ export async function cancelQueued(trx: Transaction<Database>, actor: Actor, r: 
  */
 export async function failJob(db: Db, actor: Actor, r: JobRow, input: z.output<typeof jobFailureSchema>): Promise<JobDetail> {
   if (r.state !== 'queued' && r.state !== 'cut') throw createError({ statusCode: 409, message: `This job is ${r.state}: a failed cut is recorded while it is queued or cut.` })
+  if (r.state === 'queued') inNoBatch(r)
   const spoilt = input.copies ?? r.job_quantity
   if (spoilt > r.job_quantity) throw fieldError(400, `This job cuts ${r.job_quantity}: at most that many can be spoilt.`, 'copies')
+  const queuedSheets = r.state === 'queued' ? input.sheetsUsed ?? await defaultSheetCount([r]) : 0
   const after = await inTransaction(db, async (trx) => {
     const now = new Date()
     if (r.state === 'queued') {
-      const sheets = input.sheetsUsed ?? defaultSheets(r)
+      const sheets = queuedSheets
       await advance(trx, r, 'queued', { state: 'failed', cut_by: actor.id, cut_at: now, sheets_used: sheets, failed_by: actor.id, failed_at: now, failure: input.failure, failure_note: input.note })
       await takeSheets(trx, actor, { filmId: r.film_id, sheets, jobId: r.job_id, kind: 'failed-cut' })
       if (r.job_quantity > spoilt) await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity - spoilt) })).where('id', '=', r.placement_id).execute()
@@ -278,29 +277,13 @@ export async function failJob(db: Db, actor: Actor, r: JobRow, input: z.output<t
   return jobDetail(db, actor, after!)
 }
 
-export interface CutSheetFiles { files: string[]; name: string }
-
-/** The cut sheet as one file per sheet. The caller has checked `queue.work`. */
-export async function cutSheetFiles(db: Db, actor: Actor, r: JobRow, o: SheetOptions, format: 'svg' | 'dxf'): Promise<CutSheetFiles> {
+/** One sheet of the job's cut sheet, with the file's name. The caller has checked `queue.work`. */
+export async function jobSheetFile(db: Db, actor: Actor, r: JobRow, o: SheetOptions, format: 'svg' | 'dxf', sheet: number): Promise<SheetFile & { name: string }> {
   // The database already refuses such a job; this guards the file itself as well.
   if (!r.film_cleared) {
     const film = await filmOfProgram(db, actor.programId, r.film_id)
     throw createError({ statusCode: 422, message: (film && notUsableBecause(film)) ?? 'This film may not be cut.' })
   }
-  const copy = await copyGeometry(r)
-  const layout = layoutFor(r, copy, o)
-  if (!layout.fits) throw createError({ statusCode: 422, message: `The decal does not fit on a ${r.sheet_width_mm} × ${r.sheet_height_mm} mm sheet of this film: ${layout.reason ?? 'make it smaller'}.` })
-  const input = {
-    curves: copy.curves, copyWidthMm: copy.widthMm, copyHeightMm: copy.heightMm, layout,
-    sheetWidthMm: r.sheet_width_mm, sheetHeightMm: r.sheet_height_mm, mirror: o.mirror, weedingFrameMm: o.frame > 0 ? o.frame : null,
-  }
-  let files: string[]
-  try {
-    files = format === 'svg' ? cutSheetSvg(input) : cutSheetDxf(input)
-  } catch (err) {
-    // Frames that would leave the sheet or cross a neighbour, and the like: say what to change.
-    if (err instanceof RangeError) throw createError({ statusCode: 422, message: `${err.message} Change the gap, margin or weeding frame.` })
-    throw err
-  }
-  return { files, name: `job-${r.job_id}-${fileSlug(r.title, 40, 'decal')}-r${r.revision_number}` }
+  const file = await sheetFile([r], o, format, sheet)
+  return { ...file, name: `job-${r.job_id}-${fileSlug(r.title, 40, 'decal')}-r${r.revision_number}` }
 }

@@ -9,21 +9,22 @@ import type { WorkerAnswer } from '../pipeline/worker'
 const WORKER_FILE = 'pipeline-worker.mjs'
 let pool: Piscina | undefined
 
-function workerPath(): string {
+/** A worker thread's bundled entry, next to the built server (or in .nuxt under nuxt dev). */
+export function workerPath(file: string, env?: string): string {
   const candidates = [
-    process.env.DECALWRIGHT_PIPELINE_WORKER,
-    process.argv[1] ? path.join(path.dirname(process.argv[1]), WORKER_FILE) : undefined, // next to .output/server/index.mjs
-    path.resolve('.output/server', WORKER_FILE),
-    path.resolve('.nuxt', WORKER_FILE), // nuxt dev
+    env,
+    process.argv[1] ? path.join(path.dirname(process.argv[1]), file) : undefined, // next to .output/server/index.mjs
+    path.resolve('.output/server', file),
+    path.resolve('.nuxt', file), // nuxt dev
   ].filter((c): c is string => !!c)
   const found = candidates.find((c) => existsSync(c))
-  if (!found) throw new Error(`The pipeline worker (${WORKER_FILE}) was not found; was the app built? Looked in: ${candidates.join(', ')}`)
+  if (!found) throw new Error(`The worker (${file}) was not found; was the app built? Looked in: ${candidates.join(', ')}`)
   return found
 }
 
 function usePipelinePool(): Piscina {
   pool ??= new Piscina({
-    filename: workerPath(),
+    filename: workerPath(WORKER_FILE, process.env.DECALWRIGHT_PIPELINE_WORKER),
     // One thread per core: tracing is CPU-bound; more threads only share the same cores.
     maxThreads: Math.max(1, os.availableParallelism()),
     minThreads: 1,

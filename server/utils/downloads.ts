@@ -5,7 +5,6 @@ import { extensionFor } from '#shared/constants/uploads'
 import { fileSlug } from '../platform/file-names'
 import { getObject } from '../platform/object-store'
 import type { RevisionRow } from '../artworks/queries'
-import type { CutSheetFiles } from '../jobs/service'
 
 const SANDBOX = "default-src 'none'; style-src 'unsafe-inline'; sandbox"
 
@@ -32,17 +31,31 @@ export async function sendRevisionFile(event: H3Event, row: RevisionRow, kind: R
   return bytes
 }
 
-/** Sheet number `sheet` (from 1) of a cut sheet. */
+/** A cut sheet's files, one per sheet, and their common name. */
+export interface CutSheetFiles { files: string[]; name: string }
+
+function cutSheetHeaders(event: H3Event, name: string, format: 'svg' | 'dxf', sheet: number, sheets: number) {
+  const suffix = sheets > 1 ? `-sheet${sheet}of${sheets}` : ''
+  setResponseHeaders(event, {
+    'content-type': format === 'svg' ? 'image/svg+xml' : 'application/dxf',
+    'content-disposition': `attachment; filename="${name}${suffix}.${format}"`,
+    'x-content-type-options': 'nosniff',
+    'content-security-policy': SANDBOX,
+    'x-sheet-count': String(sheets),
+  })
+}
+
+/** Sheet number `sheet` (from 1) of a cut sheet written on the spot. */
 export function sendCutSheet(event: H3Event, sheets: CutSheetFiles, format: 'svg' | 'dxf', sheet: number): string {
   const file = sheets.files[sheet - 1]
   if (!file) throw createError({ statusCode: 404, message: `This job has ${sheets.files.length} sheet${sheets.files.length === 1 ? '' : 's'}.` })
-  const suffix = sheets.files.length > 1 ? `-sheet${sheet}of${sheets.files.length}` : ''
-  setResponseHeaders(event, {
-    'content-type': format === 'svg' ? 'image/svg+xml' : 'application/dxf',
-    'content-disposition': `attachment; filename="${sheets.name}${suffix}.${format}"`,
-    'x-content-type-options': 'nosniff',
-    'content-security-policy': SANDBOX,
-    'x-sheet-count': String(sheets.files.length),
-  })
+  cutSheetHeaders(event, sheets.name, format, sheet, sheets.files.length)
   return file
+}
+
+/** One kept sheet of a job's or batch's cut sheet; says whether it was read back from the store or built for this request. */
+export function sendSheetFile(event: H3Event, file: { bytes: Buffer; sheets: number; fromStore: boolean; name: string }, format: 'svg' | 'dxf', sheet: number): Buffer {
+  cutSheetHeaders(event, file.name, format, sheet, file.sheets)
+  setResponseHeaders(event, { 'x-sheet-from': file.fromStore ? 'store' : 'built' })
+  return file.bytes
 }

@@ -9,3 +9,9 @@ export const CUT_SHEET_LIMITS = {
 } as const
 
 export type CutSheetDimension = keyof typeof CUT_SHEET_LIMITS
+
+/** Weeding lines in the waste film: least distance to any copy, and widest strip between lines, mm. */
+export const WEEDING_LINE_LIMITS = {
+  clearance: { min: 0.2, max: 10, default: 1 },
+  spacing: { min: 5, max: 200, default: 25 },
+} as const

@@ -41,7 +41,10 @@ export interface AuditDetails {
   'queue-extra': JobRef & { reason: string }
   /** A job queued to cut again what a failed cut spoilt. */
   'recut': JobRef & { reason: string; recutOf: number }
-  'mark-cut': JobRef & { sheets?: number }
+  'mark-cut': JobRef & { sheets?: number; batchId?: number }
+  /** A queued job put in a batch, to be cut on shared sheets with the batch's other jobs. */
+  'join-batch': JobRef & { batchId: number }
+  'leave-batch': JobRef & { batchId: number }
   'mark-applied': JobRef & { applied?: number }
   'cancel-job': JobRef & { reason: string }
   'fail-job': JobRef & { failure: CutFailure; note: string; recutJobId: number; recutCopies: number }
@@ -72,7 +75,7 @@ const KNOWN: Record<AuditAction, true> = {
   'mark-cut': true, 'mark-applied': true, 'add-film': true, 'update-film': true,
   'queue-extra': true, 'recut': true, 'cancel-job': true, 'fail-job': true, 'edit-placement': true, 'remove-placement': true,
   'apply-spare': true, 'edit-robot': true, 'rename-artwork': true, 'register-film': true, 'approve-film': true,
-  'withdraw-film-approval': true, 'test-film': true, 'film-stock': true,
+  'withdraw-film-approval': true, 'test-film': true, 'film-stock': true, 'join-batch': true, 'leave-batch': true,
 }
 export const AUDIT_SUBJECTS = ['user', 'team', 'invitation', 'program', 'artwork', 'robot', 'job', 'film'] as const
 export type AuditSubject = (typeof AUDIT_SUBJECTS)[number]

@@ -95,13 +95,60 @@ export interface JobView {
   film: Film
   /** For queued jobs: sheets needed against sheets on hand. */
   stock: JobStock | null
+  /** The batch it is cut in, if any. */
+  batchId: number | null
+}
+
+/** One copy on a cut sheet: its label (job-copy), its job, which sheet, and its box there (mm, y down). */
+export interface SheetCopy { label: string; jobId: number; sheet: number; turned: boolean; box: { x: number; y: number; width: number; height: number } }
+
+/** How the copies of a job or batch go on the film's sheets. */
+export interface JobLayout {
+  fits: boolean
+  reason?: string
+  method: 'grid' | 'packer'
+  sheets: number
+  /** Copies on the first sheet. */
+  perSheet: number
+  turned: boolean
+  usagePercent: number
+  /** The kerf the cut path is compensated by, mm (0: none). */
+  kerfMm: number
+  copies: SheetCopy[]
 }
 
 export interface JobDetail extends JobView {
-  layout: { perSheet: number; sheets: number; turned: boolean; usagePercent: number; fits: boolean; reason?: string; columns: number; rows: number }
+  layout: JobLayout
   cutLengthMm: number
   pieces: number
   estimate: { seconds: number; text: string; how: string }
   history: { at: string; action: AuditAction; by: string | null; detail: Record<string, unknown> }[]
   can: Can<'queue.work'>
 }
+
+export type BatchState = 'queued' | 'cut'
+
+/** Queued jobs in one film, cut together on shared sheets. */
+export interface BatchDetail {
+  id: number
+  state: BatchState
+  createdAt: string
+  createdBy: string
+  cutAt: string | null
+  cutBy: string | null
+  sheetsUsed: number | null
+  film: Film
+  jobs: JobView[]
+  copies: number
+  layout: JobLayout
+  cutLengthMm: number
+  estimate: { seconds: number; text: string; how: string }
+  can: Can<'queue.work'>
+}
+
+/** Queued jobs that could share sheets: the same film, none in a batch yet. */
+export interface BatchSuggestion { filmId: number; filmName: string; jobIds: number[]; copies: number }
+
+export interface BatchSummary { id: number; filmId: number; filmName: string; state: BatchState; jobIds: number[]; copies: number; createdAt: string }
+
+export interface BatchList { batches: BatchSummary[]; suggestions: BatchSuggestion[] }

@@ -1,6 +1,6 @@
 // Request bodies, validated by the server and reused by the forms.
 import { z } from 'zod'
-import { CUT_SHEET_LIMITS } from '../constants/cut-sheet'
+import { CUT_SHEET_LIMITS, WEEDING_LINE_LIMITS } from '../constants/cut-sheet'
 import { PLACEMENT_LIMITS } from '../constants/placements'
 import { MEMBER_ROLES, ROLES } from '../types/roles'
 import { CUT_FAILURES, JOB_STATES } from '../types/robots'
@@ -141,7 +141,7 @@ const filmFields = {
   sheetHeightMm: z.number({ message: 'Enter the sheet height in mm.' }).gt(0).max(2000),
   minFeatureMm: z.number({ message: 'Enter the smallest weedable feature in mm.' }).gt(0).max(50),
   /** Null: not measured yet (the common-practice default applies). */
-  kerfMm: z.number({ message: 'Enter the kerf in mm, or leave it empty.' }).gt(0).lt(2).nullable(),
+  kerfMm: z.number({ message: 'Enter the kerf in mm (0: no compensation), or leave it empty.' }).min(0).lt(2).nullable(),
   laserPowerPct: z.number({ message: 'Enter the power in %.' }).gt(0).max(100),
   laserSpeedMmS: z.number({ message: 'Enter the speed in mm/s.' }).gt(0).max(1000),
   laserPasses: z.number({ message: 'Enter the number of passes.' }).int().min(1).max(20),
@@ -203,7 +203,7 @@ export const filmTestSchema = z.object({
   grid: testGridSchema,
   /** The square that weeded cleanly, by its label on the grid; null when none did. */
   square: z.string().trim().toUpperCase().regex(/^[A-Z][0-9]{1,2}$/, { message: 'Give the square as its label, e.g. C4.' }).nullable(),
-  kerfMm: z.number({ message: 'Enter the kerf you measured in mm, or leave it empty.' }).gt(0).lt(2).nullable().default(null),
+  kerfMm: z.number({ message: 'Enter the kerf you measured in mm, or leave it empty.' }).min(0).lt(2).nullable().default(null),
   note: z.string().trim().max(500).default(''),
 })
 
@@ -282,12 +282,33 @@ export const artworkPatchSchema = z.object({
 const sheetDimension = (d: keyof typeof CUT_SHEET_LIMITS) =>
   formNumber(z.number().min(CUT_SHEET_LIMITS[d].min).max(CUT_SHEET_LIMITS[d].max).default(CUT_SHEET_LIMITS[d].default))
 
+const weedingDimension = (d: keyof typeof WEEDING_LINE_LIMITS) =>
+  formNumber(z.number().min(WEEDING_LINE_LIMITS[d].min).max(WEEDING_LINE_LIMITS[d].max).default(WEEDING_LINE_LIMITS[d].default))
+
 export const cutSheetQuerySchema = z.object({
   mirror: z.enum(['0', '1']).default('0').transform((v) => v === '1'),
   frame: sheetDimension('frame'),
   gap: sheetDimension('gap'),
   margin: sheetDimension('margin'),
   sheet: formNumber(z.number().int().min(1).optional()),
+  /** Overrides the film's kerf; 0 turns compensation off. */
+  kerf: formNumber(z.number().min(0).lt(2).optional()),
+  /** Each copy's id written beside it, or only as the id of its group in the SVG. */
+  labels: z.enum(['text', 'ids']).default('text'),
+  weeding: z.enum(['0', '1']).default('0').transform((v) => v === '1'),
+  clearance: weedingDimension('clearance'),
+  spacing: weedingDimension('spacing'),
+})
+
+export const batchCreateSchema = z.object({
+  jobIds: z.array(z.number().int().positive(), { message: 'Choose the jobs to cut together.' })
+    .min(2, 'A batch needs at least two jobs.').max(100, 'At most 100 jobs in one batch.')
+    .refine((ids) => new Set(ids).size === ids.length, 'Each job once.'),
+})
+
+export const batchCutSchema = z.object({
+  /** The sheets the batch used, when not as laid out with the default options. */
+  sheetsUsed: z.number().int().min(0).max(1000).optional(),
 })
 
 export const jobListQuerySchema = z.object({

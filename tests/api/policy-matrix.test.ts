@@ -55,6 +55,7 @@ interface Things {
   film: Record<Where, number>
   person: Record<Where, number>
   invitation: Record<Where, number>
+  batch: Record<Where, number>
   draftRevision: number
 }
 let things: Things
@@ -110,6 +111,9 @@ beforeAll(async () => {
   const other = await placed(approved['other team'].revisionId, robot['other team'], pet, mentorId)
   const away = await placed(approved['other program'].revisionId, robot['other program'], far.films.pet, far.mentor)
   const loner = await makeUser('Matrix Loner')
+  const batch = async (programId: number, filmId: number, by: number) =>
+    (await db.insertInto('batch').values({ program_id: programId, film_id: filmId, created_by: by }).returning('id').executeTakeFirstOrThrow()).id
+  const ownBatch = await batch(demo.id, pet, mentorId)
   things = {
     team: { 'own team': wrens, 'other team': sprockets, 'other program': farTeam.id },
     subject: {
@@ -129,6 +133,7 @@ beforeAll(async () => {
       'other team': await invitation(demo.id, sprockets, mentorId),
       'other program': await invitation(far.id, farTeam.id, far.mentor),
     },
+    batch: { 'own team': ownBatch, 'other team': ownBatch, 'other program': await batch(far.id, far.films.pet, far.mentor) },
     draftRevision: ownUpload.body.revision.id,
   }
 })
@@ -223,6 +228,15 @@ const ROUTES: Record<string, RouteRule> = {
   'POST /api/jobs/[id]/cancel': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/cancel`, body: { reason: '' } }) },
   'POST /api/jobs/[id]/failure': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/failure`, body: { failure: 'exploded' } }) },
   'GET /api/jobs/[id]/cut-sheet.svg': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/cut-sheet.svg?gap=-1` }) },
+  // Batches are the program's: another program's is not found. Bodies and options are refused, and
+  // a job not in the batch cannot leave it (409), so nothing changes.
+  'GET /api/batches': { guard: 'queue.work', ask: () => ({ path: '/api/batches' }) },
+  'POST /api/batches': { guard: 'queue.work', ask: () => ({ path: '/api/batches', body: { jobIds: [] } }) },
+  'GET /api/batches/[id]': { guard: 'queue.work', scope: 'program', ask: (w) => ({ path: `/api/batches/${t().batch[w]}` }) },
+  'POST /api/batches/[id]/cut': { guard: 'queue.work', scope: 'program', ask: (w) => ({ path: `/api/batches/${t().batch[w]}/cut`, body: { sheetsUsed: -1 } }) },
+  'DELETE /api/batches/[id]/jobs/[jobId]': { guard: 'queue.work', scope: 'program', ask: (w) => ({ path: `/api/batches/${t().batch[w]}/jobs/${t().job[w]}` }) },
+  'GET /api/batches/[id]/cut-sheet.svg': { guard: 'queue.work', scope: 'program', ask: (w) => ({ path: `/api/batches/${t().batch[w]}/cut-sheet.svg?gap=-1` }) },
+  'GET /api/batches/[id]/cut-sheet.dxf': { guard: 'queue.work', scope: 'program', ask: (w) => ({ path: `/api/batches/${t().batch[w]}/cut-sheet.dxf?gap=-1` }) },
   'GET /api/jobs/[id]/cut-sheet.dxf': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/cut-sheet.dxf?gap=-1` }) },
   // Last: a session is a row on the server, so signing out ends it for every copy of the cookie.
   'POST /api/auth/sign-out': { fixed: PASS, ask: () => ({ path: '/api/auth/sign-out' }) },

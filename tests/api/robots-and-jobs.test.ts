@@ -92,12 +92,14 @@ describe('robots, placements, the cut queue and cut sheets', () => {
     // W3C SVG 1.1 §7: width/height with unit identifiers; the viewBox maps 1 user unit to 1 mm.
     expect(svg.body).toMatch(new RegExp(`width="${pet.sheet_width_mm}mm" height="${pet.sheet_height_mm}mm"`))
     expect(svg.body).toMatch(new RegExp(`viewBox="0 0 ${pet.sheet_width_mm} ${pet.sheet_height_mm}"`))
-    expect((svg.body.match(/id="dw-copy-\d+"/g) ?? []).length).toBe(3)
-    expect((svg.body.match(/id="dw-frame-\d+"/g) ?? []).length).toBe(3)
+    // Each copy is named by its job and number (job-copy), so pieces can be sorted after weeding.
+    expect(svg.body.match(/id="dw-copy-[\d-]+"/g) ?? []).toEqual([1, 2, 3].map((n) => `id="dw-copy-${jobId}-${n}"`))
+    expect((svg.body.match(/id="dw-frame-[\d-]+"/g) ?? []).length).toBe(3)
     const mirrored = await text(operator, `/api/jobs/${jobId}/cut-sheet.svg?mirror=1`)
     expect(mirrored.body).not.toBe((await text(operator, `/api/jobs/${jobId}/cut-sheet.svg`)).body)
 
-    const dxf = await text(operator, `/api/jobs/${jobId}/cut-sheet.dxf`)
+    // Kerf 0: the cut path is the drawn outline itself.
+    const dxf = await text(operator, `/api/jobs/${jobId}/cut-sheet.dxf?kerf=0`)
     expect(dxf.status).toBe(200)
     const parsed = new DxfParser().parseSync(dxf.body) as any
     expect(parsed.header.$INSUNITS).toBe(4) // millimetres (DXF reference, header variables)

@@ -1,9 +1,11 @@
 // Once per run of the service tests: a PostgreSQL cluster of their own (nothing else: no
-// object store, no mail, no app build), migrated to the latest schema. Each test then works
+// object store, no mail, no app build), migrated to the latest schema, and the cut sheets'
+// worker thread bundled as the build bundles it (jobs lay their copies out in it). Each test then works
 // inside a transaction that is rolled back (tests/support/service.ts).
 import { rmSync } from 'node:fs'
 import path from 'node:path'
 import type { TestProject } from 'vitest/node'
+import { buildCutSheetWorker } from '../../scripts/lib/pipeline-worker-build'
 import { startPostgres } from '../../scripts/lib/services'
 import { createDb, migrateToLatest } from '../../server/db/connect'
 
@@ -20,6 +22,8 @@ declare module 'vitest' {
 export default async function setup(project: TestProject) {
   const dir = path.resolve(`${process.env.DECALWRIGHT_TEST_STORAGE ?? 'storage/test'}-service`)
   rmSync(dir, { recursive: true, force: true })
+  // The test workers inherit the environment and find the worker where the pool looks first.
+  process.env.DECALWRIGHT_CUTSHEET_WORKER = await buildCutSheetWorker(path.resolve('node_modules/.cache/decalwright-service'))
   const pg = await startPostgres({ dir, port: SERVICE_PG_PORT })
   try {
     const db = createDb(pg.url, 1)

@@ -78,7 +78,7 @@ export const FIXTURE_MEASUREMENTS: Measurements = {
 }
 
 /** An artwork with one revision (its files named but not stored), optionally submitted or approved. */
-export async function addArtwork(db: Db, o: { teamId: number; authorId: number; title?: string; status?: 'draft' | 'in-review' | 'approved'; vectorKey?: string }) {
+export async function addArtwork(db: Db, o: { teamId: number; authorId: number; title?: string; status?: 'draft' | 'in-review' | 'approved'; vectorKey?: string; widthMm?: number; heightMm?: number }) {
   const artwork = await db.insertInto('artwork').values({ team_id: o.teamId, title: o.title ?? unique('Fixture artwork'), author_id: o.authorId }).returning(['id', 'title']).executeTakeFirstOrThrow()
   const hash = 'f'.repeat(64)
   const source = await db.insertInto('source').values({
@@ -86,7 +86,7 @@ export async function addArtwork(db: Db, o: { teamId: number; authorId: number; 
     width_px: 600, height_px: 400, bytes: 1000, uploaded_by: o.authorId,
   }).returning('id').executeTakeFirstOrThrow()
   const revision = await db.insertInto('revision').values({
-    artwork_id: artwork.id, number: 1, source_id: source.id, settings: JSON.stringify(DEFAULT_SETTINGS), width_mm: 60, height_mm: 40,
+    artwork_id: artwork.id, number: 1, source_id: source.id, settings: JSON.stringify(DEFAULT_SETTINGS), width_mm: o.widthMm ?? 60, height_mm: o.heightMm ?? 40,
     prepared_key: 'prepared/fixture.png', outline_key: 'outline/fixture.svg', vector_key: o.vectorKey ?? 'vector/fixture.svg',
     measurements: JSON.stringify(FIXTURE_MEASUREMENTS), timings: JSON.stringify({ prepareMs: 1, traceMs: 1, cleanMs: 1, measureMs: 1, totalMs: 4 }),
     engine_versions: JSON.stringify({ sharp: 'x', vips: 'x', potrace: 'x', svgo: 'x' }), author_id: o.authorId,

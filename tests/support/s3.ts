@@ -1,5 +1,5 @@
 import { inject } from 'vitest'
-import { ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3'
+import { ListObjectsV2Command, PutObjectCommand, S3Client } from '@aws-sdk/client-s3'
 
 let client: S3Client | undefined
 function s3() {
@@ -18,4 +18,9 @@ export async function allKeys(): Promise<string[]> {
     token = r.IsTruncated ? r.NextContinuationToken : undefined
   } while (token)
   return keys.sort()
+}
+
+/** Stores a file straight in the test bucket (a clean vector made by a test, say). */
+export async function putKey(key: string, body: string | Uint8Array, contentType: string): Promise<void> {
+  await s3().send(new PutObjectCommand({ Bucket: inject('s3').bucket, Key: key, Body: body, ContentType: contentType }))
 }

@@ -1,5 +1,6 @@
 // The worker thread's entry, run in this thread: plain data in, plain data and bytes out.
 import { describe, expect, it } from 'vitest'
+import { packBatch } from '../../../server/cutsheet/pack'
 import { readCleanVector } from '../../../server/cutsheet/path'
 import { buildCutSheets, type BatchSheetInput } from '../../../server/cutsheet/sheet'
 import { testGrid } from '../../../server/cutsheet/test-grid'
@@ -33,5 +34,15 @@ describe('runCutSheetRequest', () => {
     expect(answer.result.squares).toHaveLength(16)
     const bad = runCutSheetRequest({ kind: 'batch', input: { ...input, kerfMm: -1 } })
     expect(bad.answer).toEqual({ ok: false, kind: 'settings', message: expect.stringMatching(/kerf must be between/) })
+  })
+
+  it('answers where the copies go, as packBatch does in this thread, for the pages\' layout', () => {
+    const { curves: _curves, ...boxes } = input.designs[0]!
+    const pack = { ...input, designs: [boxes] }
+    const { answer, bytes } = runCutSheetRequest({ kind: 'pack', input: pack })
+    if (!answer.ok || answer.kind !== 'pack') throw new Error('expected a pack answer')
+    expect(answer.result).toEqual(packBatch(pack))
+    expect(answer.result.copies).toHaveLength(9)
+    expect(bytes).toHaveLength(0)
   })
 })

@@ -1,0 +1,89 @@
+// `npm run bench`, the operator's sheets as the server builds them: a 200-copy sheet of a
+// 3,500-node drawing (kerf, text labels, weeding lines), SVG and DXF, through the server's own
+// cut sheet pool (server/platform/cutsheet-pool.ts) and its worker bundled as the Nitro hook
+// bundles it; the event loop's longest pause meanwhile; and what stays on the request thread
+// (laying the copies out for the page and the content key). Times are printed beside a floor
+// measured in the same run: copying the finished files' bytes once.
+import { createHash } from 'node:crypto'
+import path from 'node:path'
+import { monitorEventLoopDelay, performance } from 'node:perf_hooks'
+import { packBatch } from '../../server/cutsheet/pack'
+import type { BatchSheetInput } from '../../server/cutsheet/sheet'
+import { detailedDrawing, median } from './bench-cutsheet'
+import { buildCutSheetWorker } from './pipeline-worker-build'
+
+const COPIES = 200
+const TARGET_SHEET_MS = 300
+const TARGET_PAUSE_MS = 20
+
+const ms = (x: number) => `${x.toFixed(1).padStart(7)} ms`
+
+export async function benchSheets(runs: number): Promise<void> {
+  const drawing = detailedDrawing()
+  const input: BatchSheetInput = {
+    designs: [{ id: 'J1', curves: drawing.curves, widthMm: drawing.widthMm, heightMm: drawing.heightMm, count: COPIES, labels: Array.from({ length: COPIES }, (_, i) => `1-${i + 1}`) }],
+    sheetWidthMm: 600, sheetHeightMm: 400, gapMm: 3, marginMm: 5, kerfMm: 0.15, labels: { mode: 'text' }, weedingLines: { spacingMm: 25, clearanceMm: 1 },
+  }
+  console.log(`\nThe operator's sheets through the server's pool: ${COPIES} copies of a ${drawing.nodes}-node drawing, kerf 0.15 mm, text labels, weeding lines (targets ≤ ${TARGET_SHEET_MS} ms a sheet, pause ≤ ${TARGET_PAUSE_MS} ms)`)
+  // The worker file exactly as the server's build makes it, found where the pool looks.
+  process.env.DECALWRIGHT_CUTSHEET_WORKER = await buildCutSheetWorker(path.resolve('node_modules/.cache/decalwright-bench'))
+  const { buildSheetsInPool } = await import('../../server/platform/cutsheet-pool')
+  const first = await buildSheetsInPool(structuredClone(input)) // starts the thread
+  const sheet = first.sheets[0]!
+  if (first.sheets.length !== 1 || sheet.copies !== COPIES) throw new Error(`expected ${COPIES} copies on one sheet, got ${first.sheets.map((s) => s.copies).join(' + ')}`)
+
+  const floor: number[] = []
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now()
+    Buffer.from(sheet.svg!); Buffer.from(sheet.dxf!)
+    floor.push(performance.now() - t0)
+  }
+  const f = Math.max(median(floor), 0.01)
+
+  const idle = monitorEventLoopDelay({ resolution: 1 })
+  idle.enable()
+  await new Promise((resolve) => setTimeout(resolve, 400 * runs))
+  idle.disable()
+
+  const delay = monitorEventLoopDelay({ resolution: 1 })
+  const walls: number[] = []
+  delay.enable()
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now()
+    await buildSheetsInPool(input)
+    walls.push(performance.now() - t0)
+  }
+  delay.disable()
+
+  // On the request thread: the content key of a download (all a kept sheet costs besides
+  // reading it back), and the job or batch page's layout (boxes only).
+  const boxes = { ...input, designs: input.designs.map(({ curves: _c, ...d }) => d) }
+  const timed = (work: () => unknown) => {
+    const t: number[] = []
+    for (let i = 0; i < runs; i++) {
+      const t0 = performance.now()
+      work()
+      t.push(performance.now() - t0)
+    }
+    return median(t)
+  }
+  const keyMs = timed(() => createHash('sha256').update(JSON.stringify(boxes)).digest('hex'))
+  const layoutMs = timed(() => packBatch(boxes))
+  // The pages ask the pool for it instead: how long the page waits, and the pause meanwhile.
+  const { packInPool } = await import('../../server/platform/cutsheet-pool')
+  const paused = monitorEventLoopDelay({ resolution: 1 })
+  const inPool: number[] = []
+  paused.enable()
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now()
+    await packInPool(boxes)
+    inPool.push(performance.now() - t0)
+  }
+  paused.disable()
+
+  console.log(`  files: SVG ${(sheet.svg!.byteLength / 1024).toFixed(0)} KiB, DXF ${(sheet.dxf!.byteLength / 1024 / 1024).toFixed(1)} MiB; floor (copy both once): ${ms(f)}`)
+  console.log(`  a sheet, request to bytes in the pool: median ${ms(median(walls))} (${(median(walls) / f).toFixed(0)}× floor)`)
+  console.log(`  longest event-loop pause meanwhile: ${(delay.max / 1e6).toFixed(1)} ms (idle floor ${(idle.max / 1e6).toFixed(1)} ms)`)
+  console.log(`  a download's content key, on the request thread: ${ms(keyMs)} (${(keyMs / f).toFixed(2)}× floor)`)
+  console.log(`  the page's layout: ${ms(layoutMs)} in this thread (${(layoutMs / f).toFixed(2)}× floor); asked of the pool as the server does, ${ms(median(inPool))}, longest pause meanwhile ${(paused.max / 1e6).toFixed(1)} ms`)
+}

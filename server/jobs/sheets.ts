@@ -1,0 +1,133 @@
+// The cut sheets of one job or of a batch: the copies of every job packed on the film's sheets,
+// kerf-compensated by the film's kerf, labelled, with weeding lines when asked for. Built in a
+// worker thread when first asked for and kept in object storage under a key made of everything
+// that shapes the files (the jobs' drawings, sizes and counts, the sheet, the options and the
+// engine's version), so a second download, or the other format, is read back, not rebuilt.
+import { createHash } from 'node:crypto'
+import { createError } from 'h3'
+import type { z } from 'zod'
+import type { JobLayout } from '#shared/types/robots'
+import { DEFAULT_KERF_MM } from '#shared/films/library'
+import type { cutSheetQuerySchema } from '#shared/utils/schemas'
+import { CUT_SHEET_LIMITS, WEEDING_LINE_LIMITS } from '#shared/constants/cut-sheet'
+import type { PackInput } from '../cutsheet/pack'
+import { readCleanVector, type CutCurve } from '../cutsheet/path'
+import type { BatchDesign, BatchSheetInput } from '../cutsheet/sheet'
+import { buildSheetsInPool, packInPool } from '../platform/cutsheet-pool'
+import { getObject, objectExists, putObject } from '../platform/object-store'
+
+/** Bump when the files change for the same input, so kept sheets are built again. */
+export const CUT_SHEET_ENGINE = 'sheets-2'
+const PREFIX = 'cut-sheets/'
+
+export type SheetOptions = Omit<z.output<typeof cutSheetQuerySchema>, 'sheet'>
+export const DEFAULT_SHEET: SheetOptions = {
+  mirror: false, frame: CUT_SHEET_LIMITS.frame.default, gap: CUT_SHEET_LIMITS.gap.default, margin: CUT_SHEET_LIMITS.margin.default,
+  kerf: undefined, labels: 'text', weeding: false, clearance: WEEDING_LINE_LIMITS.clearance.default, spacing: WEEDING_LINE_LIMITS.spacing.default,
+}
+
+/** What a job brings to a sheet. */
+export interface SheetJob {
+  job_id: number
+  job_quantity: number
+  job_width: number
+  revision_width: number
+  revision_height: number
+  vector_key: string
+  sheet_width_mm: number
+  sheet_height_mm: number
+  film_kerf: number | null
+}
+
+/** The kerf the files compensate: the option when given (0: off), else the film's, else the common-practice default. */
+export function kerfFor(jobs: SheetJob[], o: SheetOptions): number {
+  return o.kerf ?? jobs[0]?.film_kerf ?? DEFAULT_KERF_MM
+}
+
+const copyHeight = (j: SheetJob) => (j.job_width * j.revision_height) / j.revision_width
+
+/** Everything but the curves: enough to lay the sheets out, and the key's substance. */
+function sheetInput(jobs: SheetJob[], o: SheetOptions): Omit<BatchSheetInput, 'designs'> & { designs: PackInput['designs'] } {
+  const first = jobs[0]
+  if (!first) throw createError({ statusCode: 409, message: 'There are no jobs to lay out.' })
+  return {
+    designs: jobs.map((j) => ({
+      id: `J${j.job_id}`, widthMm: j.job_width, heightMm: copyHeight(j), count: j.job_quantity,
+      labels: Array.from({ length: j.job_quantity }, (_, i) => `${j.job_id}-${i + 1}`),
+    })),
+    sheetWidthMm: first.sheet_width_mm, sheetHeightMm: first.sheet_height_mm, gapMm: o.gap, marginMm: o.margin,
+    kerfMm: kerfFor(jobs, o), weedingFrameMm: o.frame > 0 ? o.frame : null, labels: { mode: o.labels }, mirror: o.mirror,
+    weedingLines: o.weeding ? { spacingMm: o.spacing, clearanceMm: o.clearance } : null,
+  }
+}
+
+/** How the copies go on the sheets (boxes only, in the pool: hundreds of copies take tens of milliseconds). */
+export async function sheetLayout(jobs: SheetJob[], o: SheetOptions): Promise<JobLayout> {
+  const p = await packInPool(sheetInput(jobs, o))
+  return {
+    fits: p.fits, reason: p.reason, method: p.method, sheets: p.sheets, usagePercent: p.usagePercent,
+    perSheet: p.perSheet[0]?.copies ?? 0, turned: p.copies.some((c) => c.turned), kerfMm: kerfFor(jobs, o),
+    copies: p.copies.map((c) => ({ label: c.label, jobId: Number(c.designId.slice(1)), sheet: c.sheet, turned: c.turned, box: c.box })),
+  }
+}
+
+/** Sheets a cut uses unless the operator says otherwise: the default options' count. */
+export async function defaultSheetCount(jobs: SheetJob[]): Promise<number> {
+  return (await sheetLayout(jobs, DEFAULT_SHEET)).sheets
+}
+
+/** The content key: the same jobs' drawings, sizes, counts and sheet with the same options give the same files. */
+export function sheetKey(jobs: SheetJob[], o: SheetOptions): string {
+  const input = sheetInput(jobs, o)
+  const substance = { engine: CUT_SHEET_ENGINE, input, vectors: jobs.map((j) => j.vector_key) }
+  return createHash('sha256').update(JSON.stringify(substance)).digest('hex')
+}
+
+/** The placed copy's curves at the job's width (the revision's vector scaled). */
+async function copyGeometry(j: SheetJob): Promise<BatchDesign> {
+  const vector = readCleanVector((await getObject(j.vector_key)).toString('utf8'))
+  const k = j.job_width / vector.widthMm
+  const s = (p: { x: number; y: number }) => ({ x: p.x * k, y: p.y * k })
+  const curves: CutCurve[] = vector.curves.map((c) => ({
+    segments: c.segments.map((g) => g.kind === 'line'
+      ? { kind: 'line' as const, from: s(g.from), to: s(g.to) }
+      : { kind: 'cubic' as const, from: s(g.from), c1: s(g.c1), c2: s(g.c2), to: s(g.to) }),
+  }))
+  return { id: `J${j.job_id}`, curves, widthMm: vector.widthMm * k, heightMm: vector.heightMm * k, count: j.job_quantity }
+}
+
+export interface SheetFile { bytes: Buffer; sheets: number; fromStore: boolean }
+
+const fileKey = (key: string, n: number, format: 'svg' | 'dxf') => `${PREFIX}${key}/sheet-${n}.${format}`
+const countKey = (key: string) => `${PREFIX}${key}/sheets.json`
+
+async function storedCount(key: string): Promise<number | null> {
+  if (!(await objectExists(countKey(key)))) return null
+  return (JSON.parse((await getObject(countKey(key))).toString('utf8')) as { sheets: number }).sheets
+}
+
+/** Builds every sheet in both formats off the request thread and keeps them; the count goes last, so a half-kept set is never read. */
+async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string): Promise<number> {
+  const base = sheetInput(jobs, o)
+  const curves = await Promise.all(jobs.map(copyGeometry))
+  const input: BatchSheetInput = { ...base, designs: base.designs.map((d, i) => ({ ...curves[i]!, ...d, widthMm: curves[i]!.widthMm, heightMm: curves[i]!.heightMm })) }
+  const built = await buildSheetsInPool(input)
+  await Promise.all(built.sheets.flatMap((s, i) => [
+    putObject(fileKey(key, i + 1, 'svg'), s.svg!, 'image/svg+xml'),
+    putObject(fileKey(key, i + 1, 'dxf'), s.dxf!, 'application/dxf'),
+  ]))
+  await putObject(countKey(key), Buffer.from(JSON.stringify({ sheets: built.sheets.length, engine: CUT_SHEET_ENGINE })), 'application/json')
+  return built.sheets.length
+}
+
+/** Sheet `n` (from 1) in `format`, from the store when it was built before. */
+export async function sheetFile(jobs: SheetJob[], o: SheetOptions, format: 'svg' | 'dxf', n: number): Promise<SheetFile> {
+  // Nothing is packed on the request thread: a kept sheet is read back, and a new one is packed
+  // in the worker, which answers copies that do not fit with the reason (a 422).
+  const key = sheetKey(jobs, o)
+  let sheets = await storedCount(key)
+  const fromStore = sheets !== null
+  sheets ??= await buildAndKeep(jobs, o, key)
+  if (n > sheets) throw createError({ statusCode: 404, message: `There ${sheets === 1 ? 'is 1 sheet' : `are ${sheets} sheets`}.` })
+  return { bytes: await getObject(fileKey(key, n, format)), sheets, fromStore }
+}

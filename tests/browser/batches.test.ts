@@ -1,0 +1,108 @@
+// The operator's sheet in a real browser: two queued jobs in one film ticked in the cut queue
+// become a batch; its page and a job's page print (Chromium's own PDF) to one clean page with
+// the sheet drawn to scale and nothing of the navigation or the buttons, read back by
+// poppler's pdfinfo and pdftotext; the batch is cut from its page.
+import { execFileSync } from 'node:child_process'
+import { existsSync, mkdirSync } from 'node:fs'
+import path from 'node:path'
+import { beforeAll, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { hashPassword } from '../../server/platform/passwords'
+import { ARTEFACTS, screenshot, setupBrowser, signInThroughForm, tabletPage } from '../support/browser'
+import { testDb } from '../support/db'
+import { addArtwork, addRobot, buildProgram, type ProgramFixture } from '../support/fixtures'
+import { putKey } from '../support/s3'
+import { rectPathData, svgMm } from '../unit/cutsheet/shapes'
+
+await setupBrowser()
+
+const PASSWORD = 'printed-sheet-password'
+let program: ProgramFixture
+let jobs: number[]
+
+/** Prints the page to PDF as Chromium does (print media, the page's @page rules) and reads it back with poppler-utils. */
+async function printed(page: Page, name: string, format: 'A4' | 'Letter') {
+  for (const tool of ['/usr/bin/pdfinfo', '/usr/bin/pdftotext']) {
+    if (!existsSync(tool)) throw new Error(`${tool} is missing: the printed sheet is read back with it. Install it with: apt-get install poppler-utils`)
+  }
+  mkdirSync(ARTEFACTS, { recursive: true })
+  const file = path.join(ARTEFACTS, `${name}-${format}.pdf`)
+  await page.pdf({ path: file, format, preferCSSPageSize: true })
+  const info = execFileSync('/usr/bin/pdfinfo', [file]).toString('utf8')
+  const pages = Number(/^Pages:\s+(\d+)/m.exec(info)?.[1])
+  const text = execFileSync('/usr/bin/pdftotext', ['-layout', file, '-']).toString('utf8')
+  return { pages, text }
+}
+
+/** What only the screen shows: the navigation, the footer, buttons and forms. */
+const SCREEN_ONLY = ['Sign out', 'Cut queue', 'Sheet options', 'Downloads for sheet', 'Mark every job cut', 'from a drawing on paper to a decal on the robot']
+
+beforeAll(async () => {
+  const db = testDb()
+  program = await buildProgram(db, { passwordHash: await hashPassword(PASSWORD) })
+  const key = `vectors/printed-sheet-${Date.now()}.svg`
+  await putKey(key, svgMm(20, 20, [`${rectPathData(0, 0, 20, 20)}${rectPathData(5, 5, 10, 10)}`]), 'image/svg+xml')
+  const art = await addArtwork(db, { teamId: program.teams[0].id, authorId: program.mentor, status: 'approved', vectorKey: key, widthMm: 20, heightMm: 20 })
+  jobs = []
+  for (const quantity of [3, 2]) {
+    const robot = await addRobot(db, program.teams[0].id)
+    const p = await db.insertInto('placement').values({ robot_id: robot, revision_id: art.revisionId, film_id: program.films.pet, spot: 'front', width_mm: 20, quantity, created_by: program.mentor })
+      .returning('id').executeTakeFirstOrThrow()
+    jobs.push((await db.insertInto('job').values({ placement_id: p.id, kind: 'initial', quantity, film_id: program.films.pet, width_mm: 20, created_by: program.mentor })
+      .returning('id').executeTakeFirstOrThrow()).id)
+  }
+})
+
+describe('the operator\'s sheet', () => {
+  it('batches ticked jobs from the queue, prints the batch and a job on one clean page each, and cuts the batch', async () => {
+    const page = await tabletPage('')
+    await signInThroughForm(page, program.emails.get(program.teams[0].operator)!, PASSWORD)
+    await page.waitForURL((u) => u.pathname !== '/sign-in')
+    await page.goto(new URL('/lab', page.url()).toString(), { waitUntil: 'networkidle' })
+    // The queue suggests the pair (same film, queued); the operator ticks them instead.
+    await expect(page.locator('[data-test="batch-suggestions"]').textContent()).resolves.toContain(`jobs ${jobs.join(', ')}`)
+    for (const id of jobs) await page.locator(`[data-test="choose-${id}"]`).check()
+    await page.locator('[data-test="batch-chosen"]').click()
+    await page.waitForURL((u) => u.pathname.startsWith('/lab/batches/'))
+    await page.waitForLoadState('networkidle')
+    const batchId = Number(page.url().split('/').pop())
+    await screenshot(page, 'batch-page')
+    for (const id of jobs) await page.locator(`[data-test="batch-job-${id}"]`).waitFor()
+    await expect(page.locator('[data-test="batch-kerf"]').textContent()).resolves.toContain('0.15')
+    // The shared sheet's picture, built in the pool and kept.
+    const image = page.locator('[data-test="cut-sheet-image"]')
+    await expect.poll(() => image.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth), { timeout: 20_000 }).toBeGreaterThan(0)
+
+    for (const format of ['A4', 'Letter'] as const) {
+      const { pages, text } = await printed(page, 'batch-sheet', format)
+      expect(pages).toBe(1)
+      expect(text).toContain(`Batch ${batchId}: job sheet`)
+      // The fixture film's 300 × 200 mm sheet at 1 : 2 fits the 180 × 105 mm drawing area.
+      expect(text).toMatch(/Sheet 1 of 1, 300 × 200 mm, drawn at 1 : 2/)
+      expect(text).toContain('mm on the film')
+      for (const id of jobs) expect(text).toContain(`${id}-1`)
+      expect(text).toMatch(/Kerf: 0\.15 mm, compensated/)
+      expect(text).toContain('Estimated cut time')
+      expect(text).toContain('Weeded')
+      expect(text).toContain('Operator\'s signature')
+      expect(text).toContain('Never bypass an interlock')
+      for (const words of SCREEN_ONLY) expect(text).not.toContain(words)
+    }
+
+    await page.goto(new URL(`/lab/jobs/${jobs[0]}`, page.url()).toString(), { waitUntil: 'networkidle' })
+    const job = await printed(page, 'job-sheet', 'A4')
+    expect(job.pages).toBe(1)
+    expect(job.text).toContain(`Job ${jobs[0]}: job sheet`)
+    expect(job.text).toContain(`${jobs[0]}-3`)
+    for (const words of SCREEN_ONLY) expect(job.text).not.toContain(words)
+    // In a batch, the job is cut with it, not on its own.
+    await expect(page.locator('[data-test="mark-cut"]').count()).resolves.toBe(0)
+    await expect(page.locator('[data-test="job-batch"]').count()).resolves.toBe(1)
+
+    await page.goto(new URL(`/lab/batches/${batchId}`, page.url()).toString(), { waitUntil: 'networkidle' })
+    await page.locator('[data-test="cut-batch"]').click()
+    await page.locator('[data-test="batch-state"]', { hasText: 'Cut' }).waitFor()
+    const states = await testDb().selectFrom('job').select('state').where('id', 'in', jobs).execute()
+    expect(states.map((s) => s.state)).toEqual(['cut', 'cut'])
+  })
+})
