@@ -56,7 +56,7 @@ async function generate(db: Db, actor: Actor, team: Team, input: PlateInput): Pr
     return { plate, row }
   } catch (err) {
     if (!(err instanceof PlateRequestError)) throw err
-    const field = /height/i.test(err.message) ? 'numeralHeightMm' : /margin/i.test(err.message) ? 'marginMm'
+    const field = /height|tall/i.test(err.message) ? 'numeralHeightMm' : /margin/i.test(err.message) ? 'marginMm'
       : /background/i.test(err.message) ? 'backgroundColour' : /numeral/i.test(err.message) ? 'numeralColour' : 'teamNumber'
     throw fieldError(422, err.message, field)
   }

@@ -3,6 +3,7 @@
 import { createError } from 'h3'
 import type { z } from 'zod'
 import { PRESET_PROFILES, copyProfile, presetProfile, type RuleProfile } from '../../shared/plates/profiles'
+import { markChanged } from '../../shared/plates/provenance'
 import type { newRuleProfileSchema, ruleProfilePatchSchema } from '../../shared/plates/schemas'
 import type { RuleProfilesPage, RuleProfileView } from '../../shared/types/plates'
 import { inTransaction, type Db } from '../platform/db'
@@ -63,21 +64,6 @@ export async function addRuleProfile(db: Db, actor: Actor, input: z.output<typeo
     await audit(trx, { ...by(actor), action: 'add-rule-profile', subject: 'program', subjectId: actor.programId, detail: { name: values.name, from: values.copied_from ?? values.preset_key } })
     return toProfileView((await findRuleProfile(trx, actor.programId, row.id))!)!
   })
-}
-
-type Ruled = { value: unknown; source: { provenance: string } }
-
-/** Values the program changed are its own from now on: their source says so, the manual and rule stay beside them. */
-export function markChanged(before: RuleProfile, after: RuleProfile): RuleProfile {
-  const out = structuredClone(after)
-  const mark = (b: Ruled | null, a: Ruled | null) => {
-    if (a && JSON.stringify(a.value) !== JSON.stringify(b?.value)) a.source.provenance = 'set by the program'
-  }
-  for (const k of ['minHeight', 'maxHeight', 'minStroke', 'colours'] as const) mark(before.numerals[k], out.numerals[k])
-  for (const k of ['minWidth', 'minHeight', 'margin', 'backgrounds'] as const) mark(before.plate[k], out.plate[k])
-  mark(before.sides, out.sides)
-  mark(before.allianceColours, out.allianceColours)
-  return out
 }
 
 export async function editRuleProfile(db: Db, actor: Actor, row: RuleProfileRow, patch: z.output<typeof ruleProfilePatchSchema>): Promise<RuleProfileView> {
