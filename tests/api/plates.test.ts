@@ -225,8 +225,9 @@ describe('the plate generator', () => {
       })
     })
 
+    let leftId: number
     it('numerals placed at half size are too small, and that plate has no background', async () => {
-      await place(plate.numerals.revisionId, films.white, 'left', 'left panel', widthMm / 2)
+      leftId = (await place(plate.numerals.revisionId, films.white, 'left', 'left panel', widthMm / 2)).id
       const c = await check()
       // Half the measured height; the FTC range is 1.75 to 2.75 in = 44.45 to 69.85 mm.
       expect(result(c, 'numeral-height')).toMatchObject({
@@ -237,6 +238,14 @@ describe('the plate generator', () => {
       expect(c.kitPlacements).toBe(5)
     })
 
+    it('a placement\'s side can be changed, and the check follows it', async () => {
+      const r = await mentor.patch(`/api/placements/${leftId}`, { side: 'top' })
+      expect(r.status, JSON.stringify(r.body)).toBe(200)
+      expect(r.body.placement.side).toBe('top')
+      const c = await check()
+      expect(result(c, 'numeral-height').sentence).toMatch(/^The numerals on the top plate \(left panel\) are /)
+    })
+
     it('the event kit queues one reprint job per plate placement, in one request', async () => {
       const r = await student.post(`/api/robots/${robotId}/event-kit`)
       expect(r.status, JSON.stringify(r.body)).toBe(201)
@@ -244,7 +253,7 @@ describe('the plate generator', () => {
       const jobs = await testDb().selectFrom('job').innerJoin('placement', 'placement.id', 'job.placement_id')
         .select(['job.kind', 'job.quantity', 'job.reason', 'placement.spares', 'placement.side']).where('job.id', 'in', r.body.jobIds).orderBy('job.id').execute()
       expect(jobs.map((j) => [j.kind, j.side, j.quantity])).toEqual([
-        ['reprint', 'front', 2], ['reprint', 'front', 2], ['reprint', 'back', 1], ['reprint', 'back', 1], ['reprint', 'left', 1],
+        ['reprint', 'front', 2], ['reprint', 'front', 2], ['reprint', 'back', 1], ['reprint', 'back', 1], ['reprint', 'top', 1],
       ])
       expect(new Set(jobs.map((j) => j.reason))).toEqual(new Set([EVENT_KIT_REASON]))
     })

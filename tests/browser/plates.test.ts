@@ -78,7 +78,8 @@ describe('number plates in the browser', () => {
 
     await byTest(page, 'plate-make').click()
     const made = byTest(page, 'plate-created')
-    await expect.poll(() => made.count()).toBe(1)
+    // Both layers are measured from their stored vectors first: allow the time a busy machine takes.
+    await expect.poll(() => made.count(), { timeout: 30_000 }).toBe(1)
     expect(await made.locator('a').allInnerTexts()).toEqual([`Plate ${NUMBER}: background (blue)`, `Plate ${NUMBER}: numerals (white)`])
 
     // The artwork page says what the plate is and shows no source or prepared bitmap.
