@@ -178,7 +178,8 @@ function checkAlliance(profile: RuleProfile, plates: PlacedPlate[]): RuleResult 
   const passed = gaps.length === 0
   return {
     rule: 'alliance-colours', source: alliance.source, passed,
-    sentence: passed ? `${capitalise(demand)}, as the rules ask.` : `${gaps.join('; ')}: the rules ask for ${demand}.`,
+    // One sentence: only its first gap starts with a capital.
+    sentence: passed ? `${capitalise(demand)}, as the rules ask.` : `${gaps.map((g, i) => (i ? g.charAt(0).toLowerCase() + g.slice(1) : g)).join('; ')}: the rules ask for ${demand}.`,
   }
 }
 
