@@ -87,7 +87,7 @@ async function placementView(db: Db, actor: Actor, robotId: number, placementId:
  * Puts an approved revision of the robot's team on the robot, in film the register clears for
  * cutting, and queues its first cut. The caller has found the robot and checked `placement.create`.
  */
-export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, input: { revisionId: number; filmId: number; spot: string; side: RobotSide | null; widthMm: number; quantity: number; spares: number }): Promise<PlacementView> {
+export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, input: { revisionId: number; filmId: number; spot: string; side?: RobotSide | null; widthMm: number; quantity: number; spares: number }): Promise<PlacementView> {
   const placementId = await inTransaction(db, async (trx) => {
     const revision = await findRevision(trx, actor, input.revisionId)
     if (!revision || revision.teamId !== robot.teamId) {
@@ -101,7 +101,7 @@ export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, inp
     const refused = notUsableBecause(film)
     if (refused) throw fieldError(422, refused, 'filmId', film.cleared ? 'Retired.' : film.polymer_verdict === 'never' ? 'Never cut this film.' : 'Needs the lab\'s approval first.')
     const p = await trx.insertInto('placement').values({
-      robot_id: robot.id, revision_id: revision.id, film_id: film.id, spot: input.spot, side: input.side, width_mm: input.widthMm,
+      robot_id: robot.id, revision_id: revision.id, film_id: film.id, spot: input.spot, side: input.side ?? null, width_mm: input.widthMm,
       quantity: input.quantity, spares: input.spares, created_by: actor.id,
     }).returning('id').executeTakeFirstOrThrow().catch(refusedFilm)
     await audit(trx, {
