@@ -220,7 +220,7 @@ function heightRule(profile: RuleProfile): PlateRule | null {
   } else demand = `numerals ${lo ? `at least ${formatLength(lo.value)}` : `at most ${formatLength(hi!.value)}`} tall`
   return {
     rule: 'numeral-height', source: (lo ?? hi)!.source, demand,
-    passed: `Numeral height is within the rules on every placed plate (${demand}).`,
+    passed: `Numeral height is within the rules on every placed plate: the rules ask for ${demand}.`,
     fault: (p) => {
       if (p.numeralHeightMm === null) return `the numeral height of ${plateName(p)} has not been measured`
       const h = p.numeralHeightMm
@@ -276,7 +276,7 @@ function sizeRule(profile: RuleProfile): PlateRule | null {
   } else demand = w ? `a plate at least ${formatLength(w.value)} on its longer side` : `a plate at least ${formatLength(h!.value)} on its shorter side`
   return {
     rule: 'plate-size', source: (w ?? h)!.source, demand,
-    passed: `Every placed plate is large enough (${demand}).`,
+    passed: `Every placed plate is large enough: the rules ask for ${demand}.`,
     fault: (p) => {
       if (p.plateWidthMm === null || p.plateHeightMm === null) return `the size of ${plateName(p)} is not known`
       // A plate may be placed either way round: compare longer with longer, shorter with shorter.
