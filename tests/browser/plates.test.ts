@@ -47,7 +47,7 @@ describe('number plates in the browser', () => {
     await byTest(page, 'rules-link').click()
     await page.waitForURL((u) => u.pathname === '/rules')
     await byTest(page, 'follow-v5rc-2024-25').click()
-    await expect.poll(() => byTest(page, 'notice').innerText()).toMatch(/The program now follows “VEX V5 Robotics Competition 2024–25”/)
+    await expect.poll(() => byTest(page, 'notice').innerText(), { timeout: 10_000 }).toMatch(/The program now follows “VEX V5 Robotics Competition 2024–25”/)
     const inUse = page.locator('li', { has: byTest(page, 'profile-in-use') })
     expect(await inUse.innerText()).toMatch(/R10 \(from this issue\)/)
     expect(await inUse.innerText()).toMatch(/113\.79 mm \(4\.48 in\) × 62\.99 mm \(2\.48 in\)/)
@@ -66,7 +66,9 @@ describe('number plates in the browser', () => {
     await form.locator('select[name="backgroundColour"]').selectOption('blue')
     await byTest(page, 'plate-preview').click()
     const svg = byTest(page, 'plate-svg')
-    await expect.poll(() => svg.count()).toBe(1)
+    // The server reads the font on its first plate: allow a busy machine its time, and keep a picture if it never comes.
+    await svg.waitFor({ timeout: 15_000 }).catch(() => screenshot(page, 'plates-preview-failed'))
+    await expect.poll(() => svg.count(), { timeout: 1_000, message: 'the preview (see the screenshot plates-preview-failed)' }).toBe(1)
     expect(await byTest(page, 'plate-facts').innerText()).toMatch(/background in blue, numerals in white/)
     // Real size: CSS millimetres, 96 px per 25.4 mm (CSS Values and Units Level 3, absolute lengths).
     const widthMm = Number((await svg.getAttribute('width'))!.replace('mm', ''))
@@ -116,7 +118,7 @@ describe('number plates in the browser', () => {
     await form.locator('input[name="spot"]').fill('front panel')
     await form.locator('input[name="widthMm"]').fill('120')
     await form.locator('button[type="submit"]').click()
-    await expect.poll(() => byTest(page, 'placement-side').count()).toBe(2)
+    await expect.poll(() => byTest(page, 'placement-side').count(), { timeout: 10_000 }).toBe(2)
 
     const results = byTest(page, 'plate-check-results')
     // Worked by hand: the V5RC profile asks for plates on two opposite sides; the front has one, so the back lacks one.
@@ -132,6 +134,6 @@ describe('number plates in the browser', () => {
     await screenshot(page, 'plates-robot-check')
 
     await byTest(page, 'event-kit').click()
-    await expect.poll(() => byTest(page, 'notice').innerText()).toMatch(/The event kit is in the cut queue: 2 reprint jobs/)
+    await expect.poll(() => byTest(page, 'notice').innerText(), { timeout: 10_000 }).toMatch(/The event kit is in the cut queue: 2 reprint jobs/)
   })
 })
