@@ -190,7 +190,7 @@ export const useBenchStore = defineStore('bench', () => {
 
   const nextNumber = computed(() => (artwork.value?.revisions[0]?.number ?? 0) + 1)
   const dirty = computed(() => !!base.value && !sameSettings(settings.value, widthMm.value, normaliseSettings(base.value.settings), base.value.drawingWidthMm))
-  const world = computed(() => base.value ? { width: base.value.source.widthPx, height: base.value.source.heightPx } : null)
+  const world = computed(() => base.value?.source ? { width: base.value.source.widthPx, height: base.value.source.heightPx } : null)
   /** The decal's own picture (prepared bitmap pixels) that the prepared and outline panels show. */
   const decalWorld = computed(() => {
     const m = preview.value?.measurements ?? base.value?.measurements

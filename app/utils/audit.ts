@@ -38,7 +38,7 @@ function text(d: Detail, ...keys: string[]): string | null {
 
 const role = (r: unknown) => roleLabel(typeof r === 'string' ? r : '').toLowerCase()
 
-const PLACEMENT_FIELDS: Record<string, string> = { spot: 'spot', widthMm: 'width (mm)', quantity: 'on the robot', spares: 'spares' }
+const PLACEMENT_FIELDS: Record<string, string> = { spot: 'spot', widthMm: 'width (mm)', quantity: 'on the robot', spares: 'spares', side: 'side' }
 
 export function capitalise(s: string): string {
   return s ? s.charAt(0).toUpperCase() + s.slice(1) : s
@@ -181,6 +181,14 @@ function known(e: AuditEntry, d: Detail, ctx: AuditContext): string {
       const a = d.laserWorkArea as { widthMm?: number; heightMm?: number } | null | undefined
       return a?.widthMm ? `set the laser's work area to ${a.widthMm} × ${a.heightMm} mm` : 'cleared the laser\'s work area'
     }
+    case 'add-rule-profile':
+      return `added the rule profile “${text(d, 'name') ?? ''}”${text(d, 'from') ? ` from ${text(d, 'from')}` : ''}`
+    case 'edit-rule-profile':
+      return `changed the rule profile “${text(d, 'name') ?? ''}”`
+    case 'choose-rule-profile':
+      return text(d, 'name') ? `chose “${text(d, 'name')}” as the program's number-plate rules` : 'cleared the program\'s number-plate rules'
+    case 'generate-plate':
+      return `generated the ${text(d, 'role') ?? ''} of plate ${text(d, 'teamNumber') ?? ''} (${text(d, 'colour') ?? ''}) as “${text(d, 'title') ?? subject}”`
     default: {
       const unhandled: never = e.action
       return unhandled

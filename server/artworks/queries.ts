@@ -1,3 +1,4 @@
+import { createError } from 'h3'
 import { sql } from 'kysely'
 import { jsonObjectFrom } from 'kysely/helpers/postgres'
 import type { Db } from '../platform/db'
@@ -63,7 +64,7 @@ export function findRevision(db: Db, actor: Actor, revisionId: number) {
   return db.selectFrom('revision')
     .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
     .innerJoin('team', 'team.id', 'artwork.team_id')
-    .innerJoin('source', 'source.id', 'revision.source_id')
+    .leftJoin('source', 'source.id', 'revision.source_id')
     .innerJoin('users', 'users.id', 'revision.author_id')
     .innerJoin('revision_status', 'revision_status.revision_id', 'revision.id')
     .selectAll('revision')
@@ -76,8 +77,11 @@ export function findRevision(db: Db, actor: Actor, revisionId: number) {
 
 export type RevisionRow = NonNullable<Awaited<ReturnType<typeof findRevision>>>
 
-export function latestSource(db: Db, artworkId: number) {
-  return db.selectFrom('source').selectAll().where('artwork_id', '=', artworkId).orderBy('id', 'desc').limit(1).executeTakeFirstOrThrow()
+/** The source the bench tunes; a generated plate has none (409). */
+export async function latestSource(db: Db, artworkId: number) {
+  const source = await db.selectFrom('source').selectAll().where('artwork_id', '=', artworkId).orderBy('id', 'desc').limit(1).executeTakeFirst()
+  if (!source) throw createError({ statusCode: 409, message: 'This artwork is a generated plate: it is an exact vector with no source to tune. Generate a new plate instead.' })
+  return source
 }
 
 /**
@@ -89,8 +93,8 @@ export async function keysInUse(db: Db, keys: readonly string[]): Promise<Set<st
   if (!keys.length) return new Set()
   const list = [...keys]
   const rows = await db.selectFrom('source').select('object_key as key').where('object_key', 'in', list)
-    .union(db.selectFrom('revision').select('prepared_key as key').where('prepared_key', 'in', list))
-    .union(db.selectFrom('revision').select('outline_key as key').where('outline_key', 'in', list))
+    .union(db.selectFrom('revision').select('prepared_key as key').where('prepared_key', 'in', list).$narrowType<{ key: string }>())
+    .union(db.selectFrom('revision').select('outline_key as key').where('outline_key', 'in', list).$narrowType<{ key: string }>())
     .union(db.selectFrom('revision').select('vector_key as key').where('vector_key', 'in', list))
     .union(db.selectFrom('object_claim').select('key').where('key', 'in', list))
     .execute()

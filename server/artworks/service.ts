@@ -71,8 +71,12 @@ export async function revisionDetail(db: Db, row: RevisionRow): Promise<Revision
     choices: row.choices,
     timings: row.timings,
     engineVersions: row.engine_versions,
-    source: { id: row.source_id, mediaType: row.media_type, fileName: row.file_name, widthPx: row.width_px, heightPx: row.height_px, bytes: row.bytes, contentHash: row.content_hash },
-    files: { vector: `${base}/vector.svg`, prepared: `${base}/prepared.png`, outline: `${base}/outline.svg`, source: `${base}/source` },
+    origin: row.origin,
+    plate: row.plate,
+    source: row.source_id === null ? null : { id: row.source_id, mediaType: row.media_type!, fileName: row.file_name!, widthPx: row.width_px!, heightPx: row.height_px!, bytes: row.bytes!, contentHash: row.content_hash! },
+    files: row.origin === 'generated'
+      ? { vector: `${base}/vector.svg`, prepared: null, outline: null, source: null }
+      : { vector: `${base}/vector.svg`, prepared: `${base}/prepared.png`, outline: `${base}/outline.svg`, source: `${base}/source` },
   }
 }
 

@@ -9,6 +9,8 @@ import type { Halogen, PolymerSource, PolymerVerdict } from '../../shared/films/
 import type { Opacity } from '../../shared/films/library'
 import type { CutFailure, JobKind, JobState } from '../../shared/types/robots'
 import type { StockEventKind, TestGridRecord } from '../../shared/types/films'
+import type { RobotSide, RuleProfile } from '../../shared/plates/profiles'
+import type { PlateFacts, RevisionOrigin } from '../../shared/types/plates'
 
 type CreatedAt = ColumnType<Date, Date | string | undefined, never>
 type Timestamp = ColumnType<Date, Date | string, Date | string>
@@ -20,6 +22,23 @@ export interface ProgramTable {
   created_at: CreatedAt
   laser_work_width_mm: ColumnType<number | null, number | null | undefined, number | null>
   laser_work_height_mm: ColumnType<number | null, number | null | undefined, number | null>
+  /** The competition rules for number plates that apply to every team (one of the program's rule_profile rows). */
+  rule_profile_id: ColumnType<number | null, number | null | undefined, number | null>
+}
+
+export interface RuleProfileTable {
+  id: Generated<number>
+  program_id: number
+  name: string
+  /** Set when the row follows a shipped preset (shared/plates/profiles.ts); profile is then null. */
+  preset_key: string | null
+  /** The program's own copy, every field of RuleProfile; null when following a preset. */
+  profile: ColumnType<RuleProfile | null, string | null, string | null>
+  /** The preset or profile this copy was made from, for the page. */
+  copied_from: string | null
+  created_by: number
+  created_at: CreatedAt
+  updated_at: ColumnType<Date, Date | string | undefined, Date | string>
 }
 
 export interface UsersTable {
@@ -133,12 +152,13 @@ export interface RevisionTable {
   id: Generated<number>
   artwork_id: number
   number: number
-  source_id: number
+  /** Null for a generated revision (origin 'generated'), which has no source. */
+  source_id: number | null
   settings: Json<PipelineSettings>
   width_mm: number
   height_mm: number
-  prepared_key: string
-  outline_key: string
+  prepared_key: string | null
+  outline_key: string | null
   vector_key: string
   measurements: Json<Measurements>
   timings: Json<StageTimings>
@@ -147,6 +167,10 @@ export interface RevisionTable {
   choices: ColumnType<CleanUpChoice[], string | undefined, never>
   /** The drawing's width asked for, mm (null for revisions made before the decal was trimmed to it). */
   drawing_width_mm: ColumnType<number | null, number | undefined, never>
+  /** 'traced' from a source through the pipeline; 'generated' by the plate generator (no source, prepared bitmap or raw outline). */
+  origin: ColumnType<RevisionOrigin, RevisionOrigin | undefined, never>
+  /** What the plate generator was asked, and the plate's measured figures, for a generated revision. */
+  plate: ColumnType<PlateFacts | null, string | undefined, never>
   author_id: number
   created_at: CreatedAt
 }
@@ -251,6 +275,8 @@ export interface PlacementTable {
   /** Always true for new rows (the key to the film's `cleared`); null only on rows from before the register whose film may not be cut. */
   film_cleared: ColumnType<boolean | null, true | undefined, true>
   spot: string
+  /** Which side of the robot; null on rows from before sides were recorded. */
+  side: RobotSide | null
   width_mm: number
   quantity: number
   spares: Generated<number>
@@ -377,6 +403,7 @@ export interface Database {
   artwork: ArtworkTable
   source: SourceTable
   revision: RevisionTable
+  rule_profile: RuleProfileTable
   revision_status: RevisionStatusTable
   review_event: ReviewEventTable
   polymer: PolymerTable

@@ -18,6 +18,7 @@ import { filmOfProgram } from '../films/queries'
 import { cancelQueued, queueJob, refusedFilm } from '../jobs/service'
 import { approvedRevisionsOfTeam, findPlacement, findRobot, queuedJobsOf, robotPage, type PlacementRow, type RobotKey, type RobotRow } from './queries'
 import { planPlacementChange, type PlacementPlan } from './plan'
+import type { RobotSide } from '#shared/plates/profiles'
 
 const iso = (t: Date | string) => new Date(t).toISOString()
 
@@ -25,7 +26,7 @@ export function toRobotView(actor: Actor, r: RobotRow): RobotView {
   return {
     id: r.id, name: r.name, season: r.season, team: { id: r.teamId, name: r.team_name, colour: r.team_colour },
     placements: r.placements.map((p): PlacementView => ({
-      id: p.id, spot: p.spot, widthMm: p.width_mm, heightMm: (p.width_mm * p.revision_height) / p.revision_width,
+      id: p.id, spot: p.spot, side: p.side, widthMm: p.width_mm, heightMm: (p.width_mm * p.revision_height) / p.revision_width,
       quantity: p.quantity, spares: p.spares, sparesOnHand: p.spares_on_hand,
       film: { id: p.film_id, name: p.film_name, colour: p.film_colour, colourHex: p.film_colour_hex },
       revision: { id: p.revision_id, number: p.number, artworkId: p.artwork_id, title: p.title, vectorUrl: `/api/revisions/${p.revision_id}/vector.svg` },
@@ -86,7 +87,7 @@ async function placementView(db: Db, actor: Actor, robotId: number, placementId:
  * Puts an approved revision of the robot's team on the robot, in film the register clears for
  * cutting, and queues its first cut. The caller has found the robot and checked `placement.create`.
  */
-export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, input: { revisionId: number; filmId: number; spot: string; widthMm: number; quantity: number; spares: number }): Promise<PlacementView> {
+export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, input: { revisionId: number; filmId: number; spot: string; side?: RobotSide | null; widthMm: number; quantity: number; spares: number }): Promise<PlacementView> {
   const placementId = await inTransaction(db, async (trx) => {
     const revision = await findRevision(trx, actor, input.revisionId)
     if (!revision || revision.teamId !== robot.teamId) {
@@ -100,7 +101,7 @@ export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, inp
     const refused = notUsableBecause(film)
     if (refused) throw fieldError(422, refused, 'filmId', film.cleared ? 'Retired.' : film.polymer_verdict === 'never' ? 'Never cut this film.' : 'Needs the lab\'s approval first.')
     const p = await trx.insertInto('placement').values({
-      robot_id: robot.id, revision_id: revision.id, film_id: film.id, spot: input.spot, width_mm: input.widthMm,
+      robot_id: robot.id, revision_id: revision.id, film_id: film.id, spot: input.spot, side: input.side ?? null, width_mm: input.widthMm,
       quantity: input.quantity, spares: input.spares, created_by: actor.id,
     }).returning('id').executeTakeFirstOrThrow().catch(refusedFilm)
     await audit(trx, {
@@ -180,7 +181,10 @@ export async function editPlacement(db: Db, actor: Actor, found: PlacementRow, p
     )
     if (plan.copiesToQueue > 0) mayCutMore(placement)
     const after = plan.after
+    const side = patch.side === undefined ? placement.side : patch.side
+    if (side !== placement.side) plan.changes.side = { from: placement.side, to: side }
     await trx.updateTable('placement').set({
+      side,
       spot: after.spot, width_mm: after.widthMm, quantity: after.quantity, spares: after.spares, ...(plan.resized ? { spares_on_hand: 0 } : {}),
     }).where('id', '=', placement.id).where('removed_at', 'is', null).execute()
     const names = { ...placement, spot: after.spot }

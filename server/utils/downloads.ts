@@ -17,8 +17,9 @@ export async function sendRevisionFile(event: H3Event, row: RevisionRow, kind: R
     vector: { key: row.vector_key, type: 'image/svg+xml', name: `${base}.svg` },
     outline: { key: row.outline_key, type: 'image/svg+xml', name: `${base}-outline-px.svg` },
     prepared: { key: row.prepared_key, type: 'image/png', name: `${base}-prepared.png` },
-    source: { key: row.source_key, type: row.media_type, name: `${base}-source.${extensionFor(row.media_type)}` },
+    source: { key: row.source_key, type: row.media_type ?? 'application/octet-stream', name: `${base}-source.${row.media_type ? extensionFor(row.media_type) : 'bin'}` },
   }[kind]
+  if (!file.key) throw createError({ statusCode: 404, message: 'A generated plate has only its vector: no source, prepared bitmap or raw outline.' })
   const bytes = await getObject(file.key)
   setResponseHeaders(event, {
     'content-type': file.type,

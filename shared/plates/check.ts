@@ -178,7 +178,8 @@ function checkAlliance(profile: RuleProfile, plates: PlacedPlate[]): RuleResult 
   const passed = gaps.length === 0
   return {
     rule: 'alliance-colours', source: alliance.source, passed,
-    sentence: passed ? `${capitalise(demand)}, as the rules ask.` : `${gaps.join('; ')}: the rules ask for ${demand}.`,
+    // One sentence: only its first gap starts with a capital.
+    sentence: passed ? `${capitalise(demand)}, as the rules ask.` : `${gaps.map((g, i) => (i ? g.charAt(0).toLowerCase() + g.slice(1) : g)).join('; ')}: the rules ask for ${demand}.`,
   }
 }
 
@@ -219,7 +220,7 @@ function heightRule(profile: RuleProfile): PlateRule | null {
   } else demand = `numerals ${lo ? `at least ${formatLength(lo.value)}` : `at most ${formatLength(hi!.value)}`} tall`
   return {
     rule: 'numeral-height', source: (lo ?? hi)!.source, demand,
-    passed: `Numeral height is within the rules on every placed plate (${demand}).`,
+    passed: `Numeral height is within the rules on every placed plate: the rules ask for ${demand}.`,
     fault: (p) => {
       if (p.numeralHeightMm === null) return `the numeral height of ${plateName(p)} has not been measured`
       const h = p.numeralHeightMm
@@ -275,7 +276,7 @@ function sizeRule(profile: RuleProfile): PlateRule | null {
   } else demand = w ? `a plate at least ${formatLength(w.value)} on its longer side` : `a plate at least ${formatLength(h!.value)} on its shorter side`
   return {
     rule: 'plate-size', source: (w ?? h)!.source, demand,
-    passed: `Every placed plate is large enough (${demand}).`,
+    passed: `Every placed plate is large enough: the rules ask for ${demand}.`,
     fault: (p) => {
       if (p.plateWidthMm === null || p.plateHeightMm === null) return `the size of ${plateName(p)} is not known`
       // A plate may be placed either way round: compare longer with longer, shorter with shorter.

@@ -1,5 +1,6 @@
 import type { CleanUpChoice, EngineVersions, Measurements, StageTimings } from './pipeline'
 import type { Can } from './policy'
+import type { PlateFacts, RevisionOrigin } from './plates'
 
 export const ARTWORK_STATUSES = ['draft', 'in-review', 'approved', 'sent-back'] as const
 export type ArtworkStatus = (typeof ARTWORK_STATUSES)[number]
@@ -37,8 +38,13 @@ export interface RevisionDetail extends RevisionSummary {
   choices: CleanUpChoice[]
   timings: StageTimings
   engineVersions: EngineVersions
-  source: SourceInfo
-  files: { vector: string; prepared: string; outline: string; source: string }
+  /** traced: from the source through the pipeline; generated: an exact vector from the plate generator. */
+  origin: RevisionOrigin
+  /** For a generated plate: what was asked and what its vector measured. */
+  plate: PlateFacts | null
+  /** Null for a generated revision, which has no source, prepared bitmap or raw outline. */
+  source: SourceInfo | null
+  files: { vector: string; prepared: string | null; outline: string | null; source: string | null }
 }
 
 export interface SourceInfo {

@@ -61,6 +61,11 @@ export interface AuditDetails {
   'withdraw-film-approval': { name: string; polymer: string }
   'test-film': { name: string; square: string | null; powerPct: number | null; speedMmS: number | null; passes: number; kerfMm: number | null }
   'film-stock': { name: string; kind: 'delivery' | 'count'; sheets: number; onHand: number; note: string }
+  'add-rule-profile': { name: string; from: string | null }
+  'edit-rule-profile': { name: string }
+  'choose-rule-profile': { name: string | null }
+  /** One line per layer of a generated plate (each an artwork of its own). */
+  'generate-plate': RevisionRef & { teamNumber: string; profile: string; role: string; colour: string }
 }
 
 export type AuditAction = keyof AuditDetails
@@ -76,6 +81,7 @@ const KNOWN: Record<AuditAction, true> = {
   'queue-extra': true, 'recut': true, 'cancel-job': true, 'fail-job': true, 'edit-placement': true, 'remove-placement': true,
   'apply-spare': true, 'edit-robot': true, 'rename-artwork': true, 'register-film': true, 'approve-film': true,
   'withdraw-film-approval': true, 'test-film': true, 'film-stock': true, 'join-batch': true, 'leave-batch': true,
+  'add-rule-profile': true, 'edit-rule-profile': true, 'choose-rule-profile': true, 'generate-plate': true,
 }
 export const AUDIT_SUBJECTS = ['user', 'team', 'invitation', 'program', 'artwork', 'robot', 'job', 'film'] as const
 export type AuditSubject = (typeof AUDIT_SUBJECTS)[number]

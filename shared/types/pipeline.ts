@@ -63,4 +63,6 @@ export interface EngineVersions {
   vips: string
   potrace: string
   svgo: string
+  /** The font library, for revisions generated from a font's outlines. */
+  opentype?: string
 }

@@ -1,6 +1,7 @@
 import type { AuditAction } from './audit'
 import type { Film } from './films'
 import type { Can } from './policy'
+import type { RobotSide } from '../plates/profiles'
 
 export const JOB_STATES = ['queued', 'cut', 'applied', 'cancelled', 'failed'] as const
 export type JobState = (typeof JOB_STATES)[number]
@@ -28,6 +29,8 @@ export interface JobStock {
 export interface PlacementView {
   id: number
   spot: string
+  /** Which side of the robot; null when not recorded. */
+  side: RobotSide | null
   widthMm: number
   heightMm: number
   quantity: number

@@ -6,6 +6,7 @@ import { MEMBER_ROLES, ROLES } from '../types/roles'
 import { CUT_FAILURES, JOB_STATES } from '../types/robots'
 import { polymerByCode } from '../films/polymers'
 import { OPACITIES } from '../films/library'
+import { ROBOT_SIDES } from '../plates/profiles'
 
 export const PASSWORD_MIN = 10
 
@@ -220,12 +221,16 @@ const placementFields = {
   spares: z.number({ message: 'How many spares?' }).int().min(PLACEMENT_LIMITS.spares.min).max(PLACEMENT_LIMITS.spares.max),
 }
 
+/** Which side of the robot a placement is on; null when not said. */
+const sideSchema = z.enum(ROBOT_SIDES, { message: 'Choose a side of the robot.' }).nullable()
+
 export const placementSchema = z.object({
   robotId: z.number({ message: 'Choose a robot.' }).int().positive(),
   revisionId: z.number({ message: 'Choose an approved revision.' }).int().positive(),
   filmId: z.number({ message: 'Choose a film.' }).int().positive(),
   ...placementFields,
   spares: placementFields.spares.default(PLACEMENT_LIMITS.spares.default),
+  side: sideSchema.default(null),
 })
 
 /** A change to a placement: any of its spot, width, copies on the robot and spares. */
@@ -234,6 +239,7 @@ export const placementPatchSchema = z.object({
   widthMm: placementFields.widthMm.optional(),
   quantity: placementFields.quantity.optional(),
   spares: placementFields.spares.optional(),
+  side: sideSchema.optional(),
 }).refine((v) => Object.values(v).some((x) => x !== undefined), { message: 'Change at least one thing.' })
 
 const reasonSchema = (example: string) => z.string().trim().min(1, { message: `Say why, e.g. "${example}".` }).max(500)

@@ -18,6 +18,7 @@ import { addArtwork, addRobot, buildProgram } from '../support/fixtures'
 import { drawing } from '../support/images'
 import { makeUser } from '../support/people'
 import { uploadArtwork } from '../support/upload'
+import { copyProfile, presetProfile } from '../../shared/plates/profiles'
 
 const WHO = ['signed out', 'student', 'designer', 'operator', 'mentor'] as const
 const WHERE = ['own team', 'other team', 'other program'] as const
@@ -56,6 +57,7 @@ interface Things {
   person: Record<Where, number>
   invitation: Record<Where, number>
   batch: Record<Where, number>
+  ruleProfile: Record<Where, number>
   draftRevision: number
 }
 let things: Things
@@ -114,6 +116,10 @@ beforeAll(async () => {
   const batch = async (programId: number, filmId: number, by: number) =>
     (await db.insertInto('batch').values({ program_id: programId, film_id: filmId, created_by: by }).returning('id').executeTakeFirstOrThrow()).id
   const ownBatch = await batch(demo.id, pet, mentorId)
+  const rules = async (programId: number, by: number) => (await db.insertInto('rule_profile').values({
+    program_id: programId, name: 'Matrix rules', profile: JSON.stringify(copyProfile(presetProfile('frc-2023')!, `matrix-${programId}`)), created_by: by,
+  }).returning('id').executeTakeFirstOrThrow()).id
+  const ownRules = await rules(demo.id, mentorId)
   things = {
     team: { 'own team': wrens, 'other team': sprockets, 'other program': farTeam.id },
     subject: {
@@ -134,6 +140,7 @@ beforeAll(async () => {
       'other program': await invitation(far.id, farTeam.id, far.mentor),
     },
     batch: { 'own team': ownBatch, 'other team': ownBatch, 'other program': await batch(far.id, far.films.pet, far.mentor) },
+    ruleProfile: { 'own team': ownRules, 'other team': ownRules, 'other program': await rules(far.id, far.mentor) },
     draftRevision: ownUpload.body.revision.id,
   }
 })
@@ -192,6 +199,13 @@ const ROUTES: Record<string, RouteRule> = {
   'PATCH /api/program': { guard: 'program.manage', ask: () => ({ path: '/api/program', body: {} }) },
   'GET /api/program/waiting': { guard: 'program.manage', ask: () => ({ path: '/api/program/waiting' }) },
   'GET /api/reviews': { guard: 'revision.review', ask: () => ({ path: '/api/reviews' }) },
+  'GET /api/rule-profiles': { ask: () => ({ path: '/api/rule-profiles' }) },
+  'POST /api/rule-profiles': { guard: 'program.manage', ask: () => ({ path: '/api/rule-profiles', body: {} }) },
+  'GET /api/rule-profiles/[id]': { scope: 'program', ask: (w) => ({ path: `/api/rule-profiles/${t().ruleProfile[w]}` }) },
+  'PATCH /api/rule-profiles/[id]': { guard: 'program.manage', scope: 'program', ask: (w) => ({ path: `/api/rule-profiles/${t().ruleProfile[w]}`, body: {} }) },
+  'PUT /api/program/rule-profile': { guard: 'program.manage', ask: () => ({ path: '/api/program/rule-profile', body: {} }) },
+  'POST /api/teams/[id]/plates/preview': { scope: 'team.view', action: 'artwork.upload', ask: (w) => ({ path: `/api/teams/${t().team[w]}/plates/preview`, body: { numeralHeightMm: -1 } }) },
+  'POST /api/teams/[id]/plates': { scope: 'team.view', action: 'artwork.upload', ask: (w) => ({ path: `/api/teams/${t().team[w]}/plates`, body: { numeralHeightMm: -1 } }) },
 
   'POST /api/artworks': { scope: 'team.view', action: 'artwork.upload', ask: (w) => ({ path: '/api/artworks', upload: { teamId: t().team[w] } }) },
   'GET /api/artworks/[id]': { scope: 'artwork.view', ask: (w) => ({ path: `/api/artworks/${t().artwork[w]}` }) },
@@ -211,6 +225,9 @@ const ROUTES: Record<string, RouteRule> = {
   'GET /api/robots/[id]': { scope: 'robot.view', ask: (w) => ({ path: `/api/robots/${t().robot[w]}` }) },
   'PATCH /api/robots/[id]': { scope: 'robot.view', action: 'robot.edit', ask: (w) => ({ path: `/api/robots/${t().robot[w]}`, body: {} }) },
   'GET /api/robots/[id]/history': { scope: 'robot.view', ask: (w) => ({ path: `/api/robots/${t().robot[w]}/history` }) },
+  'GET /api/robots/[id]/plate-check': { scope: 'robot.view', ask: (w) => ({ path: `/api/robots/${t().robot[w]}/plate-check` }) },
+  // The matrix's robots carry no plates: an allowed request is refused (409) and queues nothing.
+  'POST /api/robots/[id]/event-kit': { scope: 'robot.view', action: 'placement.reprint', ask: (w) => ({ path: `/api/robots/${t().robot[w]}/event-kit` }) },
   'GET /api/robots/[id]/approved-revisions': { scope: 'robot.view', action: 'placement.create', ask: (w) => ({ path: `/api/robots/${t().robot[w]}/approved-revisions` }) },
   // A revision that is not approved: an allowed placement is refused further on (409 or 400), so nothing is placed.
   'POST /api/placements': {

@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { setupBrowser, signInThroughForm, tabletPage, screenshot } from '../support/browser'
+import { setupBrowser, signedInPage, screenshot } from '../support/browser'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 import { signedIn, type ApiClient } from '../support/client'
 import { approvedOnRobot } from '../support/scenario'
@@ -17,13 +17,7 @@ const url = (page: Page, path: string) => new URL(path, page.url()).toString()
 const byTest = (page: Page, test: string) => page.locator(`[data-test="${test}"]`)
 let mentorApi: ApiClient
 
-async function as(who: keyof typeof DEMO_ACCOUNTS, path: string): Promise<Page> {
-  const page = await tabletPage('')
-  await signInThroughForm(page, DEMO_ACCOUNTS[who].email, DEMO_PASSWORD)
-  await page.waitForURL((u) => u.pathname !== '/sign-in')
-  await page.goto(url(page, path), { waitUntil: 'networkidle' })
-  return page
-}
+const as = (who: keyof typeof DEMO_ACCOUNTS, path: string): Promise<Page> => signedInPage(DEMO_ACCOUNTS[who].email, DEMO_PASSWORD, path)
 
 beforeAll(async () => {
   mentorApi = await signedIn(DEMO_ACCOUNTS.mentor.email, DEMO_PASSWORD)

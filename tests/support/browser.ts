@@ -39,6 +39,15 @@ export async function signInThroughForm(page: Page, email: string, password: str
   await form.locator('button[type="submit"]').click()
 }
 
+/** A fresh page signed in through the form, then at `path`. */
+export async function signedInPage(email: string, password: string, path: string): Promise<Page> {
+  const page = await tabletPage('')
+  await signInThroughForm(page, email, password)
+  await page.waitForURL((u) => u.pathname !== '/sign-in')
+  await page.goto(new URL(path, page.url()).toString(), { waitUntil: 'networkidle' })
+  return page
+}
+
 export async function screenshot(page: Page, name: string): Promise<void> {
   mkdirSync(ARTEFACTS, { recursive: true })
   await page.screenshot({ path: path.join(ARTEFACTS, `${name}.png`), fullPage: true })

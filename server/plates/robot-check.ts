@@ -1,0 +1,97 @@
+// A robot against its program's rule profile, and the event kit: spares of every plate.
+import { createError } from 'h3'
+import { sql } from 'kysely'
+import { checkRobotPlates, scaleToPlacement, type PlacedPlate } from '../../shared/plates/check'
+import type { RobotSide } from '../../shared/plates/profiles'
+import type { EventKit, PlateFacts, RobotPlateCheck } from '../../shared/types/plates'
+import { inTransaction, type Db } from '../platform/db'
+import { flags, type Actor } from '../policy'
+import { queueJob } from '../jobs/service'
+import type { RobotRow } from '../robots/queries'
+import { chosenProfile, resolveProfile } from './queries'
+
+/** The robot's placements of generated plate layers (not the removed ones). */
+function platePlacements(db: Db, robotId: number) {
+  return db.selectFrom('placement')
+    .innerJoin('revision', 'revision.id', 'placement.revision_id')
+    .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
+    .innerJoin('film', 'film.id', 'placement.film_id')
+    .select(['placement.id', 'placement.side', 'placement.spot', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.film_id',
+      'revision.width_mm as revision_width', 'revision.height_mm as revision_height', 'artwork.title',
+      sql<PlateFacts>`revision.plate`.as('plate'), 'film.colour as film_colour', 'film.name as film_name', 'film.cleared as film_cleared', 'film.retired as film_retired'])
+    .where('placement.robot_id', '=', robotId).where('placement.removed_at', 'is', null).where('revision.origin', '=', 'generated')
+    .orderBy('placement.id').execute()
+}
+
+type PlateRow = Awaited<ReturnType<typeof platePlacements>>[number]
+
+/**
+ * The plates as the check sees them: each numerals placement with a side is a plate; its
+ * background is the placement of the same generated plate's background layer on the same side.
+ * Sizes are measured on the revision's vector and scaled to the placement's width.
+ */
+export function placedPlates(rows: PlateRow[]): { row: PlateRow; plate: PlacedPlate }[] {
+  const numerals = rows.filter((r) => r.plate.role === 'numerals' && r.side !== null)
+  return numerals.map((row) => {
+    const under = rows.find((b) => b.plate.role === 'background' && b.plate.group === row.plate.group && b.side === row.side)
+    const m = row.plate.measured
+    const scaled = scaleToPlacement({
+      numeralHeightMm: m.tallestPieceMm, strokeMm: m.strokeMm, marginMm: m.marginMm,
+      plateWidthMm: row.revision_width, plateHeightMm: row.revision_height,
+    }, row.revision_width, row.width_mm)
+    return {
+      row,
+      plate: {
+        side: row.side as RobotSide, spot: row.spot, ...scaled,
+        backgroundColour: under ? under.film_colour : null, numeralColour: row.film_colour,
+        quantity: row.quantity, spares: row.spares,
+      },
+    }
+  })
+}
+
+export async function robotPlateCheck(db: Db, actor: Actor, robot: RobotRow): Promise<RobotPlateCheck> {
+  const [chosen, rows] = await Promise.all([chosenProfile(db, robot.programId), platePlacements(db, robot.id)])
+  const profile = chosen ? resolveProfile(chosen) : null
+  const plates = placedPlates(rows)
+  return {
+    profile: chosen && profile
+      ? { id: chosen.id, name: chosen.name, competition: profile.competition, season: profile.season, manual: profile.manual, notice: profile.notice }
+      : null,
+    results: profile ? checkRobotPlates(profile, plates.map((p) => p.plate)) : [],
+    plates: plates.map(({ row, plate }) => ({
+      placementId: row.id, side: plate.side, title: row.title, numeralHeightMm: plate.numeralHeightMm, strokeMm: plate.strokeMm,
+      numeralColour: plate.numeralColour, backgroundColour: plate.backgroundColour,
+    })),
+    kitPlacements: rows.length,
+    can: flags(actor, ['placement.reprint'], robot),
+  }
+}
+
+export const EVENT_KIT_REASON = 'Event kit: spares to travel with the robot.'
+
+/**
+ * Queues spares of every plate layer placed on the robot, one reprint job per placement (its
+ * spares, at least one), all in one transaction: the kit is queued whole or not at all. The
+ * caller has found the robot and checked `placement.reprint`.
+ */
+export async function queueEventKit(db: Db, actor: Actor, robot: RobotRow): Promise<EventKit> {
+  return inTransaction(db, async (trx) => {
+    // Lock the robot's placements so an edit at the same time waits for the kit.
+    await trx.selectFrom('placement').select('id').where('robot_id', '=', robot.id).where('removed_at', 'is', null).forUpdate().execute()
+    const rows = await platePlacements(trx, robot.id)
+    if (rows.length === 0) throw createError({ statusCode: 409, message: 'No plates are placed on this robot: generate a plate and place it first.' })
+    const blocked = rows.find((r) => !r.film_cleared || r.film_retired)
+    if (blocked) {
+      throw createError({ statusCode: 422, message: `“${blocked.title}” is placed in ${blocked.film_name}, which may not be cut now: place it again in another film, then queue the kit.` })
+    }
+    const jobIds: number[] = []
+    for (const r of rows) {
+      jobIds.push(await queueJob(trx, actor, {
+        placementId: r.id, filmId: r.film_id, kind: 'reprint', quantity: Math.max(r.spares, 1), widthMm: r.width_mm, reason: EVENT_KIT_REASON,
+        teamId: robot.teamId, robotId: robot.id, robotName: robot.name, title: r.title, spot: r.spot,
+      }))
+    }
+    return { jobIds }
+  })
+}

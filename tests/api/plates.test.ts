@@ -1,0 +1,272 @@
+// Number plates end to end: a program's rule profiles, plates generated as artworks and
+// measured from their stored vectors, robots checked against the rules, and the event kit.
+// Team numbers and names are invented.
+import { beforeAll, describe, expect, it } from 'vitest'
+import { svgPathProperties } from 'svg-path-properties'
+import type { RuleProfile } from '../../shared/plates/profiles'
+import { formatMmText } from '../../shared/plates/check'
+import { EVENT_KIT_REASON } from '../../server/plates/robot-check'
+import { signedIn, type ApiClient } from '../support/client'
+import { testDb } from '../support/db'
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
+import { buildProgram } from '../support/fixtures'
+
+let student: ApiClient
+let mentor: ApiClient
+let wrens: number
+const stamp = Date.now().toString(36)
+
+const filmBody = (name: string, colour: string, colourHex: string) => ({
+  name, polymerCode: 'PET', colour, colourHex, opacity: 'opaque', thicknessMm: 0.08,
+  sheetWidthMm: 300, sheetHeightMm: 300, minFeatureMm: 0.8, laserPowerPct: 60, laserSpeedMmS: 10, laserPasses: 1, sheetsOnHand: 20,
+})
+const films = {} as Record<'white' | 'red' | 'black', number>
+
+beforeAll(async () => {
+  const db = testDb()
+  wrens = (await db.selectFrom('team').select('id').where('name', '=', 'Copper Wrens').executeTakeFirstOrThrow()).id
+  student = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
+  mentor = await signedIn(DEMO_ACCOUNTS.mentor.email, DEMO_PASSWORD)
+  for (const [key, colour, hex] of [['white', 'Bright white', '#fafafa'], ['red', 'Signal red', '#c0282d'], ['black', 'Gloss black', '#111111']] as const) {
+    const r = await mentor.post('/api/films', filmBody(`Plate ${colour} ${stamp}`, colour, hex))
+    expect(r.status, JSON.stringify(r.body)).toBe(201)
+    films[key] = r.body.id
+  }
+})
+
+describe('rule profiles', () => {
+  let ftcRef: number
+  let copy: { id: number; profile: RuleProfile }
+
+  it('a mentor follows a shipped preset and chooses it for the program; asking again finds the same profile', async () => {
+    const r = await mentor.post('/api/rule-profiles', { presetKey: 'ftc-2025-26' })
+    expect(r.status, JSON.stringify(r.body)).toBe(201)
+    expect(r.body).toMatchObject({ presetKey: 'ftc-2025-26', editable: false, profile: { key: 'ftc-2025-26', season: '2025–26' } })
+    ftcRef = r.body.id
+    expect((await mentor.post('/api/rule-profiles', { presetKey: 'ftc-2025-26' })).body.id).toBe(ftcRef)
+    const chosen = await mentor.put('/api/program/rule-profile', { ruleProfileId: ftcRef })
+    expect(chosen.status, JSON.stringify(chosen.body)).toBe(200)
+    expect(chosen.body.chosenId).toBe(ftcRef)
+    // Everyone in the program reads the profile that applies; only a mentor may change it.
+    const page = (await student.get('/api/rule-profiles')).body
+    expect(page.chosenId).toBe(ftcRef)
+    expect(page.can['program.manage']).toBe(false)
+    expect(page.presets.map((p: RuleProfile) => p.key)).toEqual(['frc-2023', 'ftc-2025-26', 'v5rc-2024-25'])
+  })
+
+  it('a preset cannot be edited, only copied; the copy keeps the manual and rule beside each value and marks what the program changed', async () => {
+    expect((await mentor.patch(`/api/rule-profiles/${ftcRef}`, { name: 'Ours' })).status).toBe(409)
+    const r = await mentor.post('/api/rule-profiles', { copyOf: ftcRef, name: `FTC with a stroke rule ${stamp}` })
+    expect(r.status, JSON.stringify(r.body)).toBe(201)
+    expect(r.body).toMatchObject({ editable: true, presetKey: null, copiedFrom: 'FIRST Tech Challenge 2025–26' })
+    const profile: RuleProfile = r.body.profile
+    expect(profile.key).not.toBe('ftc-2025-26')
+    // A stroke rule of our own: 5 mm.
+    profile.numerals.minStroke = { value: { value: 5, unit: 'mm' }, source: { manual: profile.manual, rule: 'R403', provenance: 'from this issue' } }
+    const e = await mentor.patch(`/api/rule-profiles/${r.body.id}`, { profile })
+    expect(e.status, JSON.stringify(e.body)).toBe(200)
+    expect(e.body.profile.numerals.minStroke.source.provenance).toBe('set by the program')
+    // Unchanged values keep where they came from.
+    expect(e.body.profile.numerals.minHeight.source).toEqual({ manual: 'FIRST Tech Challenge 2025–26 Competition Manual', rule: 'R403', provenance: 'from this issue' })
+    copy = e.body
+    // A profile that contradicts itself is refused beside its field.
+    const bad = structuredClone(profile)
+    bad.numerals.maxHeight = { value: { value: 1, unit: 'in' }, source: bad.numerals.minHeight!.source }
+    const refused = await mentor.patch(`/api/rule-profiles/${copy.id}`, { profile: bad })
+    expect(refused.status).toBe(400)
+  })
+
+  it('students cannot add, edit or choose profiles (403)', async () => {
+    expect((await student.post('/api/rule-profiles', { presetKey: 'frc-2023' })).status).toBe(403)
+    expect((await student.patch(`/api/rule-profiles/${copy.id}`, { name: 'Student rules' })).status).toBe(403)
+    expect((await student.put('/api/program/rule-profile', { ruleProfileId: copy.id })).status).toBe(403)
+    expect((await student.get(`/api/rule-profiles/${copy.id}`)).status).toBe(200)
+  })
+
+  it('another program\'s profile does not exist here (404), and cannot be chosen', async () => {
+    const db = testDb()
+    const far = await buildProgram(db)
+    const theirs = await db.insertInto('rule_profile').values({ program_id: far.id, name: 'Far rules', preset_key: 'v5rc-2024-25', created_by: far.mentor })
+      .returning('id').executeTakeFirstOrThrow()
+    expect((await mentor.get(`/api/rule-profiles/${theirs.id}`)).status).toBe(404)
+    expect((await mentor.patch(`/api/rule-profiles/${theirs.id}`, { name: 'Mine now' })).status).toBe(404)
+    expect((await mentor.put('/api/program/rule-profile', { ruleProfileId: theirs.id })).status).toBe(400)
+    expect((await mentor.get('/api/rule-profiles')).body.profiles.map((p: { id: number }) => p.id)).not.toContain(theirs.id)
+    // The database holds it too: a program points only at its own profiles.
+    const demo = await db.selectFrom('program').select('id').where('name', '=', 'Harbourline Robotics').executeTakeFirstOrThrow()
+    await expect(db.updateTable('program').set({ rule_profile_id: theirs.id }).where('id', '=', demo.id).execute()).rejects.toThrow(/program_rule_profile_own/)
+  })
+
+  it('the copy with the stroke rule becomes the program\'s profile for the plates below', async () => {
+    expect((await mentor.put('/api/program/rule-profile', { ruleProfileId: copy.id })).body.chosenId).toBe(copy.id)
+  })
+})
+
+interface Plate { numerals: { artworkId: number; revisionId: number }; background: { artworkId: number; revisionId: number } }
+
+/** Bounding box of every point of the path, sampled every 0.01 mm along it by svg-path-properties. */
+function pathBounds(svg: string) {
+  const d = /\bd="([^"]+)"/.exec(svg)![1]!
+  const props = new svgPathProperties(d)
+  let minY = Infinity, maxY = -Infinity
+  const total = props.getTotalLength()
+  for (let s = 0; s <= total; s += 0.01) {
+    const p = props.getPointAtLength(s)
+    minY = Math.min(minY, p.y)
+    maxY = Math.max(maxY, p.y)
+  }
+  return { minY, maxY }
+}
+
+describe('the plate generator', () => {
+  let plate: Plate
+
+  it('previews at the profile\'s rules without storing anything, and refuses numerals outside them', async () => {
+    const before = await testDb().selectFrom('artwork').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()
+    const r = await student.post(`/api/teams/${wrens}/plates/preview`, { teamNumber: '4711', numeralHeightMm: 50, backgroundColour: 'red' })
+    expect(r.status, JSON.stringify(r.body)).toBe(200)
+    expect(r.body.layers.map((l: { role: string; colour: string }) => `${l.role} ${l.colour}`)).toEqual(['background red', 'numerals white'])
+    // FTC R402: at least 6.5 × 2.5 in, 1 in = 25.4 mm exactly.
+    expect(r.body.widthMm).toBeGreaterThanOrEqual(6.5 * 25.4)
+    expect(r.body.heightMm).toBeGreaterThanOrEqual(2.5 * 25.4)
+    const after = await testDb().selectFrom('artwork').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()
+    expect(after.n).toBe(before.n)
+    // FTC R403: 2.25 ± 0.5 in, so 30 mm (1.18 in) is too small.
+    const small = await student.post(`/api/teams/${wrens}/plates/preview`, { teamNumber: '4711', numeralHeightMm: 30 })
+    expect(small.status).toBe(422)
+    expect(small.body.data.fieldErrors.numeralHeightMm[0]).toMatch(/outside the rules/)
+    const green = await student.post(`/api/teams/${wrens}/plates/preview`, { teamNumber: '4711', backgroundColour: 'green' })
+    expect(green.status).toBe(422)
+    expect(green.body.data.fieldErrors.backgroundColour[0]).toMatch(/red or blue/)
+    // The demo team's number is not plate-shaped: the form must be given one.
+    const own = await student.post(`/api/teams/${wrens}/plates/preview`, {})
+    expect(own.status).toBe(422)
+  })
+
+  it('makes two single-colour artworks, each an exact generated revision with only a vector', async () => {
+    const r = await student.post(`/api/teams/${wrens}/plates`, { teamNumber: '4711', numeralHeightMm: 50, backgroundColour: 'red' })
+    expect(r.status, JSON.stringify(r.body)).toBe(201)
+    expect(r.body.artworks.map((a: { title: string }) => a.title)).toEqual(['Plate 4711: background (red)', 'Plate 4711: numerals (white)'])
+    plate = {
+      background: r.body.artworks.find((a: { role: string }) => a.role === 'background'),
+      numerals: r.body.artworks.find((a: { role: string }) => a.role === 'numerals'),
+    }
+    const rev = (await student.get(`/api/revisions/${plate.numerals.revisionId}`)).body
+    expect(rev).toMatchObject({ origin: 'generated', number: 1, status: 'draft', source: null, files: { prepared: null, outline: null, source: null } })
+    expect(rev.plate).toMatchObject({ role: 'numerals', colour: 'white', teamNumber: '4711', numeralHeightMm: 50, font: { family: 'Work Sans', licence: 'OFL-1.1' } })
+    expect((await student.get(`/api/revisions/${plate.numerals.revisionId}/prepared.png`)).status).toBe(404)
+    // A generated plate has nothing to tune.
+    expect((await mentor.post(`/api/artworks/${plate.numerals.artworkId}/revisions`, { settings: {}, widthMm: 100 })).status).toBe(409)
+  })
+
+  it('measures the stored numerals: height within 0.05 mm of the asked 50 mm, stroke at least the profile\'s 5 mm', async () => {
+    const rev = (await student.get(`/api/revisions/${plate.numerals.revisionId}`)).body
+    expect(Math.abs(rev.plate.measured.tallestPieceMm - 50)).toBeLessThanOrEqual(0.05)
+    expect(rev.plate.measured.strokeMm).toBeGreaterThanOrEqual(5)
+    expect(rev.measurements.narrowestFeatureMm).toBe(rev.plate.measured.strokeMm)
+    // A second reading of the stored SVG with svg-path-properties (npm), independent of our
+    // geometry code: "4711" has flat tops and bottoms in this font (its figures 1, 4 and 7 span
+    // the same 0–660 font units), so the whole ink's height is the numerals' height.
+    const svg = await fetch(new URL(`/api/revisions/${plate.numerals.revisionId}/vector.svg`, student.baseUrl), { headers: { cookie: [...student.cookies].map(([k, v]) => `${k}=${v}`).join('; ') } }).then((x) => x.text())
+    const b = pathBounds(svg)
+    expect(Math.abs(b.maxY - b.minY - 50)).toBeLessThanOrEqual(0.05)
+  })
+
+  it('goes through review like any artwork and can then be placed', async () => {
+    for (const a of [plate.numerals, plate.background]) {
+      expect((await student.post(`/api/revisions/${a.revisionId}/submit`)).status).toBe(200)
+      const r = await mentor.post(`/api/revisions/${a.revisionId}/review`, { decision: 'approve' })
+      expect(r.status, JSON.stringify(r.body)).toBe(200)
+    }
+  })
+
+  describe('robot checks and the event kit', () => {
+    let robotId: number
+    let widthMm: number
+    let numeralHeight: number
+
+    const place = async (revisionId: number, filmId: number, side: string, spot: string, width: number, spares = 1) => {
+      const r = await mentor.post('/api/placements', { robotId, revisionId, filmId, spot, side, widthMm: width, quantity: 1, spares })
+      expect(r.status, JSON.stringify(r.body)).toBe(201)
+      return r.body
+    }
+    const check = async () => {
+      const r = await student.get(`/api/robots/${robotId}/plate-check`)
+      expect(r.status, JSON.stringify(r.body)).toBe(200)
+      return r.body as { results: { rule: string; passed: boolean; sentence: string }[]; kitPlacements: number }
+    }
+    const result = (c: Awaited<ReturnType<typeof check>>, rule: string) => c.results.find((x) => x.rule === rule)!
+
+    beforeAll(async () => {
+      const r = await mentor.post('/api/robots', { teamId: wrens, name: `Plate bot ${stamp}`, season: '2025–26' })
+      robotId = r.body.id
+      const rev = (await mentor.get(`/api/revisions/${plate.numerals.revisionId}`)).body
+      widthMm = rev.widthMm
+      numeralHeight = rev.plate.measured.tallestPieceMm
+    })
+
+    it('one plate on the front: everything passes but the sides', async () => {
+      const p = await place(plate.numerals.revisionId, films.white, 'front', 'front bumper', widthMm, 2)
+      expect(p.side).toBe('front')
+      await place(plate.background.revisionId, films.red, 'front', 'front bumper', widthMm, 2)
+      const c = await check()
+      // Worked by hand: the FTC profile asks for two plates at least 90° apart (R401); only the front has one.
+      expect(result(c, 'sides')).toMatchObject({ passed: false, sentence: 'Plates only on the front: the rules ask for two plates at least 90° apart.' })
+      expect(c.results.filter((x) => !x.passed).map((x) => x.rule)).toEqual(['sides'])
+    })
+
+    it('a second side passes the side rule; black numerals on it are the wrong colour', async () => {
+      await place(plate.numerals.revisionId, films.black, 'back', 'back bumper', widthMm)
+      await place(plate.background.revisionId, films.red, 'back', 'back bumper', widthMm)
+      const c = await check()
+      expect(result(c, 'sides')).toMatchObject({ passed: true, sentence: 'Plates on the front and back: two plates at least 90° apart, as the rules ask.' })
+      expect(result(c, 'numeral-colour')).toMatchObject({
+        passed: false, sentence: 'The numerals on the back plate (back bumper) are black: the rules ask for white numerals.',
+      })
+    })
+
+    let leftId: number
+    it('numerals placed at half size are too small, and that plate has no background', async () => {
+      leftId = (await place(plate.numerals.revisionId, films.white, 'left', 'left panel', widthMm / 2)).id
+      const c = await check()
+      // Half the measured height; the FTC range is 1.75 to 2.75 in = 44.45 to 69.85 mm.
+      expect(result(c, 'numeral-height')).toMatchObject({
+        passed: false,
+        sentence: `The numerals on the left plate (left panel) are ${formatMmText(numeralHeight / 2)} mm tall: the rules ask for numerals 44.45 to 69.85 mm tall (1.75 to 2.75 in).`,
+      })
+      expect(result(c, 'background').sentence).toMatch(/^The left plate \(left panel\) has no background film: the rules ask for a red or blue background\.$/)
+      expect(c.kitPlacements).toBe(5)
+    })
+
+    it('a placement\'s side can be changed, and the check follows it', async () => {
+      const r = await mentor.patch(`/api/placements/${leftId}`, { side: 'top' })
+      expect(r.status, JSON.stringify(r.body)).toBe(200)
+      expect(r.body.placement.side).toBe('top')
+      const c = await check()
+      expect(result(c, 'numeral-height').sentence).toMatch(/^The numerals on the top plate \(left panel\) are /)
+    })
+
+    it('the event kit queues one reprint job per plate placement, in one request', async () => {
+      const r = await student.post(`/api/robots/${robotId}/event-kit`)
+      expect(r.status, JSON.stringify(r.body)).toBe(201)
+      expect(r.body.jobIds).toHaveLength(5)
+      const jobs = await testDb().selectFrom('job').innerJoin('placement', 'placement.id', 'job.placement_id')
+        .select(['job.kind', 'job.quantity', 'job.reason', 'placement.spares', 'placement.side']).where('job.id', 'in', r.body.jobIds).orderBy('job.id').execute()
+      expect(jobs.map((j) => [j.kind, j.side, j.quantity])).toEqual([
+        ['reprint', 'front', 2], ['reprint', 'front', 2], ['reprint', 'back', 1], ['reprint', 'back', 1], ['reprint', 'top', 1],
+      ])
+      expect(new Set(jobs.map((j) => j.reason))).toEqual(new Set([EVENT_KIT_REASON]))
+    })
+
+    it('the kit is queued whole or not at all: one plate in a retired film refuses it, and no job is added', async () => {
+      const count = async () => (await testDb().selectFrom('job').innerJoin('placement', 'placement.id', 'job.placement_id')
+        .select((eb) => eb.fn.countAll<number>().as('n')).where('placement.robot_id', '=', robotId).executeTakeFirstOrThrow()).n
+      const before = await count()
+      expect((await mentor.patch(`/api/films/${films.black}`, { retired: true, retiredReason: 'Roll used up' })).status).toBe(200)
+      const r = await student.post(`/api/robots/${robotId}/event-kit`)
+      expect(r.status).toBe(422)
+      expect(r.body.message).toMatch(/may not be cut now/)
+      expect(await count()).toBe(before)
+    })
+  })
+})
