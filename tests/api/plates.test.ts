@@ -8,12 +8,13 @@ import { formatMmText } from '../../shared/plates/check'
 import { EVENT_KIT_REASON } from '../../server/plates/robot-check'
 import { signedIn, type ApiClient } from '../support/client'
 import { testDb } from '../support/db'
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
-import { buildProgram } from '../support/fixtures'
+import { hashPassword } from '../../server/platform/passwords'
+import { buildProgram, type ProgramFixture } from '../support/fixtures'
 
 let student: ApiClient
 let mentor: ApiClient
 let wrens: number
+let program: ProgramFixture
 const stamp = Date.now().toString(36)
 
 const filmBody = (name: string, colour: string, colourHex: string) => ({
@@ -23,10 +24,14 @@ const filmBody = (name: string, colour: string, colourHex: string) => ({
 const films = {} as Record<'white' | 'red' | 'black', number>
 
 beforeAll(async () => {
+  // A program of its own: choosing rules here must not change what other test files see.
   const db = testDb()
-  wrens = (await db.selectFrom('team').select('id').where('name', '=', 'Copper Wrens').executeTakeFirstOrThrow()).id
-  student = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
-  mentor = await signedIn(DEMO_ACCOUNTS.mentor.email, DEMO_PASSWORD)
+  const password = 'fixture-password-123'
+  program = await buildProgram(db, { passwordHash: await hashPassword(password) })
+  wrens = program.teams[0].id
+  await db.updateTable('team').set({ number: 'HL-9' }).where('id', '=', wrens).execute()
+  student = await signedIn(program.emails.get(program.teams[0].student)!, password)
+  mentor = await signedIn(program.emails.get(program.mentor)!, password)
   for (const [key, colour, hex] of [['white', 'Bright white', '#fafafa'], ['red', 'Signal red', '#c0282d'], ['black', 'Gloss black', '#111111']] as const) {
     const r = await mentor.post('/api/films', filmBody(`Plate ${colour} ${stamp}`, colour, hex))
     expect(r.status, JSON.stringify(r.body)).toBe(201)
@@ -93,8 +98,7 @@ describe('rule profiles', () => {
     expect((await mentor.put('/api/program/rule-profile', { ruleProfileId: theirs.id })).status).toBe(400)
     expect((await mentor.get('/api/rule-profiles')).body.profiles.map((p: { id: number }) => p.id)).not.toContain(theirs.id)
     // The database holds it too: a program points only at its own profiles.
-    const demo = await db.selectFrom('program').select('id').where('name', '=', 'Harbourline Robotics').executeTakeFirstOrThrow()
-    await expect(db.updateTable('program').set({ rule_profile_id: theirs.id }).where('id', '=', demo.id).execute()).rejects.toThrow(/program_rule_profile_own/)
+    await expect(db.updateTable('program').set({ rule_profile_id: theirs.id }).where('id', '=', program.id).execute()).rejects.toThrow(/program_rule_profile_own/)
   })
 
   it('the copy with the stroke rule becomes the program\'s profile for the plates below', async () => {
@@ -138,7 +142,7 @@ describe('the plate generator', () => {
     const green = await student.post(`/api/teams/${wrens}/plates/preview`, { teamNumber: '4711', backgroundColour: 'green' })
     expect(green.status).toBe(422)
     expect(green.body.data.fieldErrors.backgroundColour[0]).toMatch(/red or blue/)
-    // The demo team's number is not plate-shaped: the form must be given one.
+    // This team's number is not plate-shaped: the form must be given one.
     const own = await student.post(`/api/teams/${wrens}/plates/preview`, {})
     expect(own.status).toBe(422)
   })

@@ -16,14 +16,17 @@ export const SERVICE_PG_PORT = 54349 + offset
 declare module 'vitest' {
   export interface ProvidedContext {
     serviceDatabaseUrl: string
+    cutSheetWorker: string
   }
 }
 
 export default async function setup(project: TestProject) {
   const dir = path.resolve(`${process.env.DECALWRIGHT_TEST_STORAGE ?? 'storage/test'}-service`)
   rmSync(dir, { recursive: true, force: true })
-  // The test workers inherit the environment and find the worker where the pool looks first.
-  process.env.DECALWRIGHT_CUTSHEET_WORKER = await buildCutSheetWorker(path.resolve('node_modules/.cache/decalwright-service'))
+  // Handed to this project's test workers only (tests/support/service.ts): the app of the e2e
+  // project, started from the same process, must keep the worker bundled beside its own server,
+  // which shares the server's copy of piscina.
+  const cutSheetWorker = await buildCutSheetWorker(path.resolve('node_modules/.cache/decalwright-service'))
   const pg = await startPostgres({ dir, port: SERVICE_PG_PORT })
   try {
     const db = createDb(pg.url, 1)
@@ -34,5 +37,6 @@ export default async function setup(project: TestProject) {
     throw err
   }
   project.provide('serviceDatabaseUrl', pg.url)
+  project.provide('cutSheetWorker', cutSheetWorker)
   return () => pg.stop()
 }

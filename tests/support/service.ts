@@ -12,6 +12,9 @@ import type { Actor } from '../../server/policy'
 
 export interface SentMail { to: string[]; subject: string; text: string }
 
+// The cut sheets' worker bundled for this project (tests/setup/postgres.ts); the pool looks here first.
+process.env.DECALWRIGHT_CUTSHEET_WORKER = inject('cutSheetWorker')
+
 const outbox: SentMail[] = []
 let failMail = false
 
