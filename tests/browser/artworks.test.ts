@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import sharp from 'sharp'
 import type { Page } from 'playwright-core'
-import { setupBrowser, signInThroughForm, tabletPage, screenshot } from '../support/browser'
+import { setupBrowser, signInThroughForm, tabletPage, screenshot, followNav } from '../support/browser'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 
 await setupBrowser()
@@ -226,7 +226,7 @@ describe('from a phone photo to revisions, in the browser', () => {
     await expect.poll(() => page.locator('[data-test="recent-artworks"]').innerText()).toContain(title)
     await screenshot(page, 'program-recent-artworks')
 
-    await page.locator('[data-test="nav-artworks"]').first().click()
+    await followNav(page, 'artworks')
     await page.waitForURL((u) => u.pathname === '/artworks')
     const teamSelect = page.locator('select[name="teamId"]')
     await expect.poll(() => teamSelect.locator('option').allInnerTexts()).toEqual(['All teams', 'Copper Wrens', 'Tidewater Sprockets'])
