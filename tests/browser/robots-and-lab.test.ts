@@ -68,7 +68,7 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     expect(words).toContain('Copper Wrens')
     expect(words).toContain(DEMO_ACCOUNTS.student.name)
     expect(words).toContain(`60 × ${oneDecimal(heightMm)} mm`)
-    expect(words).toMatch(/Narrowest feature/)
+    expect(words).toMatch(/Narrowest stroke/)
     expect(words).toMatch(/Fidelity\s+\d+\.\d %/)
     // The drawing itself is shown, and the card links to the artwork at this revision.
     await expect.poll(() => card.locator('img').evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBeGreaterThan(0)
