@@ -36,7 +36,7 @@ describe('signing in, per role', () => {
         await expect.poll(() => page.locator('[data-test="refusal"]').textContent()).toMatch(/for the program’s mentors.*start page/)
         await followNav(page, 'robots')
         await page.waitForURL((u) => u.pathname === '/robots')
-        expect(await page.locator('[data-test="refusal"]').count()).toBe(0)
+        await expect.poll(() => page.locator('[data-test="refusal"]').count()).toBe(0)
       }
       await page.close()
     })
