@@ -30,7 +30,7 @@ let heightMm: number
 
 const url = (page: Page, path: string) => new URL(path, page.url()).toString()
 const byTest = (page: Page, test: string) => page.locator(`[data-test="${test}"]`)
-/** A size as the pages write it: one decimal at most (app/utils/artworks.ts, formatNumber). */
+/** A size as the pages write it: one decimal at most (app/utils/format.ts, formatNumber). */
 const oneDecimal = (v: number) => new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 }).format(v)
 
 beforeAll(async () => {

@@ -2,7 +2,11 @@ import { describe, expect, it, inject } from 'vitest'
 import { getBrowser } from '@nuxt/test-utils/e2e'
 import type { Page } from 'playwright-core'
 import { setupBrowser, signInThroughForm, screenshot } from '../support/browser'
+import { signedIn } from '../support/client'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
+import { drawing } from '../support/images'
+import { teamId } from '../support/scenario'
+import { uploadArtwork } from '../support/upload'
 
 await setupBrowser()
 
@@ -99,5 +103,45 @@ describe('the shell around every page', () => {
     await page.goto(new URL('/robots', inject('baseUrl')).toString(), { waitUntil: 'networkidle' })
     expect(await page.locator('[data-test="refusal"]').count()).toBe(0)
     await context.close()
+  })
+
+  it('on the tuning bench, a control reached by keyboard is never hidden under the bar stuck to the top', async () => {
+    const student = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
+    const up = await uploadArtwork(student, { file: await drawing('png', 500, 300), title: `Focus check ${Date.now()}`, teamId: await teamId(), widthMm: 60 })
+    const page = await mentorAt(390)
+    await page.goto(new URL(`/artworks/${up.body.artwork.id}/bench`, inject('baseUrl')).toString(), { waitUntil: 'networkidle' })
+    const bar = page.locator('[data-sticky-bar]')
+    await bar.waitFor()
+    // Every control below the bar in turn: scroll it to just under the top edge, then reach it
+    // with Shift+Tab from the control after it.
+    const hidden = await page.evaluate(async () => {
+      const barEl = document.querySelector<HTMLElement>('[data-sticky-bar]')!
+      const controls = [...document.querySelectorAll<HTMLElement>('main input, main button, main select, main a[href]')]
+        .filter((el) => el.offsetParent && !barEl.contains(el) && !(el as HTMLButtonElement).disabled)
+      return controls.slice(0, Math.min(12, controls.length - 1)).map((el) => ({
+        label: el.getAttribute('name') ?? el.textContent?.trim().slice(0, 30) ?? el.tagName,
+        top: el.getBoundingClientRect().top + window.scrollY,
+      }))
+    })
+    const problems: string[] = []
+    for (const [i, c] of hidden.entries()) {
+      await page.evaluate((y) => window.scrollTo(0, y), Math.max(0, c.top - 8))
+      await page.evaluate((n) => {
+        const barEl = document.querySelector<HTMLElement>('[data-sticky-bar]')!
+        const controls = [...document.querySelectorAll<HTMLElement>('main input, main button, main select, main a[href]')]
+          .filter((el) => el.offsetParent && !barEl.contains(el) && !(el as HTMLButtonElement).disabled)
+        controls[n + 1]!.focus({ preventScroll: true })
+      }, i)
+      await page.keyboard.press('Shift+Tab')
+      const clear = await page.evaluate(() => {
+        const focused = document.activeElement!.getBoundingClientRect()
+        const barBox = document.querySelector<HTMLElement>('[data-sticky-bar]')!.getBoundingClientRect()
+        return focused.top >= barBox.bottom - 1 || focused.bottom <= barBox.top
+      })
+      if (!clear) problems.push(c.label)
+    }
+    expect(hidden.length).toBeGreaterThan(3)
+    expect(problems).toEqual([])
+    await page.context().close()
   })
 })
