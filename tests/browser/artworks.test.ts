@@ -146,7 +146,7 @@ describe('from a phone photo to revisions, in the browser', () => {
     await page.locator('[data-test="artwork-search"]').fill(title.split(' ').at(-1)!)
     await page.waitForURL((u) => u.searchParams.get('q') === title.split(' ').at(-1))
     await expect.poll(() => page.locator('[data-test="artworks-table"] tbody tr').count()).toBe(1)
-    expect(await page.locator('[data-test="artworks-table"] tbody tr').first().innerText()).toMatch(new RegExp(`Copper Wrens[\\s\\S]*${title}[\\s\\S]*r1[\\s\\S]*Draft`))
+    expect(await page.locator('[data-test="artworks-table"] tbody tr').first().innerText()).toMatch(new RegExp(`Copper Wrens[\\s\\S]*${title}[\\s\\S]*Revision 1[\\s\\S]*Draft`))
     expect(await text(page, 'page-range')).toBe('1–1 of 1')
     await screenshot(page, 'artwork-list-search')
     expect(errors).toEqual([])
