@@ -133,12 +133,13 @@ describe('the shell around every page', () => {
         controls[n + 1]!.focus({ preventScroll: true })
       }, i)
       await page.keyboard.press('Shift+Tab')
-      const clear = await page.evaluate(() => {
+      const hiddenOne = await page.evaluate(() => {
         const focused = document.activeElement!.getBoundingClientRect()
         const barBox = document.querySelector<HTMLElement>('[data-sticky-bar]')!.getBoundingClientRect()
-        return focused.top >= barBox.bottom - 1 || focused.bottom <= barBox.top
+        // Success criterion 2.4.11 (AA) asks that the focused control is not entirely hidden.
+        return focused.bottom > barBox.bottom + 1 || focused.bottom <= barBox.top ? null : (document.activeElement!.getAttribute('aria-label') ?? document.activeElement!.textContent?.trim().slice(0, 30) ?? '')
       })
-      if (!clear) problems.push(c.label)
+      if (hiddenOne !== null) problems.push(`${c.label} (focus on ${hiddenOne})`)
     }
     expect(hidden.length).toBeGreaterThan(3)
     expect(problems).toEqual([])
