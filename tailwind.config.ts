@@ -12,7 +12,7 @@ export default {
       },
       colors: {
         paper: { DEFAULT: '#f6f4ef', deep: '#ece8df', line: '#d9d3c7' },
-        ink: { DEFAULT: '#23211d', soft: '#5b574f', faint: '#8a857b' },
+        ink: { DEFAULT: '#23211d', soft: '#5b574f', faint: '#6b665d' },
         accent: { DEFAULT: '#0f6e6a', dark: '#0a4f4c', light: '#d6ecea' },
         caution: { DEFAULT: '#8a5a00', bg: '#fff4d6', line: '#e0b54a' },
         danger: { DEFAULT: '#a3261b', bg: '#fbe7e4' },

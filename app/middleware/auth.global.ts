@@ -1,6 +1,6 @@
 // One guard for every route: signed-out people reach only the public pages, and a page that
 // names its work in definePageMeta ({ can }) sends anyone the server says may not do it to
-// their own start page.
+// their own start page, where the shell says why.
 export default defineNuxtRouteMiddleware(async (to) => {
   const session = useSessionStore()
   const open = isPublicPath(to.path)
@@ -43,6 +43,8 @@ export default defineNuxtRouteMiddleware(async (to) => {
 
   // Never bounce someone away from their own start page, whatever it declares.
   if (!session.mayOpen(to.meta.can) && to.path !== me.home) {
-    return navigateTo(me.home, { replace: true })
+    // The address names the refused page, so the start page can say why (a redirect made on
+    // the server keeps it too).
+    return navigateTo({ path: me.home, query: { refused: to.path } }, { replace: true })
   }
 })

@@ -296,7 +296,7 @@ export const useBenchStore = defineStore('bench', () => {
         const revisions = [summary, ...artwork.value.revisions.filter((r) => r.id !== rev.id)].sort((a, b) => b.number - a.number)
         artwork.value = {
           ...artwork.value,
-          artwork: { ...artwork.value.artwork, revisionCount: revisions.length, latestRevision: { id: revisions[0]!.id, number: revisions[0]!.number } },
+          artwork: { ...artwork.value.artwork, revisionCount: revisions.length, latestRevision: { id: revisions[0]!.id, number: revisions[0]!.number, status: revisions[0]!.status } },
           revisions,
         }
       }

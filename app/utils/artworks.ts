@@ -1,8 +1,9 @@
 import { ARTWORK_STATUS_LABELS, type ArtworkStatus } from '#shared/types/artworks'
+import { JOB_STATE_LABELS, type JobState } from '#shared/types/robots'
 
-// Words and numbers for the artwork screens. One fixed locale, so the server-rendered page
-// and the browser agree on every digit.
-const LOCALE = 'en-GB'
+import { formatNumber } from './format'
+
+// Words and numbers for the artwork screens, through the one formatter in ./format.
 
 /** How an artwork's (or a revision's) status looks: always a word with an icon. */
 export function artworkStatusLook(status: ArtworkStatus | string): { kind: 'draft' | 'waiting' | 'ok' | 'caution' | 'off'; label: string } {
@@ -16,13 +17,14 @@ export function artworkStatusLook(status: ArtworkStatus | string): { kind: 'draf
   }
 }
 
-export function revisionLabel(n: number): string {
-  return `r${n}`
+/** How a job's state looks: a word with an icon. */
+export function jobStateLook(state: JobState): { kind: 'waiting' | 'ok' | 'off' | 'danger'; label: string } {
+  const kind = state === 'queued' ? 'waiting' : state === 'cancelled' ? 'off' : state === 'failed' ? 'danger' : 'ok'
+  return { kind, label: JOB_STATE_LABELS[state] }
 }
 
-/** A number with at most `digits` decimals (and at least `min`), grouped in thousands. */
-export function formatNumber(n: number, digits = 1, min = 0): string {
-  return new Intl.NumberFormat(LOCALE, { maximumFractionDigits: digits, minimumFractionDigits: Math.min(min, digits) }).format(n)
+export function revisionLabel(n: number): string {
+  return `r${n}`
 }
 
 /** Millimetres to a sensible precision: 0.01 mm below 10 mm, 0.1 mm above. */

@@ -1,6 +1,8 @@
 // Warnings about a preview or a revision, in the words of people who weed and apply decals.
 // Each names the setting that would fix it, so the bench can point at that control.
 import type { Measurements } from '#shared/types/pipeline'
+import { MEASURE, smallPiecesUnder } from '#shared/glossary'
+import { formatNumber } from './format'
 
 /**
  * Until film stock exists, the sheet a design must fit: 300 × 300 mm. A stated default, not a
@@ -58,9 +60,9 @@ const FIX_LABELS: Record<WarningFix, string> = {
   thickenToMm: 'thin strokes',
 }
 
-/** "24 000": thin spaces would be nicer, but a plain space reads everywhere. */
+/** "24,000": a whole number grouped in thousands, as every other page writes it. */
 export function groupThousands(n: number): string {
-  return Math.round(n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, ' ')
+  return formatNumber(Math.round(n), 0)
 }
 
 export function formatMmValue(mm: number): string {
@@ -122,16 +124,16 @@ export interface MeasurementLine {
 export function describeMeasurements(m: Measurements): MeasurementLine[] {
   const mm = (v: number) => `${formatMmValue(v)} mm`
   return [
-    { key: 'widthMm', label: 'Width', value: mm(m.widthMm), raw: m.widthMm },
-    { key: 'heightMm', label: 'Height', value: mm(m.heightMm), raw: m.heightMm },
-    { key: 'inkAreaMm2', label: 'Ink area', value: `${groupThousands(m.inkAreaMm2)} mm²`, raw: Math.round(m.inkAreaMm2) },
-    { key: 'cutLengthMm', label: 'Cut length', value: `${groupThousands(m.cutLengthMm)} mm`, raw: Math.round(m.cutLengthMm) },
-    { key: 'pieces', label: 'Pieces', value: String(m.pieces), raw: m.pieces },
-    { key: 'holes', label: 'Holes', value: String(m.holes), raw: m.holes },
-    { key: 'nodes', label: 'Nodes', value: groupThousands(m.nodes), raw: m.nodes },
-    { key: 'narrowestFeatureMm', label: 'Narrowest stroke', value: m.narrowestFeatureMm === null ? 'no ink' : mm(m.narrowestFeatureMm), raw: m.narrowestFeatureMm === null ? null : Number(m.narrowestFeatureMm.toFixed(2)) },
-    { key: 'smallPieces', label: `Pieces under ${formatMmValue(m.smallPieceLimitMm2)} mm²`, value: String(m.smallPieces), raw: m.smallPieces },
-    { key: 'fidelity', label: 'Fidelity', value: `${(m.fidelity * 100).toFixed(1)} %`, raw: Number((m.fidelity * 100).toFixed(1)) },
-    { key: 'threshold', label: 'Threshold used', value: String(m.threshold), raw: m.threshold },
+    { key: 'widthMm', label: MEASURE.width, value: mm(m.widthMm), raw: m.widthMm },
+    { key: 'heightMm', label: MEASURE.height, value: mm(m.heightMm), raw: m.heightMm },
+    { key: 'inkAreaMm2', label: MEASURE.inkArea, value: `${groupThousands(m.inkAreaMm2)} mm²`, raw: Math.round(m.inkAreaMm2) },
+    { key: 'cutLengthMm', label: MEASURE.cutLength, value: `${groupThousands(m.cutLengthMm)} mm`, raw: Math.round(m.cutLengthMm) },
+    { key: 'pieces', label: MEASURE.pieces, value: String(m.pieces), raw: m.pieces },
+    { key: 'holes', label: MEASURE.holes, value: String(m.holes), raw: m.holes },
+    { key: 'nodes', label: MEASURE.nodes, value: groupThousands(m.nodes), raw: m.nodes },
+    { key: 'narrowestFeatureMm', label: MEASURE.narrowest, value: m.narrowestFeatureMm === null ? 'no ink' : mm(m.narrowestFeatureMm), raw: m.narrowestFeatureMm === null ? null : Number(m.narrowestFeatureMm.toFixed(2)) },
+    { key: 'smallPieces', label: smallPiecesUnder(`${formatMmValue(m.smallPieceLimitMm2)} mm²`), value: String(m.smallPieces), raw: m.smallPieces },
+    { key: 'fidelity', label: MEASURE.fidelity, value: `${(m.fidelity * 100).toFixed(1)} %`, raw: Number((m.fidelity * 100).toFixed(1)) },
+    { key: 'threshold', label: MEASURE.threshold, value: String(m.threshold), raw: m.threshold },
   ]
 }

@@ -31,7 +31,7 @@ export function compareRows(a: CompareSide, b: CompareSide): CompareRow[] {
   for (let i = 0; i < ma.length; i++) {
     const x = ma[i]!
     const y = mb[i]!
-    // Labels can carry a limit ("Pieces under 1 mm²"); compare values by number where there is one.
+    // Labels can carry a limit ("Small pieces under 1 mm²"); compare values by number where there is one.
     const changed = x.raw !== null && y.raw !== null ? x.raw !== y.raw : x.value !== y.value
     rows.push({ group: 'measurement', key: x.key, label: x.label === y.label ? x.label : `${x.label} / ${y.label}`, a: x.value, b: y.value, changed })
   }

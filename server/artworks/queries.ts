@@ -1,6 +1,6 @@
 import { createError } from 'h3'
 import { sql } from 'kysely'
-import { jsonObjectFrom } from 'kysely/helpers/postgres'
+import { jsonArrayFrom, jsonObjectFrom } from 'kysely/helpers/postgres'
 import type { Db } from '../platform/db'
 import { teamScope, type Actor } from '../policy'
 
@@ -27,7 +27,9 @@ function withColumns(q: ReturnType<typeof visibleArtworks>) {
     'team.id as teamId', 'team.program_id as programId', 'team.name as team_name', 'team.colour as team_colour', 'author.name as author_name',
     // The exact timestamp, microseconds and all, for the next page's cursor.
     sql<string>`artwork.updated_at::text`.as('order_at'),
-    jsonObjectFrom(eb.selectFrom('revision').select(['revision.id', 'revision.number'])
+    // The latest revision with its own status: the artwork's may be an older revision's decision.
+    jsonObjectFrom(eb.selectFrom('revision').innerJoin('revision_status', 'revision_status.revision_id', 'revision.id')
+      .select(['revision.id', 'revision.number', 'revision_status.status'])
       .whereRef('revision.artwork_id', '=', 'artwork.id').orderBy('revision.number', 'desc').limit(1)).as('latest'),
     eb.selectFrom('revision').select(sql<number>`count(*)::int`.as('n')).whereRef('revision.artwork_id', '=', 'artwork.id').as('revision_count'),
   ])
@@ -99,4 +101,37 @@ export async function keysInUse(db: Db, keys: readonly string[]): Promise<Set<st
     .union(db.selectFrom('object_claim').select('key').where('key', 'in', list))
     .execute()
   return new Set(rows.map((r) => r.key))
+}
+
+/**
+ * Where the artwork's decals are: every placement (not removed) of any of its revisions, with
+ * its robot, spot and film and the jobs that cut it, in one query. The robots are the
+ * artwork's own team's, so whoever may see the artwork may see them.
+ */
+export function placementsOfArtwork(db: Db, artworkId: number) {
+  return db.selectFrom('placement')
+    .innerJoin('revision', 'revision.id', 'placement.revision_id')
+    .innerJoin('robot', 'robot.id', 'placement.robot_id')
+    .innerJoin('film', 'film.id', 'placement.film_id')
+    .select((eb) => [
+      'placement.id', 'placement.spot', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.spares_on_hand',
+      'revision.number', 'robot.id as robot_id', 'robot.name as robot_name', 'robot.season', 'film.id as film_id', 'film.name as film_name',
+      jsonArrayFrom(eb.selectFrom('job').select(['job.id', 'job.kind', 'job.state', 'job.quantity'])
+        .whereRef('job.placement_id', '=', 'placement.id').orderBy('job.id')).as('jobs'),
+    ])
+    .where('revision.artwork_id', '=', artworkId)
+    .where('placement.removed_at', 'is', null)
+    .orderBy('robot.name').orderBy('placement.id')
+    .execute()
+}
+
+/** The latest decision (approve or send back) on any of the artwork's revisions, with its comment. */
+export function lastDecision(db: Db, artworkId: number) {
+  return db.selectFrom('review_event')
+    .innerJoin('revision', 'revision.id', 'review_event.revision_id')
+    .innerJoin('users', 'users.id', 'review_event.actor_id')
+    .select(['review_event.action', 'review_event.comment', 'review_event.at', 'revision.number', 'users.name'])
+    .where('revision.artwork_id', '=', artworkId).where('review_event.action', 'in', ['approve', 'send-back'])
+    .orderBy('review_event.id', 'desc').limit(1)
+    .executeTakeFirst()
 }

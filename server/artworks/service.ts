@@ -13,7 +13,7 @@ import { runInPool } from '../platform/pipeline-pool'
 import { flags, type Actor, type TeamSubject } from '../policy'
 import { audit, by } from '../history/service'
 import { reviewHistory } from '../review/queries'
-import { artworkCount, artworkPage, findArtwork, findRevision, latestSource, revisionsOf, type ArtworkFilter, type ArtworkRow, type RevisionRow } from './queries'
+import { artworkCount, artworkPage, findArtwork, findRevision, lastDecision, latestSource, placementsOfArtwork, revisionsOf, type ArtworkFilter, type ArtworkRow, type RevisionRow } from './queries'
 import { abandonClaim, claimAndStore, settleClaim, type ObjectToStore } from './objects'
 import { inspectSource } from './sources'
 
@@ -24,7 +24,7 @@ function toListItem(r: ArtworkRow): ArtworkListItem {
     id: r.id, title: r.title, status: r.status,
     team: { id: r.teamId, name: r.team_name, colour: r.team_colour },
     author: r.author_name,
-    latestRevision: r.latest ? { id: r.latest.id, number: r.latest.number } : null,
+    latestRevision: r.latest ? { id: r.latest.id, number: r.latest.number, status: r.latest.status } : null,
     revisionCount: r.revision_count ?? 0,
     updatedAt: new Date(r.updated_at).toISOString(),
   }
@@ -53,10 +53,17 @@ function revisionSummary(r: { id: number; number: number; width_mm: number; heig
 
 /** The artwork's page. The caller has found it in the actor's scope. */
 export async function artworkDetail(db: Db, actor: Actor, row: ArtworkRow): Promise<ArtworkDetail> {
-  const revisions = await revisionsOf(db, row.id)
+  const [revisions, placed, decision] = await Promise.all([revisionsOf(db, row.id), placementsOfArtwork(db, row.id), lastDecision(db, row.id)])
   return {
     artwork: { ...toListItem(row), createdAt: new Date(row.created_at).toISOString() },
     revisions: revisions.map(revisionSummary),
+    placements: placed.map((p) => ({
+      id: p.id, spot: p.spot, widthMm: p.width_mm, quantity: p.quantity, spares: p.spares, sparesOnHand: p.spares_on_hand, revisionNumber: p.number,
+      robot: { id: p.robot_id, name: p.robot_name, season: p.season }, film: { id: p.film_id, name: p.film_name }, jobs: p.jobs,
+    })),
+    lastDecision: decision
+      ? { decision: decision.action === 'approve' ? 'approve' : 'send-back', comment: decision.comment, at: new Date(decision.at).toISOString(), by: decision.name, revisionNumber: decision.number }
+      : null,
     can: flags(actor, ['artwork.revise', 'revision.submit', 'revision.review'], row),
   }
 }

@@ -5,7 +5,7 @@ import type { AuditEntry, HistoryEntry, Page } from '#shared/types/api'
 import type { Db } from '../platform/db'
 import type { Actor } from '../policy'
 import { decodeCursor, pageOf } from '../platform/cursor'
-import { auditPage, cursorKey, historyLines, type HistoryOf } from './queries'
+import { auditPage, cursorKey, historyLines, type AuditFilter, type HistoryOf } from './queries'
 
 export interface AuditLine<A extends AuditAction> {
   /** Who and from where: `by(actor)`, or the same fields for someone not signed in yet. */
@@ -48,9 +48,9 @@ export function historyOf(db: Db, actor: Actor, of: HistoryOf): Promise<HistoryE
 }
 
 /** The program's activity, newest first, a page at a time. */
-export async function listAudit(db: Db, actor: Actor, o: { cursor?: string; limit: number }): Promise<Page<AuditEntry>> {
+export async function listAudit(db: Db, actor: Actor, o: AuditFilter & { cursor?: string; limit: number }): Promise<Page<AuditEntry>> {
   const after = decodeCursor(o.cursor, cursorKey)
-  const rows = await auditPage(db, actor.programId, after, o.limit + 1)
+  const rows = await auditPage(db, actor.programId, o, after, o.limit + 1)
   return pageOf(rows, o.limit, (r) => ({
     id: r.id, at: new Date(r.at).toISOString(), action: r.action,
     actor: r.actor_id ? { id: r.actor_id, name: r.actor_name! } : null,

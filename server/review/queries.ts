@@ -26,7 +26,12 @@ export function inReview(db: Db, programId: number, after: { at: string; id: num
     .innerJoin('users', 'users.id', 'revision.author_id')
     .select(['revision.id', 'revision.number', 'revision.measurements', 'revision.width_mm', 'revision.height_mm', 'artwork.id as artwork_id', 'artwork.title',
       'team.id as team_id', 'team.name as team_name', 'team.colour as team_colour', 'users.name as author', 'revision_status.updated_at',
-      sql<string>`revision_status.updated_at::text`.as('order_at')])
+      sql<string>`revision_status.updated_at::text`.as('order_at'),
+      // Revisions made after this one: the reviewer should know the team has moved on.
+      (eb) => eb.selectFrom('revision as later').select(sql<number>`count(*)::int`.as('n'))
+        .whereRef('later.artwork_id', '=', 'revision.artwork_id').whereRef('later.number', '>', 'revision.number').as('newer_count'),
+      (eb) => eb.selectFrom('revision as later').select(sql<number>`max(later.number)::int`.as('n'))
+        .whereRef('later.artwork_id', '=', 'revision.artwork_id').as('latest_number')])
     .where('team.program_id', '=', programId).where('revision_status.status', '=', 'in-review')
   if (after) q = q.where(sql<boolean>`(revision_status.updated_at, revision_status.revision_id) > (${after.at}::timestamptz, ${after.id})`)
   return q.orderBy('revision_status.updated_at').orderBy('revision_status.revision_id').limit(limit).execute()
@@ -35,4 +40,14 @@ export function inReview(db: Db, programId: number, after: { at: string; id: num
 export function activeMentorEmails(db: Db, programId: number) {
   return db.selectFrom('mentorship').innerJoin('users', 'users.id', 'mentorship.user_id')
     .select('users.email').where('mentorship.program_id', '=', programId).where('users.active', '=', true).execute()
+}
+
+/** Active people to tell of a decision: the revision's author and its latest submitter, without repeats. */
+export function decisionRecipients(db: Db, revisionId: number, authorId: number) {
+  const submitter = db.selectFrom('review_event').select('actor_id')
+    .where('revision_id', '=', revisionId).where('action', '=', 'submit').orderBy('id', 'desc').limit(1)
+  return db.selectFrom('users').select(['id', 'email', 'name'])
+    .where('active', '=', true)
+    .where((eb) => eb.or([eb('id', '=', authorId), eb('id', 'in', submitter)]))
+    .orderBy('id').execute()
 }

@@ -13,7 +13,7 @@ import { audit, by } from '../history/service'
 import { decisionMail, reviewRequestMail } from '../mail/templates'
 import { findRevision, type RevisionRow } from '../artworks/queries'
 import { revisionDetail } from '../artworks/service'
-import { activeMentorEmails, inReview, lockedStatus } from './queries'
+import { activeMentorEmails, decisionRecipients, inReview, lockedStatus } from './queries'
 
 function revisionUrl(artworkId: number, number: number): string {
   return absoluteUrl(`/artworks/${artworkId}?r=${number}`)
@@ -48,9 +48,9 @@ export async function reviewRevision(db: Db, actor: Actor, rev: RevisionRow, inp
     await trx.updateTable('artwork').set({ status: next, updated_at: new Date() }).where('id', '=', rev.artwork_id).execute()
     await trx.insertInto('review_event').values({ revision_id: rev.id, actor_id: actor.id, action: input.decision, comment: input.comment }).execute()
     await audit(trx, { ...by(actor), action: input.decision, subject: 'artwork', subjectId: rev.artwork_id, detail: { title: rev.title, revision: rev.number, comment: input.comment } })
-    const author = await trx.selectFrom('users').select(['email', 'name', 'active']).where('id', '=', rev.author_id).executeTakeFirstOrThrow()
-    if (author.active) {
-      await queueMail(trx, actor.programId, decisionMail({ to: author.email, name: author.name, title: rev.title, number: rev.number, decision: input.decision, reviewer: actor.name, comment: input.comment, url: revisionUrl(rev.artwork_id, rev.number) }))
+    // The revision's author and whoever submitted it (told on submitting that they would hear), each once.
+    for (const person of await decisionRecipients(trx, rev.id, rev.author_id)) {
+      await queueMail(trx, actor.programId, decisionMail({ to: person.email, name: person.name, title: rev.title, number: rev.number, decision: input.decision, reviewer: actor.name, comment: input.comment, url: revisionUrl(rev.artwork_id, rev.number) }))
     }
     return revisionDetail(trx, (await findRevision(trx, actor, rev.id))!)
   })
@@ -66,5 +66,6 @@ export async function reviewQueue(db: Db, actor: Actor, o: { cursor?: string; li
     team: { id: r.team_id, name: r.team_name, colour: r.team_colour },
     widthMm: r.width_mm, heightMm: r.height_mm, submittedAt: new Date(r.updated_at).toISOString(),
     vectorUrl: `/api/revisions/${r.id}/vector.svg`, measurements: r.measurements,
+    newerRevisions: r.newer_count ?? 0, latestNumber: r.latest_number ?? r.number,
   }), (r) => ({ at: r.order_at, id: r.id }))
 }

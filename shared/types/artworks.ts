@@ -1,6 +1,7 @@
 import type { CleanUpChoice, EngineVersions, Measurements, StageTimings } from './pipeline'
 import type { Can } from './policy'
 import type { PlateFacts, RevisionOrigin } from './plates'
+import type { JobKind, JobState } from './robots'
 
 export const ARTWORK_STATUSES = ['draft', 'in-review', 'approved', 'sent-back'] as const
 export type ArtworkStatus = (typeof ARTWORK_STATUSES)[number]
@@ -63,7 +64,8 @@ export interface ArtworkListItem {
   status: ArtworkStatus
   team: { id: number; name: string; colour: string }
   author: string
-  latestRevision: { id: number; number: number } | null
+  /** The newest revision, with its own status (the artwork's is that of its latest decision). */
+  latestRevision: { id: number; number: number; status: ArtworkStatus } | null
   revisionCount: number
   updatedAt: string
 }
@@ -75,9 +77,35 @@ export interface ArtworkPage {
   nextCursor: string | null
 }
 
+/** One place the artwork's decal is (or will be): a placement of one of its revisions, with its jobs. */
+export interface ArtworkPlacement {
+  id: number
+  spot: string
+  widthMm: number
+  quantity: number
+  spares: number
+  sparesOnHand: number
+  revisionNumber: number
+  robot: { id: number; name: string; season: string }
+  film: { id: number; name: string }
+  jobs: { id: number; kind: JobKind; state: JobState; quantity: number }[]
+}
+
+/** The latest mentor's decision on any revision of an artwork. */
+export interface ArtworkDecision {
+  decision: 'approve' | 'send-back'
+  comment: string
+  at: string
+  by: string
+  revisionNumber: number
+}
+
 export interface ArtworkDetail {
   artwork: ArtworkListItem & { createdAt: string }
   revisions: RevisionSummary[]
+  /** Every robot, spot, film and job the artwork's decals are placed on. */
+  placements: ArtworkPlacement[]
+  lastDecision: ArtworkDecision | null
   /** What the viewer may do here. */
   can: Can<'artwork.revise' | 'revision.submit' | 'revision.review'>
 }
@@ -115,4 +143,7 @@ export interface ReviewQueueItem {
   submittedAt: string
   vectorUrl: string
   measurements: Measurements
+  /** How many revisions of the artwork were made after this one, and the newest one's number. */
+  newerRevisions: number
+  latestNumber: number
 }

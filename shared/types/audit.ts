@@ -89,3 +89,27 @@ export type AuditSubject = (typeof AUDIT_SUBJECTS)[number]
 export function isAuditAction(action: string): action is AuditAction {
   return Object.hasOwn(KNOWN, action)
 }
+
+/** Kinds of history line a person can filter the activity by. */
+export const AUDIT_KINDS = ['accounts', 'artworks', 'robots', 'jobs', 'films', 'program'] as const
+export type AuditKind = (typeof AUDIT_KINDS)[number]
+export const AUDIT_KIND_LABELS: Record<AuditKind, string> = {
+  accounts: 'Accounts and sign-ins', artworks: 'Artworks and review', robots: 'Robots and placements',
+  jobs: 'Cut queue', films: 'Films', program: 'Teams and the program',
+}
+
+// A record, so that a new action must be given its kind.
+const KIND_OF: Record<AuditAction, AuditKind> = {
+  'sign-in': 'accounts', 'sign-in-failed': 'accounts', 'rename-person': 'accounts', 'deactivate': 'accounts', 'reactivate': 'accounts',
+  'sign-out-everywhere': 'accounts', 'change-role': 'accounts', 'invite': 'accounts', 'withdraw-invitation': 'accounts',
+  'accept-invitation': 'accounts', 'request-reset': 'accounts', 'set-first-password': 'accounts', 'reset-password': 'accounts', 'create-mentor': 'accounts',
+  'upload': 'artworks', 'revise': 'artworks', 'submit': 'artworks', 'approve': 'artworks', 'send-back': 'artworks', 'rename-artwork': 'artworks',
+  'add-robot': 'robots', 'edit-robot': 'robots', 'place': 'robots', 'edit-placement': 'robots', 'remove-placement': 'robots', 'apply-spare': 'robots',
+  'queue-job': 'jobs', 'reprint': 'jobs', 'queue-extra': 'jobs', 'recut': 'jobs', 'mark-cut': 'jobs', 'mark-applied': 'jobs', 'cancel-job': 'jobs', 'fail-job': 'jobs',
+  'add-film': 'films', 'update-film': 'films', 'register-film': 'films', 'approve-film': 'films', 'withdraw-film-approval': 'films', 'test-film': 'films', 'film-stock': 'films',
+  'create-team': 'program', 'update-team': 'program', 'load-demo': 'program', 'set-work-area': 'program',
+}
+
+export function auditActionsOf(kind: AuditKind): AuditAction[] {
+  return (Object.keys(KIND_OF) as AuditAction[]).filter((a) => KIND_OF[a] === kind)
+}

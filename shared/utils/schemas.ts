@@ -4,6 +4,7 @@ import { CUT_SHEET_LIMITS, WEEDING_LINE_LIMITS } from '../constants/cut-sheet'
 import { PLACEMENT_LIMITS } from '../constants/placements'
 import { MEMBER_ROLES, ROLES } from '../types/roles'
 import { CUT_FAILURES, JOB_STATES } from '../types/robots'
+import { AUDIT_KINDS } from '../types/audit'
 import { polymerByCode } from '../films/polymers'
 import { OPACITIES } from '../films/library'
 import { ROBOT_SIDES } from '../plates/profiles'
@@ -108,7 +109,18 @@ export const artworkListQuerySchema = z.object({
 
 export const robotListQuerySchema = z.object({ teamId: optionalId, ...pageQuery(50) })
 export const reviewQueueQuerySchema = z.object({ ...pageQuery(50) })
-export const auditQuerySchema = z.object({ ...pageQuery(50) })
+const isoDay = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: 'A date as YYYY-MM-DD.' }).optional()
+
+/** The activity, filtered by who, what kind, which team and which days (UTC, from and to both included). */
+export const auditQuerySchema = z.object({
+  actorId: optionalId,
+  kind: z.enum(AUDIT_KINDS).optional(),
+  teamId: optionalId,
+  from: isoDay,
+  to: isoDay,
+  ...pageQuery(50),
+})
+export type AuditQuery = z.infer<typeof auditQuerySchema>
 
 export const revisionRequestSchema = z.object({
   // Checked in full by the pipeline's own settings schema (shared/utils/settings.ts).

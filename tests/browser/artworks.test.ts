@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import sharp from 'sharp'
 import type { Page } from 'playwright-core'
-import { setupBrowser, signInThroughForm, tabletPage, screenshot } from '../support/browser'
+import { setupBrowser, signInThroughForm, tabletPage, screenshot, followNav } from '../support/browser'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 
 await setupBrowser()
@@ -146,7 +146,7 @@ describe('from a phone photo to revisions, in the browser', () => {
     await page.locator('[data-test="artwork-search"]').fill(title.split(' ').at(-1)!)
     await page.waitForURL((u) => u.searchParams.get('q') === title.split(' ').at(-1))
     await expect.poll(() => page.locator('[data-test="artworks-table"] tbody tr').count()).toBe(1)
-    expect(await page.locator('[data-test="artworks-table"] tbody tr').first().innerText()).toMatch(new RegExp(`Copper Wrens[\\s\\S]*${title}[\\s\\S]*r1[\\s\\S]*Draft`))
+    expect(await page.locator('[data-test="artworks-table"] tbody tr').first().innerText()).toMatch(new RegExp(`Copper Wrens[\\s\\S]*${title}[\\s\\S]*Revision 1[\\s\\S]*Draft`))
     expect(await text(page, 'page-range')).toBe('1–1 of 1')
     await screenshot(page, 'artwork-list-search')
     expect(errors).toEqual([])
@@ -226,7 +226,7 @@ describe('from a phone photo to revisions, in the browser', () => {
     await expect.poll(() => page.locator('[data-test="recent-artworks"]').innerText()).toContain(title)
     await screenshot(page, 'program-recent-artworks')
 
-    await page.locator('[data-test="nav-artworks"]').first().click()
+    await followNav(page, 'artworks')
     await page.waitForURL((u) => u.pathname === '/artworks')
     const teamSelect = page.locator('select[name="teamId"]')
     await expect.poll(() => teamSelect.locator('option').allInnerTexts()).toEqual(['All teams', 'Copper Wrens', 'Tidewater Sprockets'])

@@ -30,7 +30,7 @@ let heightMm: number
 
 const url = (page: Page, path: string) => new URL(path, page.url()).toString()
 const byTest = (page: Page, test: string) => page.locator(`[data-test="${test}"]`)
-/** A size as the pages write it: one decimal at most (app/utils/artworks.ts, formatNumber). */
+/** A size as the pages write it: one decimal at most (app/utils/format.ts, formatNumber). */
 const oneDecimal = (v: number) => new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 }).format(v)
 
 beforeAll(async () => {
@@ -68,7 +68,7 @@ describe('review, placement, the cut queue and a reprint, in the browser', () =>
     expect(words).toContain('Copper Wrens')
     expect(words).toContain(DEMO_ACCOUNTS.student.name)
     expect(words).toContain(`60 × ${oneDecimal(heightMm)} mm`)
-    expect(words).toMatch(/Narrowest feature/)
+    expect(words).toMatch(/Narrowest stroke/)
     expect(words).toMatch(/Fidelity\s+\d+\.\d %/)
     // The drawing itself is shown, and the card links to the artwork at this revision.
     await expect.poll(() => card.locator('img').evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBeGreaterThan(0)

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { setupBrowser, signInThroughForm, tabletPage, screenshot } from '../support/browser'
+import { followNav, setupBrowser, signInThroughForm, tabletPage, screenshot } from '../support/browser'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 
 await setupBrowser()
@@ -32,6 +32,11 @@ describe('signing in, per role', () => {
         // What a role may not do is not reachable either: the mentor's page sends them home.
         await page.goto(new URL('/people', page.url()).toString(), { waitUntil: 'networkidle' })
         expect(new URL(page.url()).pathname).toBe(NAV[role].home)
+        // …and says why, instead of leaving them to wonder.
+        await expect.poll(() => page.locator('[data-test="refusal"]').textContent()).toMatch(/for the program’s mentors.*start page/)
+        await followNav(page, 'robots')
+        await page.waitForURL((u) => u.pathname === '/robots')
+        await expect.poll(() => page.locator('[data-test="refusal"]').count()).toBe(0)
       }
       await page.close()
     })

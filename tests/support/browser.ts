@@ -52,3 +52,13 @@ export async function screenshot(page: Page, name: string): Promise<void> {
   mkdirSync(ARTEFACTS, { recursive: true })
   await page.screenshot({ path: path.join(ARTEFACTS, `${name}.png`), fullPage: true })
 }
+
+/** Follows a link of the shell's navigation (data-test `nav-<item>`), opening its menus as a person would. */
+export async function followNav(page: Page, item: string): Promise<void> {
+  const link = page.locator(`[data-test="nav-${item}"]`).first()
+  const menu = page.locator('[data-test="nav-menu"]')
+  if (!(await link.isVisible()) && await menu.isVisible()) await menu.click()
+  const group = page.locator('[data-test="nav-group-program"]')
+  if (!(await link.isVisible()) && await group.isVisible()) await group.click()
+  await link.click()
+}

@@ -128,7 +128,7 @@ describe('warnings in the trade\'s words', () => {
     // one click thickens to 0.8 mm, common practice when no film is chosen
     expect(byId['thin-stroke']!.oneClick).toEqual({ label: 'Thicken to 0.8 mm', settings: { thickenToMm: 0.8 } })
     expect(byId['thin-stroke']!.fix).toBe('thickenToMm')
-    expect(byId['many-nodes']!.text).toBe('The outline has 24 000 nodes; the cut will stutter — raise the curve tolerance')
+    expect(byId['many-nodes']!.text).toBe('The outline has 24,000 nodes; the cut will stutter — raise the curve tolerance')
     expect(byId['many-nodes']!.fix).toBe('curveTolerance')
     expect(byId['too-wide']!.text).toBe('The design is 320 mm wide, wider than a 300 mm sheet — reduce the width')
     expect(byId['too-tall']!.fix).toBe('widthMm')
@@ -155,8 +155,8 @@ describe('warnings in the trade\'s words', () => {
   })
 
   it('groups thousands with a space', () => {
-    expect(groupThousands(24000)).toBe('24 000')
-    expect(groupThousands(1234567)).toBe('1 234 567')
+    expect(groupThousands(24000)).toBe('24,000')
+    expect(groupThousands(1234567)).toBe('1,234,567')
     expect(groupThousands(999)).toBe('999')
   })
 })
