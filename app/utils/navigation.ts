@@ -21,6 +21,7 @@ export function navigation(me: Me): { work: NavItem[]; program: NavItem[] } {
   const program: NavItem[] = []
   if (can('program.manage')) program.push({ label: 'Overview', to: '/program', test: 'program' })
   program.push({ label: 'Teams', to: '/teams', test: 'teams' })
+  if (can('program.manage')) program.push({ label: 'Competition rules', to: '/rules', test: 'rules' })
   if (can('people.manage')) program.push({ label: 'People', to: '/people', test: 'people' })
   program.push({ label: 'Films', to: '/films', test: 'films' }, { label: 'Materials', to: '/materials', test: 'materials' })
   if (can('audit.view')) program.push({ label: 'Activity', to: '/activity', test: 'activity' })

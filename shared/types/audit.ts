@@ -107,7 +107,9 @@ const KIND_OF: Record<AuditAction, AuditKind> = {
   'add-robot': 'robots', 'edit-robot': 'robots', 'place': 'robots', 'edit-placement': 'robots', 'remove-placement': 'robots', 'apply-spare': 'robots',
   'queue-job': 'jobs', 'reprint': 'jobs', 'queue-extra': 'jobs', 'recut': 'jobs', 'mark-cut': 'jobs', 'mark-applied': 'jobs', 'cancel-job': 'jobs', 'fail-job': 'jobs',
   'add-film': 'films', 'update-film': 'films', 'register-film': 'films', 'approve-film': 'films', 'withdraw-film-approval': 'films', 'test-film': 'films', 'film-stock': 'films',
+  'join-batch': 'jobs', 'leave-batch': 'jobs', 'generate-plate': 'artworks',
   'create-team': 'program', 'update-team': 'program', 'load-demo': 'program', 'set-work-area': 'program',
+  'add-rule-profile': 'program', 'edit-rule-profile': 'program', 'choose-rule-profile': 'program',
 }
 
 export function auditActionsOf(kind: AuditKind): AuditAction[] {

@@ -16,13 +16,13 @@ describe('the shell navigation', () => {
   it('gives a mentor at most five places in the bar, the program pages in one menu', () => {
     const nav = navigation(me(['program.manage', 'revision.review', 'artwork.upload', 'queue.work', 'people.manage', 'audit.view', 'mail.view'], { isMentor: true }))
     expect(nav.work.map((i) => i.label)).toEqual(['Reviews', 'Artworks', 'Robots', 'Lab'])
-    expect(nav.program.map((i) => i.label)).toEqual(['Overview', 'Teams', 'People', 'Films', 'Materials', 'Activity', 'Mail'])
+    expect(nav.program.map((i) => i.label)).toEqual(['Overview', 'Teams', 'Competition rules', 'People', 'Films', 'Materials', 'Activity', 'Mail'])
   })
 
   it('shows a student neither the mentor pages nor the lab', () => {
     const nav = navigation(me(['artwork.upload', 'mail.view']))
     const all = [...nav.work, ...nav.program].map((i) => i.to)
-    for (const page of ['/people', '/activity', '/program', '/reviews', '/lab']) expect(all).not.toContain(page)
+    for (const page of ['/people', '/activity', '/program', '/rules', '/reviews', '/lab']) expect(all).not.toContain(page)
     expect(navigation(me(['artwork.upload', 'mail.view'], { mailFake: false })).program.map((i) => i.to)).not.toContain('/mail')
   })
 
