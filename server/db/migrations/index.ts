@@ -8,6 +8,7 @@ import * as m0006 from './0006_trust'
 import * as m0007 from './0007_requests'
 import * as m0008 from './0008_films'
 import * as m0009 from './0009_cleanup'
+import * as m0012 from './0012_work'
 
 // A static list: a bundled server cannot read a folder of migration files.
 // Add new migrations here, in order, under a name that sorts after the last one.
@@ -21,4 +22,5 @@ export const migrations: Record<string, Migration> = {
   '0007_requests': m0007,
   '0008_films': m0008,
   '0009_cleanup': m0009,
+  '0012_work': m0012,
 }
