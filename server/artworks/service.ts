@@ -126,8 +126,18 @@ const historyBy = (a: WorkAuthor) => ({ programId: a.programId, actorId: a.id, i
 
 /** What a queued upload carries to the runner. */
 interface UploadInput {
-  teamId: number; title: string; widthMm: number; fileName: string; author: WorkAuthor
-  sourceKey: string; contentHash: string; mediaType: string; extension: string; widthPx: number; heightPx: number; bytes: number
+  teamId: number
+  title: string
+  widthMm: number
+  fileName: string
+  author: WorkAuthor
+  sourceKey: string
+  contentHash: string
+  mediaType: string
+  extension: string
+  widthPx: number
+  heightPx: number
+  bytes: number
 }
 
 /**
