@@ -34,9 +34,18 @@ export async function buildWorkRunner(outDir: string): Promise<void> {
     format: 'esm',
     target: 'node20',
     alias: { '#shared': path.join(root, 'shared'), '#server': path.join(root, 'server') },
-    external: ['sharp', 'potrace', 'svgo', 'pg', 'graphile-worker', 'nodemailer'],
-    // Bundled CommonJS code may call require(); give it one.
-    banner: { js: "import { createRequire as __dwRequire } from 'node:module'; const require = __dwRequire(import.meta.url);" },
+    external: ['sharp', 'potrace', 'svgo', 'pg', 'graphile-worker', 'nodemailer', 'piscina', '@aws-sdk/*'],
+    // Bundled CommonJS code may call require() and read __dirname; give it both.
+    banner: {
+      js: [
+        "import { createRequire as __dwRequire } from 'node:module';",
+        "import { fileURLToPath as __dwPath } from 'node:url';",
+        "import { dirname as __dwDirname } from 'node:path';",
+        'const require = __dwRequire(import.meta.url);',
+        'const __filename = __dwPath(import.meta.url);',
+        'const __dirname = __dwDirname(__filename);',
+      ].join(' '),
+    },
     logLevel: 'warning',
   })
 }

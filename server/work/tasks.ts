@@ -28,6 +28,7 @@ export async function runMakeRevision(db: Db, workItemId: number, helpers: Pick<
     const refused = refusal(err)
     const last = helpers.job.attempts >= helpers.job.max_attempts
     if (!refused && !last) {
+      console.error(`[decalwright] work item ${item.id}, try ${helpers.job.attempts} of ${helpers.job.max_attempts}, failed and will be tried again:`, err instanceof Error ? err.stack ?? err.message : err)
       await requeueWork(db, item.id)
       throw err
     }

@@ -9,6 +9,7 @@ import { testDb } from '../support/db'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 import { startExtraApp } from '../support/extra-app'
 import { buildProgram } from '../support/fixtures'
+import { hashPassword } from '../../server/platform/passwords'
 import { drawing, noise } from '../support/images'
 import { uploadArtwork } from '../support/upload'
 import type { AppProcess } from '../../scripts/lib/app-process'
@@ -17,6 +18,7 @@ type Extra = AppProcess & { baseUrl: string }
 let apps: Extra[] = []
 let worker: ChildProcess | undefined
 let wrens: number
+let refusedId: number
 
 /** `npm run worker` with the app's settings; resolves once it says it is taking work. */
 function startWorker(): Promise<ChildProcess> {
@@ -25,6 +27,7 @@ function startWorker(): Promise<ChildProcess> {
     let log = ''
     const timer = setTimeout(() => reject(new Error(`the worker did not start:\n${log}`)), 120_000)
     const read = (d: Buffer) => {
+      if (process.env.DECALWRIGHT_TEST_LOGS) process.stderr.write(d)
       log += String(d)
       if (log.includes('is taking work from the queue')) {
         clearTimeout(timer)
@@ -78,7 +81,7 @@ describe('the work queue', () => {
     const item = await testDb().selectFrom('work_item').selectAll().where(sql`(result->>'revisionId')::int`, '=', up.body.revision.id).executeTakeFirstOrThrow()
     expect(item).toMatchObject({ state: 'done', kind: 'upload', attempts: 1, percent: 100 })
     // The asker follows it through the other app.
-    const followed = await new ApiClient(b.baseUrl, studentA.options)
+    const followed = new ApiClient(b.baseUrl, studentA.options)
     followed.cookies = new Map(studentA.cookies)
     expect((await followed.get(`/api/work/${item.id}`)).body).toMatchObject({ state: 'done', result: { artworkId: up.body.artwork.id, revisionId: up.body.revision.id } })
 
@@ -103,22 +106,47 @@ describe('the work queue', () => {
 
   it('answers a picture that cannot become a decal with the same 422 as before', async () => {
     const studentA = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD, { baseUrl: apps[0]!.baseUrl })
-    const r = await uploadArtwork(studentA, { file: await noise(1000, 1000), title: 'Static', teamId: wrens, widthMm: 100 })
+    const title = `Static ${Date.now()}`
+    const r = await uploadArtwork(studentA, { file: await noise(1000, 1000), title, teamId: wrens, widthMm: 100 })
     expect(r.status).toBe(422)
     expect(r.body.data).toEqual({ kind: 'not-a-drawing' })
     expect(r.body.message).toMatch(/raise the speck filter/)
-    const failed = await testDb().selectFrom('work_item').select(['state', 'attempts', 'error']).orderBy('id', 'desc').limit(1).executeTakeFirstOrThrow()
+    const failed = await testDb().selectFrom('work_item').select(['id', 'state', 'attempts', 'error']).where(sql`input->>'title'`, '=', title).executeTakeFirstOrThrow()
+    refusedId = failed.id
     // Refused once, not tried again.
     expect(failed).toMatchObject({ state: 'failed', attempts: 1, error: { status: 422 } })
   }, 120_000)
 
   it('hides work from a mentor of another program (404), shows it to the asker', async () => {
-    const far = await buildProgram(testDb())
-    const farMentor = await signedIn((await testDb().selectFrom('users').select('email').where('id', '=', far.mentor).executeTakeFirstOrThrow()).email, DEMO_PASSWORD)
-    const id = (await testDb().selectFrom('work_item').select('id').orderBy('id', 'desc').limit(1).executeTakeFirstOrThrow()).id
+    const password = 'fixture-password-123'
+    const far = await buildProgram(testDb(), { passwordHash: await hashPassword(password) })
+    const farMentor = await signedIn(far.emails.get(far.mentor)!, password)
+    const id = refusedId
     expect((await farMentor.get(`/api/work/${id}`)).status).toBe(404)
     const student = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
     expect((await student.get(`/api/work/${id}`)).status).toBe(200)
+  })
+
+  it('cancels queued work for the person who asked, removing its job, and for nobody else', async () => {
+    const db = testDb()
+    const asker = await db.selectFrom('users').select(['id', 'program_id']).where('email', '=', DEMO_ACCOUNTS.student.email).executeTakeFirstOrThrow()
+    const { id } = await db.insertInto('work_item').values({ program_id: asker.program_id, kind: 'revise', asked_by: asker.id, input: '{}' }).returning('id').executeTakeFirstOrThrow()
+    // Due in an hour, so no runner takes it meanwhile.
+    await sql`select graphile_worker.add_job('make-revision', ${JSON.stringify({ workItemId: id })}::json, run_at => now() + interval '1 hour', job_key => ${`work-item-${id}`}::text)`.execute(db)
+    const jobs = async () => (await sql<{ n: number }>`select count(*)::int as n from graphile_worker._private_jobs where key = ${`work-item-${id}`}`.execute(db)).rows[0]!.n
+    expect(await jobs()).toBe(1)
+    const designer = await signedIn(DEMO_ACCOUNTS.designer.email, DEMO_PASSWORD)
+    const mentor = await signedIn(DEMO_ACCOUNTS.mentor.email, DEMO_PASSWORD)
+    const student = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
+    expect((await designer.post(`/api/work/${id}/cancel`)).status).toBe(404)
+    expect((await mentor.get(`/api/work/${id}`)).body).toMatchObject({ state: 'queued', can: { cancel: false } })
+    expect((await mentor.post(`/api/work/${id}/cancel`)).status).toBe(403)
+    expect((await student.get(`/api/work/${id}`)).body).toMatchObject({ state: 'queued', can: { cancel: true } })
+    const r = await student.post(`/api/work/${id}/cancel`)
+    expect(r.status, JSON.stringify(r.body)).toBe(200)
+    expect(r.body).toMatchObject({ state: 'failed', error: { data: { cancelled: true } } })
+    expect(await jobs()).toBe(0)
+    expect((await student.post(`/api/work/${id}/cancel`)).status).toBe(409)
   })
 
   it('tries a job again when the worker running it is killed, once a worker is back', async () => {
