@@ -10,8 +10,12 @@ import { Logger, run, runMigrations, type Runner, type TaskList, type WorkerEven
 import type { Database } from '../db/schema'
 import type { Db } from './db'
 
-/** Tries of one job before it is given up. */
-export const WORK_MAX_ATTEMPTS = 5
+/**
+ * Tries of one job before it is given up. graphile-worker waits e^n seconds after the n-th
+ * failure, so three tries end within about 10 s: inside the time a request waits for its work,
+ * so a revision that cannot be made is answered as a failure rather than left running.
+ */
+export const WORK_MAX_ATTEMPTS = 3
 /** A runner that has not said it is alive for this long is taken for dead and its jobs handed on. */
 const RUNNER_SILENT_AFTER_S = 30
 const HEARTBEAT_MS = 5_000
