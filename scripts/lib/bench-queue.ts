@@ -3,7 +3,7 @@
 // once as the request did it before (the pipeline through the worker pool directly), once as
 // a work item (stored, queued, taken by a runner in this process, waited for by polling), and
 // the medians are printed with their ratio.
-import { mkdtempSync } from 'node:fs'
+import { mkdtempSync, rmSync } from 'node:fs'
 import os from 'node:os'
 import path from 'node:path'
 import { performance } from 'node:perf_hooks'
@@ -37,7 +37,8 @@ export async function benchQueue(runs: number): Promise<void> {
   const storageDir = mkdtempSync(path.join(os.tmpdir(), 'decalwright-bench-queue-'))
   const env = Object.fromEntries(Object.entries(process.env).filter(([k]) => !k.startsWith('NUXT_')))
   const stack = await startStack({ storageDir, pgPort: 54339 + offset, s3Port: 4579 + offset, smtpPort: 2535 + offset, env })
-  const workerDir = mkdtempSync(path.join(os.tmpdir(), 'decalwright-bench-queue-worker-'))
+  // Inside the project, so the worker finds sharp, potrace and svgo in node_modules.
+  const workerDir = path.resolve('node_modules/.cache/decalwright-bench-queue')
   await buildPipelineWorker(workerDir)
   process.env.DECALWRIGHT_PIPELINE_WORKER = path.join(workerDir, PIPELINE_WORKER_FILE)
   configurePlatform(platformConfigFromEnv(stack.env))
@@ -71,5 +72,6 @@ export async function benchQueue(runs: number): Promise<void> {
     await runner.stop()
     await db.destroy()
     await stack.stop()
+    rmSync(storageDir, { recursive: true, force: true })
   }
 }
