@@ -104,6 +104,27 @@ describe('the work queue', () => {
     expect(sheet.status).toBe(200)
   }, 180_000)
 
+  it('answers 202 with the work item when the work outlasts the wait, and the item then shows the result', async () => {
+    const impatient = await startExtraApp({ NUXT_WORK_IN_APP: '0', NUXT_WORK_WAIT_MS: '1' })
+    try {
+      const student = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD, { baseUrl: impatient.baseUrl })
+      const r = await uploadArtwork(student, { file: await drawing('png', 640, 420), title: `Patient wren ${Date.now()}`, teamId: wrens, widthMm: 50 })
+      expect(r.status, JSON.stringify(r.body)).toBe(202)
+      expect(r.headers.get('location')).toBe(`/api/work/${r.body.workItem.id}`)
+      expect(['queued', 'running']).toContain(r.body.workItem.state)
+      const done = await until('the work to finish', async () => {
+        const w = await student.get(r.headers.get('location')!)
+        return w.body.state === 'done' ? w.body : undefined
+      })
+      expect(done).toMatchObject({ kind: 'upload', percent: 100, phase: 'finished', error: null })
+      const artwork = await student.get(`/api/artworks/${done.result.artworkId}`)
+      expect(artwork.status).toBe(200)
+      expect(artwork.body.revisions.map((x: { id: number }) => x.id)).toEqual([done.result.revisionId])
+    } finally {
+      await impatient.stop()
+    }
+  }, 120_000)
+
   it('answers a picture that cannot become a decal with the same 422 as before', async () => {
     const studentA = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD, { baseUrl: apps[0]!.baseUrl })
     const title = `Static ${Date.now()}`
