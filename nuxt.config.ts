@@ -88,6 +88,12 @@ export default defineNuxtConfig({
     orphanMinAgeS: 3600,
     // NUXT_ORPHAN_SWEEP_INTERVAL_S: how often one of the app processes looks for them.
     orphanSweepIntervalS: 600,
+    // NUXT_WORK_IN_APP: the app runs the work queue's jobs itself; 0 leaves them to `npm run worker` processes.
+    workInApp: true,
+    // NUXT_WORK_CONCURRENCY: jobs one process works on at once (0: one per core).
+    workConcurrency: 0,
+    // NUXT_WORK_WAIT_MS: how long an upload or revision request waits for its work before answering 202.
+    workWaitMs: 60000,
     // NUXT_PUBLIC_BASE_URL: used for links in e-mail.
     public: {
       baseUrl: 'http://localhost:3000',
@@ -104,14 +110,15 @@ export default defineNuxtConfig({
     // Native and CommonJS-heavy packages stay in node_modules rather than being bundled;
     // potrace and svgo are used only by the pipeline worker, so they are traced in by hand.
     externals: {
-      external: ['sharp', 'pg', 'potrace', 'svgo', 'nodemailer'],
+      external: ['sharp', 'pg', 'potrace', 'svgo', 'nodemailer', 'graphile-worker'],
       traceInclude: [
         fileURLToPath(new URL('./node_modules/potrace/lib/index.js', import.meta.url)),
         fileURLToPath(new URL('./node_modules/svgo/lib/svgo-node.js', import.meta.url)),
       ],
     },
     hooks: {
-      // The pipeline and the cut sheets run in worker threads, which need files of their own next to the server.
+      // The pipeline and the cut sheets run in worker threads, and the work queue's worker
+      // process (`npm run worker`) runs from a bundle of its own: all next to the server.
       compiled: (nitro) => buildWorkers(nitro.options.dev ? nitro.options.buildDir : nitro.options.output.serverDir),
     },
   },

@@ -22,6 +22,7 @@ import { benchGeometry } from './lib/bench-geometry'
 import { benchColour } from './lib/bench-colour'
 import { benchCleanup } from './lib/bench-cleanup'
 import { benchTrust } from './lib/bench-trust'
+import { benchQueue } from './lib/bench-queue'
 
 const RUNS = Number(process.env.BENCH_RUNS ?? 5)
 const WIDTH_MM = 150
@@ -177,6 +178,7 @@ async function main() {
   await benchColour(RUNS)
   await benchCleanup(RUNS)
   await benchTrust()
+  await benchQueue(RUNS)
 
   // The tuning bench, end to end in a real browser (skip with BENCH_BROWSER=0).
   if (process.env.BENCH_BROWSER !== '0') {

@@ -1,5 +1,5 @@
 import { createError } from 'h3'
-import { sql } from 'kysely'
+import { sql, type NotNull } from 'kysely'
 import { jsonArrayFrom, jsonObjectFrom } from 'kysely/helpers/postgres'
 import type { Db } from '../platform/db'
 import { teamScope, type Actor } from '../policy'
@@ -99,6 +99,8 @@ export async function keysInUse(db: Db, keys: readonly string[]): Promise<Set<st
     .union(db.selectFrom('revision').select('outline_key as key').where('outline_key', 'in', list).$narrowType<{ key: string }>())
     .union(db.selectFrom('revision').select('vector_key as key').where('vector_key', 'in', list))
     .union(db.selectFrom('object_claim').select('key').where('key', 'in', list))
+    // A source waiting in the work queue for its first revision.
+    .union(db.selectFrom('work_item').select('source_key as key').where('source_key', 'in', list).where('state', 'in', ['queued', 'running']).$narrowType<{ key: NotNull }>())
     .execute()
   return new Set(rows.map((r) => r.key))
 }

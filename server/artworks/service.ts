@@ -11,7 +11,9 @@ import { invalidInput } from '../platform/http'
 import { contentHash, getObject } from '../platform/object-store'
 import { runInPool } from '../platform/pipeline-pool'
 import { flags, type Actor, type TeamSubject } from '../policy'
-import { audit, by } from '../history/service'
+import { audit } from '../history/service'
+import { addWork, finishWork, reportPhase, type BegunWork } from '../work/items'
+import type { WorkResult } from '#shared/types/work'
 import { reviewHistory } from '../review/queries'
 import { artworkCount, artworkPage, findArtwork, findRevision, lastDecision, latestSource, placementsOfArtwork, revisionsOf, type ArtworkFilter, type ArtworkRow, type RevisionRow } from './queries'
 import { abandonClaim, claimAndStore, settleClaim, type ObjectToStore } from './objects'
@@ -128,37 +130,103 @@ export interface NewArtwork {
   contentHash?: string
 }
 
-/** A new artwork from an uploaded picture, with revision 1 at default settings. The caller has checked `artwork.upload` in the team. */
-export async function createArtwork(db: Db, actor: Actor, team: TeamSubject, input: NewArtwork): Promise<CreatedArtwork> {
+/** Who asked for a piece of work, as the rows and the history record them. */
+interface WorkAuthor { id: number; programId: number; ip: string | null }
+const authorOf = (actor: Actor): WorkAuthor => ({ id: actor.id, programId: actor.programId, ip: actor.ip })
+const historyBy = (a: WorkAuthor) => ({ programId: a.programId, actorId: a.id, ip: a.ip })
+
+/** What a queued upload carries to the runner. */
+interface UploadInput {
+  teamId: number
+  title: string
+  widthMm: number
+  fileName: string
+  author: WorkAuthor
+  sourceKey: string
+  contentHash: string
+  mediaType: string
+  extension: string
+  widthPx: number
+  heightPx: number
+  bytes: number
+}
+
+/**
+ * Asks for a new artwork from an uploaded picture, with revision 1 at default settings: the
+ * picture is stored (under a claim), then the work item and its job are added in the
+ * transaction that settles the claim. Returns the work item's id. The caller has checked
+ * `artwork.upload` in the team.
+ */
+export async function requestArtwork(db: Db, actor: Actor, team: TeamSubject, input: NewArtwork): Promise<number> {
+  // A file that is not a picture is refused before anything is stored.
   const facts = await inspectSource(input.bytes)
-  const settings = parseSettings({})
-  // The outline first: a file that cannot be traced leaves nothing behind.
-  const result = await runInPool({ source: input.bytes, settings, widthMm: input.widthMm, purpose: 'revision' })
   const hash = input.contentHash ?? contentHash(input.bytes)
-  const sourceKey = `sources/${hash}`
-  const { files, objects } = resultObjects(result)
-  // Stored files are claimed while this request uses them (./objects.ts).
-  const claim = await claimAndStore(db, [{ key: sourceKey, bytes: input.bytes, type: facts.mediaType }, ...objects])
+  const work: UploadInput = {
+    teamId: team.teamId, title: input.title, widthMm: input.widthMm, author: authorOf(actor),
+    fileName: input.fileName.slice(0, 200) || `source.${facts.extension}`,
+    sourceKey: `sources/${hash}`, contentHash: hash, mediaType: facts.mediaType, extension: facts.extension,
+    widthPx: facts.widthPx, heightPx: facts.heightPx, bytes: input.bytes.byteLength,
+  }
+  // Stored files are claimed while this request uses them (./objects.ts); the work item then holds the source.
+  const claim = await claimAndStore(db, [{ key: work.sourceKey, bytes: input.bytes, type: facts.mediaType }])
   try {
-    const ids = await inTransaction(db, async (trx) => {
-      const artwork = await trx.insertInto('artwork').values({ team_id: team.teamId, title: input.title, author_id: actor.id })
-        .returning('id').executeTakeFirstOrThrow()
-      const source = await trx.insertInto('source').values({
-        artwork_id: artwork.id, object_key: sourceKey, content_hash: hash, media_type: facts.mediaType,
-        file_name: input.fileName.slice(0, 200) || `source.${facts.extension}`, width_px: facts.widthPx, height_px: facts.heightPx,
-        bytes: input.bytes.byteLength, uploaded_by: actor.id,
-      }).returning('id').executeTakeFirstOrThrow()
-      const rev = await insertRevision(trx, { artworkId: artwork.id, sourceId: source.id, settings, drawingWidthMm: input.widthMm, result, files, authorId: actor.id })
-      await audit(trx, { ...by(actor), action: 'upload', subject: 'artwork', subjectId: artwork.id, detail: { title: input.title, revision: rev.number, fileName: input.fileName } })
+    return await inTransaction(db, async (trx) => {
+      const id = await addWork(trx, { programId: actor.programId, kind: 'upload', askedBy: actor.id, input: { ...work }, sourceKey: work.sourceKey })
       await settleClaim(trx, claim)
-      return { artworkId: artwork.id, revisionId: rev.id }
+      return id
     })
-    const [artwork, revision] = await Promise.all([findArtwork(db, actor, ids.artworkId), findRevision(db, actor, ids.revisionId)])
-    return { artwork: toListItem(artwork!), revision: await revisionDetail(db, revision!) }
   } catch (err) {
     await abandonClaim(db, claim)
     throw err
   }
+}
+
+/** The runner's half of an upload: the outline, its files and the rows, in one transaction with the item's outcome. */
+async function makeFirstRevision(db: Db, item: BegunWork, input: UploadInput): Promise<WorkResult> {
+  const settings = parseSettings({})
+  const source = await getObject(input.sourceKey)
+  await reportPhase(db, item.id, 'outlining')
+  const result = await runInPool({ source, settings, widthMm: input.widthMm, purpose: 'revision' })
+  return saveRevision(db, item, result, async (trx) => {
+    const artwork = await trx.insertInto('artwork').values({ team_id: input.teamId, title: input.title, author_id: input.author.id })
+      .returning('id').executeTakeFirstOrThrow()
+    const row = await trx.insertInto('source').values({
+      artwork_id: artwork.id, object_key: input.sourceKey, content_hash: input.contentHash, media_type: input.mediaType,
+      file_name: input.fileName, width_px: input.widthPx, height_px: input.heightPx, bytes: input.bytes, uploaded_by: input.author.id,
+    }).returning('id').executeTakeFirstOrThrow()
+    const rev = await insertRevision(trx, { artworkId: artwork.id, sourceId: row.id, settings, drawingWidthMm: input.widthMm, result, files: resultObjects(result).files, authorId: input.author.id })
+    await audit(trx, { ...historyBy(input.author), action: 'upload', subject: 'artwork', subjectId: artwork.id, detail: { title: input.title, revision: rev.number, fileName: input.fileName } })
+    return { artworkId: artwork.id, revisionId: rev.id }
+  })
+}
+
+/** Stores the result's files under a claim, then writes the rows and the item's outcome in one transaction. */
+async function saveRevision(db: Db, item: BegunWork, result: RunResult, write: (trx: Transaction<Database>) => Promise<WorkResult>): Promise<WorkResult> {
+  await reportPhase(db, item.id, 'storing')
+  const claim = await claimAndStore(db, resultObjects(result).objects)
+  try {
+    await reportPhase(db, item.id, 'saving')
+    return await inTransaction(db, async (trx) => {
+      const done = await write(trx)
+      await settleClaim(trx, claim)
+      await finishWork(trx, item.id, done)
+      return done
+    })
+  } catch (err) {
+    await abandonClaim(db, claim)
+    throw err
+  }
+}
+
+/** The answer to an upload once its work is done: the same as the upload route has always given. */
+export async function createdArtwork(db: Db, actor: Actor, done: WorkResult): Promise<CreatedArtwork> {
+  const [artwork, revision] = await Promise.all([findArtwork(db, actor, done.artworkId), findRevision(db, actor, done.revisionId)])
+  return { artwork: toListItem(artwork!), revision: await revisionDetail(db, revision!) }
+}
+
+/** The answer to a revision request once its work is done. */
+export async function createdRevision(db: Db, actor: Actor, done: WorkResult): Promise<RevisionDetail> {
+  return revisionDetail(db, (await findRevision(db, actor, done.revisionId))!)
 }
 
 export function parseSettingsOr400(input: unknown): PipelineSettings {
@@ -170,24 +238,31 @@ export function parseSettingsOr400(input: unknown): PipelineSettings {
   }
 }
 
-/** A new revision from new settings and size. The caller has checked `artwork.revise` on the artwork. */
-export async function createRevision(db: Db, actor: Actor, artwork: ArtworkRow, input: { settings: unknown; widthMm: number }): Promise<RevisionDetail> {
+interface RevisionInput { artworkId: number; title: string; sourceId: number; sourceKey: string; settings: PipelineSettings; widthMm: number; author: WorkAuthor }
+
+/** Asks for a new revision from new settings and size; returns the work item's id. The caller has checked `artwork.revise` on the artwork. */
+export async function requestRevision(db: Db, actor: Actor, artwork: ArtworkRow, input: { settings: unknown; widthMm: number }): Promise<number> {
   const settings = parseSettingsOr400(input.settings)
   const source = await latestSource(db, artwork.id)
-  const bytes = await getObject(source.object_key)
-  const result = await runInPool({ source: bytes, settings, widthMm: input.widthMm, purpose: 'revision' })
-  const { files, objects } = resultObjects(result)
-  const claim = await claimAndStore(db, objects)
-  try {
-    const rev = await inTransaction(db, async (trx) => {
-      const r = await insertRevision(trx, { artworkId: artwork.id, sourceId: source.id, settings, drawingWidthMm: input.widthMm, result, files, authorId: actor.id })
-      await audit(trx, { ...by(actor), action: 'revise', subject: 'artwork', subjectId: artwork.id, detail: { title: artwork.title, revision: r.number } })
-      await settleClaim(trx, claim)
-      return r
-    })
-    return revisionDetail(db, (await findRevision(db, actor, rev.id))!)
-  } catch (err) {
-    await abandonClaim(db, claim)
-    throw err
-  }
+  const work: RevisionInput = { artworkId: artwork.id, title: artwork.title, sourceId: source.id, sourceKey: source.object_key, settings, widthMm: input.widthMm, author: authorOf(actor) }
+  return inTransaction(db, (trx) => addWork(trx, { programId: actor.programId, kind: 'revise', askedBy: actor.id, input: { ...work } }))
+}
+
+/** The runner's half of a revision. */
+async function makeLaterRevision(db: Db, item: BegunWork, input: RevisionInput): Promise<WorkResult> {
+  const source = await getObject(input.sourceKey)
+  await reportPhase(db, item.id, 'outlining')
+  const result = await runInPool({ source, settings: input.settings, widthMm: input.widthMm, purpose: 'revision' })
+  return saveRevision(db, item, result, async (trx) => {
+    const r = await insertRevision(trx, { artworkId: input.artworkId, sourceId: input.sourceId, settings: input.settings, drawingWidthMm: input.widthMm, result, files: resultObjects(result).files, authorId: input.author.id })
+    await audit(trx, { ...historyBy(input.author), action: 'revise', subject: 'artwork', subjectId: input.artworkId, detail: { title: input.title, revision: r.number } })
+    return { artworkId: input.artworkId, revisionId: r.id }
+  })
+}
+
+/** Makes the revision a work item asks for (the queue's make-revision task). */
+export function makeRevision(db: Db, item: BegunWork): Promise<WorkResult> {
+  return item.kind === 'upload'
+    ? makeFirstRevision(db, item, item.input as UploadInput)
+    : makeLaterRevision(db, item, item.input as RevisionInput)
 }

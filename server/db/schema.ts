@@ -11,6 +11,7 @@ import type { CutFailure, JobKind, JobState } from '../../shared/types/robots'
 import type { StockEventKind, TestGridRecord } from '../../shared/types/films'
 import type { RobotSide, RuleProfile } from '../../shared/plates/profiles'
 import type { PlateFacts, RevisionOrigin } from '../../shared/types/plates'
+import type { WorkError, WorkKind, WorkPhase, WorkResult, WorkState } from '../../shared/types/work'
 
 type CreatedAt = ColumnType<Date, Date | string | undefined, never>
 type Timestamp = ColumnType<Date, Date | string, Date | string>
@@ -390,6 +391,32 @@ export interface HousekeepingTable {
   last_run_at: Timestamp
 }
 
+export interface WorkItemTable {
+  id: Generated<number>
+  program_id: number
+  kind: WorkKind
+  state: ColumnType<WorkState, WorkState | undefined, WorkState>
+  phase: ColumnType<WorkPhase, WorkPhase | undefined, WorkPhase>
+  percent: ColumnType<number, number | undefined, number>
+  input: ColumnType<unknown, string, string>
+  source_key: string | null
+  result: ColumnType<WorkResult | null, string | null | undefined, string | null>
+  error: ColumnType<WorkError | null, string | null | undefined, string | null>
+  attempts: ColumnType<number, number | undefined, number>
+  asked_by: number
+  created_at: CreatedAt
+  started_at: ColumnType<Date | null, never, Date | string | null>
+  finished_at: ColumnType<Date | null, never, Date | string | null>
+  updated_at: ColumnType<Date, Date | string | undefined, Date | string>
+}
+
+export interface WorkRunnerTable {
+  worker_id: string
+  host: string
+  pid: number
+  seen_at: ColumnType<Date, Date | string | undefined, Date | string>
+}
+
 export interface Database {
   program: ProgramTable
   users: UsersTable
@@ -420,4 +447,6 @@ export interface Database {
   idempotent_request: IdempotentRequestTable
   object_claim: ObjectClaimTable
   housekeeping: HousekeepingTable
+  work_item: WorkItemTable
+  work_runner: WorkRunnerTable
 }

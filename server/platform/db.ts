@@ -2,6 +2,7 @@ import { sql, type Kysely, type Transaction } from 'kysely'
 import { createDb, migrateToLatest } from '../db/connect'
 import type { Database } from '../db/schema'
 import { platformConfig } from './config'
+import { installWorkQueue } from './work-queue'
 
 /**
  * The database or a transaction on it. Every query and service takes one of these as its
@@ -23,9 +24,9 @@ export function useDb(): Kysely<Database> {
   return db
 }
 
-/** Migrations run once per process at start-up; requests wait for them. */
+/** Migrations (ours, then the work queue's) run once per process at start-up; requests wait for them. */
 export function dbReady(): Promise<unknown> {
-  ready ??= migrateToLatest(useDb()).catch((err) => {
+  ready ??= migrateToLatest(useDb()).then(() => installWorkQueue(platformConfig().databaseUrl)).catch((err) => {
     ready = undefined
     throw err
   })

@@ -7,7 +7,7 @@ import { readdirSync, statSync } from 'node:fs'
 import path from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { sql } from 'kysely'
-import { can, type Actor, type TeamSubject } from '../../server/policy'
+import { can, canFollowWork, type Actor, type TeamSubject, type WorkSubject } from '../../server/policy'
 import { loadActor } from '../../server/auth/service'
 import { newToken } from '../../server/platform/tokens'
 import type { ProgramAction, TeamAction } from '../../shared/types/policy'
@@ -41,6 +41,8 @@ interface RouteRule {
   action?: TeamAction
   /** Asks for something that exists for nobody (404 once past the guards). */
   missing?: true
+  /** Background work: found only by the person who asked for it and the program's mentors (404). */
+  work?: true
 }
 
 // ---------- the things asked about ----------
@@ -58,6 +60,8 @@ interface Things {
   invitation: Record<Where, number>
   batch: Record<Where, number>
   ruleProfile: Record<Where, number>
+  work: Record<Where, number>
+  workSubject: Record<Where, WorkSubject>
   draftRevision: number
 }
 let things: Things
@@ -120,6 +124,12 @@ beforeAll(async () => {
     program_id: programId, name: 'Matrix rules', profile: JSON.stringify(copyProfile(presetProfile('frc-2023')!, `matrix-${programId}`)), created_by: by,
   }).returning('id').executeTakeFirstOrThrow()).id
   const ownRules = await rules(demo.id, mentorId)
+  const workOf = async (revisionId: number) => db.selectFrom('work_item').select(['id', 'program_id', 'asked_by'])
+    .where(sql<number>`(result->>'revisionId')::int`, '=', revisionId).executeTakeFirstOrThrow()
+  // The other program's work waits forever: it has no job.
+  const farWork = await db.insertInto('work_item').values({ program_id: far.id, kind: 'revise', asked_by: far.mentor, input: '{}' })
+    .returning(['id', 'program_id', 'asked_by']).executeTakeFirstOrThrow()
+  const work = { 'own team': await workOf(ownUpload.body.revision.id), 'other team': await workOf(otherUpload.body.revision.id), 'other program': farWork }
   things = {
     team: { 'own team': wrens, 'other team': sprockets, 'other program': farTeam.id },
     subject: {
@@ -141,6 +151,8 @@ beforeAll(async () => {
     },
     batch: { 'own team': ownBatch, 'other team': ownBatch, 'other program': await batch(far.id, far.films.pet, far.mentor) },
     ruleProfile: { 'own team': ownRules, 'other team': ownRules, 'other program': await rules(far.id, far.mentor) },
+    work: { 'own team': work['own team'].id, 'other team': work['other team'].id, 'other program': work['other program'].id },
+    workSubject: Object.fromEntries(WHERE.map((w) => [w, { programId: work[w].program_id, askedBy: work[w].asked_by }])) as Record<Where, WorkSubject>,
     draftRevision: ownUpload.body.revision.id,
   }
 })
@@ -255,6 +267,9 @@ const ROUTES: Record<string, RouteRule> = {
   'GET /api/batches/[id]/cut-sheet.svg': { guard: 'queue.work', scope: 'program', ask: (w) => ({ path: `/api/batches/${t().batch[w]}/cut-sheet.svg?gap=-1` }) },
   'GET /api/batches/[id]/cut-sheet.dxf': { guard: 'queue.work', scope: 'program', ask: (w) => ({ path: `/api/batches/${t().batch[w]}/cut-sheet.dxf?gap=-1` }) },
   'GET /api/jobs/[id]/cut-sheet.dxf': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/cut-sheet.dxf?gap=-1` }) },
+  'GET /api/work/[id]': { work: true, ask: (w) => ({ path: `/api/work/${t().work[w]}` }) },
+  // Finished work cannot be cancelled (409), so nothing changes.
+  'POST /api/work/[id]/cancel': { work: true, ask: (w) => ({ path: `/api/work/${t().work[w]}/cancel` }) },
   // Last: a session is a row on the server, so signing out ends it for every copy of the cookie.
   'POST /api/auth/sign-out': { fixed: PASS, ask: () => ({ path: '/api/auth/sign-out' }) },
 }
@@ -266,6 +281,7 @@ function expected(rule: RouteRule, who: Who, where: Where): Expected {
   const actor = actors[who]
   if (rule.guard && !can(actor, rule.guard)) return 403
   if (rule.missing) return 404
+  if (rule.work) return canFollowWork(actor, things.workSubject[where]) ? PASS : 404
   if (rule.scope === 'program') return where === 'other program' ? 404 : PASS
   if (rule.scope) {
     const subject = things.subject[where]
