@@ -9,6 +9,7 @@ import type { Halogen, PolymerSource, PolymerVerdict } from '../../shared/films/
 import type { Opacity } from '../../shared/films/library'
 import type { CutFailure, JobKind, JobState } from '../../shared/types/robots'
 import type { StockEventKind, TestGridRecord } from '../../shared/types/films'
+import type { LayerMeasurements, RevisionColour } from '../../shared/types/layers'
 import type { RobotSide, RuleProfile } from '../../shared/plates/profiles'
 import type { PlateFacts, RevisionOrigin } from '../../shared/types/plates'
 import type { WorkError, WorkKind, WorkPhase, WorkResult, WorkState } from '../../shared/types/work'
@@ -172,8 +173,26 @@ export interface RevisionTable {
   origin: ColumnType<RevisionOrigin, RevisionOrigin | undefined, never>
   /** What the plate generator was asked, and the plate's measured figures, for a generated revision. */
   plate: ColumnType<PlateFacts | null, string | undefined, never>
+  /** 1 for a one-colour revision; 2–6 for a layered one, whose vector is the stacked layers (migration 0013). */
+  layer_count: ColumnType<number, number | undefined, never>
+  /** What a layered revision's separation was asked and found; null for one colour. */
+  colour: ColumnType<RevisionColour | null, string | undefined, never>
   author_id: number
   created_at: CreatedAt
+}
+
+/** One ink of a layered revision, bottom first (position 0); immutable like the revision. */
+export interface RevisionLayerTable {
+  revision_id: number
+  position: number
+  name: string
+  hex: string
+  /** Null for a generated revision's layer. */
+  prepared_key: string | null
+  outline_key: string | null
+  /** The layer's clean vector as cut: stacked, with the registration marks, on the shared canvas. */
+  vector_key: string
+  measurements: Json<LayerMeasurements>
 }
 
 export interface RevisionStatusTable {
@@ -289,6 +308,22 @@ export interface PlacementTable {
   removed_reason: string | null
 }
 
+/** The film each layer of a layered placement is cut in (position 0 = bottom = placement.film_id). */
+export interface PlacementLayerFilmTable {
+  placement_id: number
+  position: number
+  film_id: number
+  film_cleared: ColumnType<boolean | null, true | undefined, true>
+}
+
+/** Jobs queued together for one layered placement or reprint, one per layer. */
+export interface JobOrderTable {
+  id: Generated<number>
+  placement_id: number
+  created_by: number
+  created_at: CreatedAt
+}
+
 export interface JobTable {
   id: Generated<number>
   placement_id: number
@@ -318,6 +353,9 @@ export interface JobTable {
   recut_of: number | null
   /** The batch it is cut in (migration 0010), while queued in one or once cut in it. */
   batch_id: ColumnType<number | null, number | null | undefined, number | null>
+  /** Which layer of a layered revision this job cuts (with order_id); null for one colour. */
+  layer: ColumnType<number | null, number | null | undefined, never>
+  order_id: ColumnType<number | null, number | null | undefined, never>
 }
 
 export type BatchState = 'queued' | 'cut'
@@ -430,6 +468,7 @@ export interface Database {
   artwork: ArtworkTable
   source: SourceTable
   revision: RevisionTable
+  revision_layer: RevisionLayerTable
   rule_profile: RuleProfileTable
   revision_status: RevisionStatusTable
   review_event: ReviewEventTable
@@ -440,6 +479,8 @@ export interface Database {
   robot: RobotTable
   placement: PlacementTable
   job: JobTable
+  job_order: JobOrderTable
+  placement_layer_film: PlacementLayerFilmTable
   batch: BatchTable
   mail_outbox: MailOutboxTable
   user_session: UserSessionTable

@@ -2,28 +2,13 @@
 // bypasses every form and route. Each statement that must be refused runs in a savepoint, so
 // one refusal does not end the test's transaction.
 import { describe, expect } from 'vitest'
-import { sql, type RawBuilder, type Transaction } from 'kysely'
+import { sql, type Transaction } from 'kysely'
 import type { Database } from '../../server/db/schema'
 import { matchPolymer, POLYMERS } from '../../shared/films/polymers'
 import { test } from '../support/service'
 import { addArtwork, addFilm, addRobot, buildProgram } from '../support/fixtures'
 import { spellings } from '../support/spellings'
-
-let n = 0
-/** The database's refusal of one statement, as "constraint: message"; fails the test if it went through. */
-async function refused(trx: Transaction<Database>, statement: RawBuilder<unknown>): Promise<string> {
-  const sp = sql.raw(`refusal_${++n}`)
-  await sql`savepoint ${sp}`.execute(trx)
-  try {
-    await statement.execute(trx)
-  } catch (err) {
-    await sql`rollback to savepoint ${sp}`.execute(trx)
-    const e = err as { constraint?: string; message: string }
-    return `${e.constraint ?? ''}: ${e.message}`
-  }
-  await sql`rollback to savepoint ${sp}`.execute(trx)
-  throw new Error(`the database accepted: ${statement.compile(trx).sql}`)
-}
+import { refused } from '../support/refused'
 
 const HALOGENATED = POLYMERS.filter((p) => p.halogens.length > 0)
 

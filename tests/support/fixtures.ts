@@ -78,7 +78,7 @@ export const FIXTURE_MEASUREMENTS: Measurements = {
 }
 
 /** An artwork with one revision (its files named but not stored), optionally submitted or approved. */
-export async function addArtwork(db: Db, o: { teamId: number; authorId: number; title?: string; status?: 'draft' | 'in-review' | 'approved'; vectorKey?: string; widthMm?: number; heightMm?: number }) {
+export async function addArtwork(db: Db, o: { teamId: number; authorId: number; title?: string; status?: 'draft' | 'in-review' | 'approved'; vectorKey?: string; widthMm?: number; heightMm?: number; layers?: { name: string; hex: string }[] }) {
   const artwork = await db.insertInto('artwork').values({ team_id: o.teamId, title: o.title ?? unique('Fixture artwork'), author_id: o.authorId }).returning(['id', 'title']).executeTakeFirstOrThrow()
   const hash = 'f'.repeat(64)
   const source = await db.insertInto('source').values({
@@ -90,7 +90,19 @@ export async function addArtwork(db: Db, o: { teamId: number; authorId: number; 
     prepared_key: 'prepared/fixture.png', outline_key: 'outline/fixture.svg', vector_key: o.vectorKey ?? 'vector/fixture.svg',
     measurements: JSON.stringify(FIXTURE_MEASUREMENTS), timings: JSON.stringify({ prepareMs: 1, traceMs: 1, cleanMs: 1, measureMs: 1, totalMs: 4 }),
     engine_versions: JSON.stringify({ sharp: 'x', vips: 'x', potrace: 'x', svgo: 'x' }), author_id: o.authorId,
+    ...(o.layers ? {
+      layer_count: o.layers.length,
+      colour: JSON.stringify({ sentence: `${o.layers.length} inks`, inks: o.layers.map((l) => ({ ...l, share: 0.1 })), stack: o.layers.map(() => ({ mode: 'under', overlapMm: 0.5 })), marks: true }),
+    } : {}),
   }).returning('id').executeTakeFirstOrThrow()
+  for (const [position, layer] of (o.layers ?? []).entries()) {
+    const { threshold: _threshold, ...measurements } = FIXTURE_MEASUREMENTS
+    await db.insertInto('revision_layer').values({
+      revision_id: revision.id, position, name: layer.name, hex: layer.hex,
+      prepared_key: `prepared/fixture-${position}.png`, outline_key: `outline/fixture-${position}.svg`, vector_key: `vector/fixture-${position}.svg`,
+      measurements: JSON.stringify(measurements),
+    }).execute()
+  }
   for (const status of o.status === 'approved' ? ['in-review', 'approved'] as const : o.status === 'in-review' ? ['in-review'] as const : []) {
     await db.updateTable('revision_status').set({ status, updated_at: sql`clock_timestamp()` }).where('revision_id', '=', revision.id).execute()
     await db.updateTable('artwork').set({ status }).where('id', '=', artwork.id).execute()
