@@ -81,7 +81,13 @@ export async function releaseDeadRunners(db: Kysely<Database>): Promise<string[]
  * Starts taking jobs for `tasks`, `concurrency` at a time. The runner registers its workers so
  * that a runner started later can tell when this one died; stop() lets running jobs finish.
  */
-export async function startWorkRunner(db: Kysely<Database>, o: { connectionString: string; tasks: TaskList; concurrency: number }): Promise<WorkRunner> {
+export async function startWorkRunner(db: Kysely<Database>, o: {
+  connectionString: string
+  tasks: TaskList
+  concurrency: number
+  /** Runs after each release of dead runners (at start and on every heartbeat), e.g. to give up what they left with no tries. */
+  afterRelease?: () => Promise<unknown>
+}): Promise<WorkRunner> {
   const mine = new Set<string>()
   const pending: Promise<unknown>[] = []
   const events: WorkerEvents = new EventEmitter()
@@ -91,6 +97,7 @@ export async function startWorkRunner(db: Kysely<Database>, o: { connectionStrin
       .onConflict((oc) => oc.column('worker_id').doUpdateSet({ seen_at: new Date() })).execute())
   })
   await releaseDeadRunners(db)
+  await o.afterRelease?.()
   const pgPool = new pg.Pool({ connectionString: o.connectionString, max: o.concurrency + 2 })
   pgPool.on('error', (err) => console.error('[decalwright] work queue connection lost:', err.message))
   let runner: Runner
@@ -105,6 +112,7 @@ export async function startWorkRunner(db: Kysely<Database>, o: { connectionStrin
     const ids = [...mine]
     void db.updateTable('work_runner').set({ seen_at: new Date() }).where('worker_id', 'in', ids).execute()
       .then(() => releaseDeadRunners(db))
+      .then(() => o.afterRelease?.())
       .catch((err) => console.error('[decalwright] work queue heartbeat failed:', err instanceof Error ? err.message : err))
   }, HEARTBEAT_MS)
   beat.unref()

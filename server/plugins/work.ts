@@ -2,6 +2,7 @@ import os from 'node:os'
 import { dbReady, useDb } from '../platform/db'
 import { startWorkRunner, type WorkRunner } from '../platform/work-queue'
 import { workTasks } from '../work/tasks'
+import { giveUpStrandedWork } from '../work/items'
 
 // The app runs the work queue's jobs itself unless NUXT_WORK_IN_APP=0 (then `npm run worker`
 // processes do), so one `npm start` needs nothing else. Started once the database is ready;
@@ -16,6 +17,7 @@ export default defineNitroPlugin((nitro) => {
       connectionString: c.databaseUrl,
       tasks: workTasks(useDb),
       concurrency: Number(c.workConcurrency) || os.availableParallelism(),
+      afterRelease: () => giveUpStrandedWork(useDb()),
     }))
     .then((r) => { runner = r }, (err) => {
       console.error('[decalwright] the work queue runner could not start:', err instanceof Error ? err.message : err)

@@ -20,6 +20,7 @@ export interface NewWork {
   sourceKey?: string
 }
 
+// giveUpStrandedWork's SQL spells the same key.
 const jobKey = (id: number) => `work-item-${id}`
 
 /** Inserts the item and its queued job in the caller's transaction. */
@@ -116,4 +117,21 @@ export async function cancelWork(db: Db, id: number): Promise<boolean> {
     if (r) await removeJob(trx, jobKey(id))
     return !!r
   })
+}
+
+/**
+ * Gives up work whose job can never run again: a runner killed on the job's last try leaves it
+ * unlocked (once its runner is found dead) with no tries left, so no runner takes it and the
+ * person who asked would wait for ever. Run after dead runners are released.
+ */
+export const STRANDED: WorkError = { status: 500, message: 'This stopped when the process doing it was interrupted on its last try. Try again, or tell a mentor if it keeps happening.' }
+
+export async function giveUpStrandedWork(db: Db, error: WorkError = STRANDED): Promise<number[]> {
+  const r = await sql<{ id: number }>`update work_item w
+    set state = 'failed', error = ${JSON.stringify(error)}::jsonb, finished_at = now(), updated_at = now()
+    where w.state = 'running' and not exists (
+      select 1 from graphile_worker.jobs j
+      where j.key = 'work-item-' || w.id and (j.locked_at is not null or j.attempts < j.max_attempts))
+    returning w.id`.execute(db)
+  return r.rows.map((row) => row.id)
 }

@@ -7,6 +7,7 @@ import { dbReady, useDb } from '../platform/db'
 import { platformConfigFromEnv, workConcurrency } from '../platform/env-config'
 import { startWorkRunner } from '../platform/work-queue'
 import { workTasks } from './tasks'
+import { giveUpStrandedWork } from './items'
 
 async function main(): Promise<void> {
   const config = platformConfigFromEnv(process.env)
@@ -17,6 +18,7 @@ async function main(): Promise<void> {
     connectionString: config.databaseUrl,
     tasks: workTasks(useDb),
     concurrency: workConcurrency(process.env, os.availableParallelism()),
+    afterRelease: () => giveUpStrandedWork(useDb()),
   })
   console.log(`[decalwright] worker ${process.pid} is taking work from the queue`)
   let stopping = false

@@ -1,5 +1,5 @@
 // Once per run of the service tests: a PostgreSQL cluster of their own (nothing else: no
-// object store, no mail, no app build), migrated to the latest schema, and the cut sheets'
+// object store, no mail, no app build), migrated to the latest schema with the work queue's, and the cut sheets'
 // worker thread bundled as the build bundles it (jobs lay their copies out in it). Each test then works
 // inside a transaction that is rolled back (tests/support/service.ts).
 import { rmSync } from 'node:fs'
@@ -8,6 +8,7 @@ import type { TestProject } from 'vitest/node'
 import { buildCutSheetWorker } from '../../scripts/lib/pipeline-worker-build'
 import { startPostgres } from '../../scripts/lib/services'
 import { createDb, migrateToLatest } from '../../server/db/connect'
+import { installWorkQueue } from '../../server/platform/work-queue'
 
 // Beside the e2e project's folder (which that project empties when it starts), ten ports up.
 const offset = Number(process.env.DECALWRIGHT_TEST_PORT_OFFSET ?? 0)
@@ -32,6 +33,7 @@ export default async function setup(project: TestProject) {
     const db = createDb(pg.url, 1)
     await migrateToLatest(db)
     await db.destroy()
+    await installWorkQueue(pg.url)
   } catch (err) {
     await pg.stop()
     throw err
