@@ -38,7 +38,7 @@ function text(d: Detail, ...keys: string[]): string | null {
 
 const role = (r: unknown) => roleLabel(typeof r === 'string' ? r : '').toLowerCase()
 
-const PLACEMENT_FIELDS: Record<string, string> = { spot: 'spot', widthMm: 'width (mm)', quantity: 'on the robot', spares: 'spares', side: 'side' }
+const PLACEMENT_FIELDS: Record<string, string> = { spot: 'spot', widthMm: 'width (mm)', quantity: 'on the robot', spares: 'spares', side: 'side', neededAtEvents: 'needed at events' }
 
 export function capitalise(s: string): string {
   return s ? s.charAt(0).toUpperCase() + s.slice(1) : s

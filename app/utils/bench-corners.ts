@@ -4,11 +4,23 @@
 // sheet as it should come out (shared/utils/settings.ts, cornersSchema).
 import type { CleanUpChoice } from '#shared/types/pipeline'
 import type { PipelineSettings, SourcePoint } from '#shared/utils/settings'
-import type { ViewSize } from './bench-view'
+import type { ViewPoint, ViewSize } from './bench-view'
 
 export type Corners = [SourcePoint, SourcePoint, SourcePoint, SourcePoint]
 
 export const CORNER_NAMES = ['top left', 'top right', 'bottom right', 'bottom left'] as const
+
+/** A handle on the source panel (BenchHandles): a corner of the sheet, an edge of the crop. */
+export interface BenchHandle {
+  /** Where it sits, in source pixels. */
+  at: ViewPoint
+  /** What it is, in words ("top left corner"). */
+  name: string
+  /** Where it is, in words, for its label and the live region. */
+  words: string
+  testId: string
+  shape?: 'round' | 'square'
+}
 
 /** Side of a handle's target on screen, px: at least WCAG 2.2's 24 × 24 px (SC 2.5.8). */
 export const HANDLE_PX = 32

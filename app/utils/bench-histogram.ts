@@ -43,13 +43,17 @@ export function inkShare(counts: readonly number[], level: number): number {
   return total > 0 ? ink / total : 0
 }
 
-/** Slider keys: the new level, or null for a key the slider does not use. */
-export function levelAfterKey(key: string, level: number): number | null {
+/** Levels an arrow key moves the marker with Shift held, as Page Up and Page Down do. */
+export const LEVEL_BIG_STEP = 10
+
+/** Slider keys (Shift with an arrow for a larger step): the new level, or null for a key the slider does not use. */
+export function levelAfterKey(key: string, level: number, shift = false): number | null {
+  const step = shift ? LEVEL_BIG_STEP : 1
   switch (key) {
-    case 'ArrowLeft': case 'ArrowDown': return Math.max(0, level - 1)
-    case 'ArrowRight': case 'ArrowUp': return Math.min(255, level + 1)
-    case 'PageDown': return Math.max(0, level - 10)
-    case 'PageUp': return Math.min(255, level + 10)
+    case 'ArrowLeft': case 'ArrowDown': return Math.max(0, level - step)
+    case 'ArrowRight': case 'ArrowUp': return Math.min(255, level + step)
+    case 'PageDown': return Math.max(0, level - LEVEL_BIG_STEP)
+    case 'PageUp': return Math.min(255, level + LEVEL_BIG_STEP)
     case 'Home': return 0
     case 'End': return 255
     default: return null

@@ -301,6 +301,8 @@ export interface PlacementTable {
   quantity: number
   spares: Generated<number>
   spares_on_hand: Generated<number>
+  /** Its spares go in the robot's event kit with the plates' (migration 0015). */
+  needed_at_events: Generated<boolean>
   created_by: number
   created_at: CreatedAt
   removed_by: number | null

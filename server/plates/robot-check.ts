@@ -1,4 +1,5 @@
-// A robot against its program's rule profile, and the event kit: spares of every plate.
+// A robot against its program's rule profile, and the event kit: spares of every plate and of
+// every decal marked as needed at events, batched by film.
 import { createError } from 'h3'
 import { sql } from 'kysely'
 import { checkRobotPlates, scaleToPlacement, type PlacedPlate } from '../../shared/plates/check'
@@ -7,6 +8,7 @@ import type { EventKit, PlateFacts, RobotPlateCheck } from '../../shared/types/p
 import { inTransaction, type Db } from '../platform/db'
 import { flags, type Actor } from '../policy'
 import { queueJob } from '../jobs/service'
+import { createBatch } from '../batches/service'
 import type { RobotRow } from '../robots/queries'
 import { chosenProfile, resolveProfile } from './queries'
 
@@ -24,6 +26,19 @@ function platePlacements(db: Db, robotId: number) {
 }
 
 type PlateRow = Awaited<ReturnType<typeof platePlacements>>[number]
+
+/** The robot's placements whose spares travel in the event kit: every plate layer and every decal marked as needed at events. */
+function kitPlacements(db: Db, robotId: number) {
+  return db.selectFrom('placement')
+    .innerJoin('revision', 'revision.id', 'placement.revision_id')
+    .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
+    .innerJoin('film', 'film.id', 'placement.film_id')
+    .select(['placement.id', 'placement.spot', 'placement.width_mm', 'placement.spares', 'placement.film_id', 'artwork.title',
+      'film.name as film_name', 'film.cleared as film_cleared', 'film.retired as film_retired'])
+    .where('placement.robot_id', '=', robotId).where('placement.removed_at', 'is', null)
+    .where((eb) => eb.or([eb('revision.origin', '=', 'generated'), eb('placement.needed_at_events', '=', true)]))
+    .orderBy('placement.id').execute()
+}
 
 /**
  * The plates as the check sees them: each numerals placement with a side is a plate; its
@@ -51,7 +66,7 @@ export function placedPlates(rows: PlateRow[]): { row: PlateRow; plate: PlacedPl
 }
 
 export async function robotPlateCheck(db: Db, actor: Actor, robot: RobotRow): Promise<RobotPlateCheck> {
-  const [chosen, rows] = await Promise.all([chosenProfile(db, robot.programId), platePlacements(db, robot.id)])
+  const [chosen, rows, kit] = await Promise.all([chosenProfile(db, robot.programId), platePlacements(db, robot.id), kitPlacements(db, robot.id)])
   const profile = chosen ? resolveProfile(chosen) : null
   const plates = placedPlates(rows)
   return {
@@ -63,7 +78,7 @@ export async function robotPlateCheck(db: Db, actor: Actor, robot: RobotRow): Pr
       placementId: row.id, side: plate.side, title: row.title, numeralHeightMm: plate.numeralHeightMm, strokeMm: plate.strokeMm,
       numeralColour: plate.numeralColour, backgroundColour: plate.backgroundColour,
     })),
-    kitPlacements: rows.length,
+    kitPlacements: kit.length,
     can: flags(actor, ['placement.reprint'], robot),
   }
 }
@@ -71,27 +86,39 @@ export async function robotPlateCheck(db: Db, actor: Actor, robot: RobotRow): Pr
 export const EVENT_KIT_REASON = 'Event kit: spares to travel with the robot.'
 
 /**
- * Queues spares of every plate layer placed on the robot, one reprint job per placement (its
- * spares, at least one), all in one transaction: the kit is queued whole or not at all. The
- * caller has found the robot and checked `placement.reprint`.
+ * Queues spares of every plate layer placed on the robot and of every decal marked as needed
+ * at events: one reprint job per placement (its spares, at least one), gathered into one batch
+ * per film (a batch is cut from one film), all in one transaction: the kit is queued whole or
+ * not at all. The caller has found the robot and checked `placement.reprint`.
  */
 export async function queueEventKit(db: Db, actor: Actor, robot: RobotRow): Promise<EventKit> {
   return inTransaction(db, async (trx) => {
     // Lock the robot's placements so an edit at the same time waits for the kit.
     await trx.selectFrom('placement').select('id').where('robot_id', '=', robot.id).where('removed_at', 'is', null).forUpdate().execute()
-    const rows = await platePlacements(trx, robot.id)
-    if (rows.length === 0) throw createError({ statusCode: 409, message: 'No plates are placed on this robot: generate a plate and place it first.' })
+    const rows = await kitPlacements(trx, robot.id)
+    if (rows.length === 0) {
+      throw createError({ statusCode: 409, message: 'Nothing on this robot goes in the event kit: place a plate, or mark a decal as needed at events.' })
+    }
     const blocked = rows.find((r) => !r.film_cleared || r.film_retired)
     if (blocked) {
       throw createError({ statusCode: 422, message: `“${blocked.title}” is placed in ${blocked.film_name}, which may not be cut now: place it again in another film, then queue the kit.` })
     }
     const jobIds: number[] = []
+    const films = new Map<number, { filmName: string; jobIds: number[]; copies: number }>()
     for (const r of rows) {
-      jobIds.push(await queueJob(trx, actor, {
-        placementId: r.id, filmId: r.film_id, kind: 'reprint', quantity: Math.max(r.spares, 1), widthMm: r.width_mm, reason: EVENT_KIT_REASON,
+      const quantity = Math.max(r.spares, 1)
+      const jobId = await queueJob(trx, actor, {
+        placementId: r.id, filmId: r.film_id, kind: 'reprint', quantity, widthMm: r.width_mm, reason: EVENT_KIT_REASON,
         teamId: robot.teamId, robotId: robot.id, robotName: robot.name, title: r.title, spot: r.spot,
-      }))
+      })
+      const film = films.get(r.film_id) ?? { filmName: r.film_name, jobIds: [], copies: 0 }
+      jobIds.push(jobId)
+      film.jobIds.push(jobId)
+      film.copies += quantity
+      films.set(r.film_id, film)
     }
-    return { jobIds }
+    const batches: EventKit['batches'] = []
+    for (const [filmId, f] of films) batches.push({ id: (await createBatch(trx, actor, f.jobIds)).id, filmId, ...f })
+    return { jobIds, copies: batches.reduce((n, b) => n + b.copies, 0), batches }
   })
 }

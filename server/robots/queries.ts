@@ -12,7 +12,7 @@ function placementsOf(eb: ExpressionBuilder<Database, 'robot'>) {
     .innerJoin('film', 'film.id', 'placement.film_id')
     .innerJoin('users', 'users.id', 'placement.created_by')
     .select((p) => [
-      'placement.id', 'placement.spot', 'placement.side', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.spares_on_hand', 'placement.created_at',
+      'placement.id', 'placement.spot', 'placement.side', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.spares_on_hand', 'placement.needed_at_events', 'placement.created_at',
       'revision.id as revision_id', 'revision.number', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
       'artwork.id as artwork_id', 'artwork.title', 'film.id as film_id', 'film.name as film_name', 'film.colour as film_colour', 'film.colour_hex as film_colour_hex',
       'users.name as created_by',
@@ -57,7 +57,7 @@ export function robotPage(db: Db, actor: Actor, f: { teamId?: number }, after: R
 export function findPlacement(db: Db, actor: Actor, id: number, o: { lock?: boolean } = {}) {
   const q = db.selectFrom('placement').innerJoin('robot', 'robot.id', 'placement.robot_id').innerJoin('team', 'team.id', 'robot.team_id')
     .innerJoin('revision', 'revision.id', 'placement.revision_id').innerJoin('artwork', 'artwork.id', 'revision.artwork_id').innerJoin('film', 'film.id', 'placement.film_id')
-    .select(['placement.id', 'placement.spot', 'placement.side', 'placement.film_id', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.spares_on_hand',
+    .select(['placement.id', 'placement.spot', 'placement.side', 'placement.film_id', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.spares_on_hand', 'placement.needed_at_events',
       'placement.removed_at', 'placement.revision_id', 'revision.number as revision_number', 'revision.artwork_id',
       'robot.id as robot_id', 'robot.name as robot_name', 'team.id as teamId', 'team.program_id as programId',
       'artwork.title', 'film.name as film_name', 'film.cleared as film_cleared', 'film.retired as film_retired'])

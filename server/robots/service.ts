@@ -27,7 +27,7 @@ export function toRobotView(actor: Actor, r: RobotRow): RobotView {
     id: r.id, name: r.name, season: r.season, team: { id: r.teamId, name: r.team_name, colour: r.team_colour },
     placements: r.placements.map((p): PlacementView => ({
       id: p.id, spot: p.spot, side: p.side, widthMm: p.width_mm, heightMm: (p.width_mm * p.revision_height) / p.revision_width,
-      quantity: p.quantity, spares: p.spares, sparesOnHand: p.spares_on_hand,
+      quantity: p.quantity, spares: p.spares, sparesOnHand: p.spares_on_hand, neededAtEvents: p.needed_at_events,
       film: { id: p.film_id, name: p.film_name, colour: p.film_colour, colourHex: p.film_colour_hex },
       revision: { id: p.revision_id, number: p.number, artworkId: p.artwork_id, title: p.title, vectorUrl: `/api/revisions/${p.revision_id}/vector.svg` },
       createdAt: iso(p.created_at), createdBy: p.created_by,
@@ -87,7 +87,7 @@ async function placementView(db: Db, actor: Actor, robotId: number, placementId:
  * Puts an approved revision of the robot's team on the robot, in film the register clears for
  * cutting, and queues its first cut. The caller has found the robot and checked `placement.create`.
  */
-export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, input: { revisionId: number; filmId: number; spot: string; side?: RobotSide | null; widthMm: number; quantity: number; spares: number }): Promise<PlacementView> {
+export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, input: { revisionId: number; filmId: number; spot: string; side?: RobotSide | null; widthMm: number; quantity: number; spares: number; neededAtEvents?: boolean }): Promise<PlacementView> {
   const placementId = await inTransaction(db, async (trx) => {
     const revision = await findRevision(trx, actor, input.revisionId)
     if (!revision || revision.teamId !== robot.teamId) {
@@ -102,11 +102,14 @@ export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, inp
     if (refused) throw fieldError(422, refused, 'filmId', film.cleared ? 'Retired.' : film.polymer_verdict === 'never' ? 'Never cut this film.' : 'Needs the lab\'s approval first.')
     const p = await trx.insertInto('placement').values({
       robot_id: robot.id, revision_id: revision.id, film_id: film.id, spot: input.spot, side: input.side ?? null, width_mm: input.widthMm,
-      quantity: input.quantity, spares: input.spares, created_by: actor.id,
+      quantity: input.quantity, spares: input.spares, needed_at_events: input.neededAtEvents ?? false, created_by: actor.id,
     }).returning('id').executeTakeFirstOrThrow().catch(refusedFilm)
     await audit(trx, {
       ...by(actor), action: 'place', subject: 'robot', subjectId: robot.id, about: { artworkId: revision.artwork_id },
-      detail: { title: revision.title, revision: revision.number, spot: input.spot, film: film.name, quantity: input.quantity, spares: input.spares },
+      detail: {
+        title: revision.title, revision: revision.number, spot: input.spot, film: film.name, quantity: input.quantity, spares: input.spares,
+        ...(input.neededAtEvents ? { neededAtEvents: true } : {}),
+      },
     })
     await queueJob(trx, actor, {
       placementId: p.id, filmId: film.id, kind: 'initial', quantity: input.quantity + input.spares, widthMm: input.widthMm, reason: '',
@@ -183,8 +186,10 @@ export async function editPlacement(db: Db, actor: Actor, found: PlacementRow, p
     const after = plan.after
     const side = patch.side === undefined ? placement.side : patch.side
     if (side !== placement.side) plan.changes.side = { from: placement.side, to: side }
+    const neededAtEvents = patch.neededAtEvents ?? placement.needed_at_events
+    if (neededAtEvents !== placement.needed_at_events) plan.changes.neededAtEvents = { from: placement.needed_at_events, to: neededAtEvents }
     await trx.updateTable('placement').set({
-      side,
+      side, needed_at_events: neededAtEvents,
       spot: after.spot, width_mm: after.widthMm, quantity: after.quantity, spares: after.spares, ...(plan.resized ? { spares_on_hand: 0 } : {}),
     }).where('id', '=', placement.id).where('removed_at', 'is', null).execute()
     const names = { ...placement, spot: after.spot }

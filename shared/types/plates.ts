@@ -91,11 +91,15 @@ export interface RobotPlateCheck {
   results: RuleResult[]
   /** Plate placements (numerals layers with a side) found on the robot. */
   plates: { placementId: number; side: RobotSide; title: string; numeralHeightMm: number | null; strokeMm: number | null; numeralColour: string | null; backgroundColour: string | null }[]
-  /** Placements of generated plate layers, each of which the event kit would reprint. */
+  /** Placements the event kit would reprint: every plate layer and every decal marked as needed at events. */
   kitPlacements: number
   can: Can<'placement.reprint'>
 }
 
+/** What the event kit queued: one reprint job per placement, in one batch per film. */
 export interface EventKit {
   jobIds: number[]
+  /** Copies queued in all. */
+  copies: number
+  batches: { id: number; filmId: number; filmName: string; jobIds: number[]; copies: number }[]
 }

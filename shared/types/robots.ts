@@ -37,6 +37,8 @@ export interface PlacementView {
   spares: number
   /** Cut copies not on the robot: cutting adds, applying takes. */
   sparesOnHand: number
+  /** Its spares go in the robot's event kit. */
+  neededAtEvents: boolean
   film: { id: number; name: string; colour: string; colourHex: string }
   revision: { id: number; number: number; artworkId: number; title: string; vectorUrl: string }
   createdAt: string

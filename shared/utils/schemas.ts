@@ -243,15 +243,18 @@ export const placementSchema = z.object({
   ...placementFields,
   spares: placementFields.spares.default(PLACEMENT_LIMITS.spares.default),
   side: sideSchema.default(null),
+  /** Its spares travel in the robot's event kit. */
+  neededAtEvents: z.boolean().default(false),
 })
 
-/** A change to a placement: any of its spot, width, copies on the robot and spares. */
+/** A change to a placement: any of its spot, side, width, copies on the robot, spares and whether it is needed at events. */
 export const placementPatchSchema = z.object({
   spot: placementFields.spot.optional(),
   widthMm: placementFields.widthMm.optional(),
   quantity: placementFields.quantity.optional(),
   spares: placementFields.spares.optional(),
   side: sideSchema.optional(),
+  neededAtEvents: z.boolean().optional(),
 }).refine((v) => Object.values(v).some((x) => x !== undefined), { message: 'Change at least one thing.' })
 
 const reasonSchema = (example: string) => z.string().trim().min(1, { message: `Say why, e.g. "${example}".` }).max(500)

@@ -10,6 +10,8 @@ import { signedIn, type ApiClient } from '../support/client'
 import { testDb } from '../support/db'
 import { hashPassword } from '../../server/platform/passwords'
 import { buildProgram, type ProgramFixture } from '../support/fixtures'
+import { drawing } from '../support/images'
+import { uploadArtwork } from '../support/upload'
 
 let student: ApiClient
 let mentor: ApiClient
@@ -250,16 +252,73 @@ describe('the plate generator', () => {
       expect(result(c, 'numeral-height').sentence).toMatch(/^The numerals on the top plate \(left panel\) are /)
     })
 
-    it('the event kit queues one reprint job per plate placement, in one request', async () => {
+    let marked: number
+    let unmarked: number
+    it('a decal marked as needed at events joins the kit; one not marked stays out, until it is marked', async () => {
+      const up = await uploadArtwork(student, { file: await drawing('png', 600, 400), title: `Team mascot ${stamp}`, teamId: wrens, widthMm: 40 })
+      expect(up.status, JSON.stringify(up.body)).toBe(201)
+      expect((await student.post(`/api/revisions/${up.body.revision.id}/submit`)).status).toBe(200)
+      expect((await mentor.post(`/api/revisions/${up.body.revision.id}/review`, { decision: 'approve' })).status).toBe(200)
+      const put = async (spot: string, neededAtEvents?: boolean) => {
+        const r = await mentor.post('/api/placements', { robotId, revisionId: up.body.revision.id, filmId: films.white, spot, widthMm: 40, quantity: 1, spares: 3, ...(neededAtEvents === undefined ? {} : { neededAtEvents }) })
+        expect(r.status, JSON.stringify(r.body)).toBe(201)
+        return r.body
+      }
+      const a = await put('driver panel', true)
+      expect(a.neededAtEvents).toBe(true)
+      marked = a.id
+      const b = await put('arm')
+      expect(b.neededAtEvents).toBe(false)
+      unmarked = b.id
+      // Five plate layers and the marked decal.
+      expect((await check()).kitPlacements).toBe(6)
+      const on = await mentor.patch(`/api/placements/${unmarked}`, { neededAtEvents: true })
+      expect(on.status, JSON.stringify(on.body)).toBe(200)
+      expect(on.body.placement.neededAtEvents).toBe(true)
+      expect((await check()).kitPlacements).toBe(7)
+      const off = await mentor.patch(`/api/placements/${unmarked}`, { neededAtEvents: false })
+      expect(off.body.placement.neededAtEvents).toBe(false)
+      expect((await check()).kitPlacements).toBe(6)
+      // The robot's page shows the mark.
+      const robot = (await student.get(`/api/robots/${robotId}`)).body as { placements: { id: number; neededAtEvents: boolean }[] }
+      expect(robot.placements.filter((p) => p.neededAtEvents).map((p) => p.id)).toEqual([marked])
+      // A student may not change a placement, the mark included.
+      expect((await student.patch(`/api/placements/${marked}`, { neededAtEvents: false })).status).toBe(403)
+    })
+
+    it('the event kit queues one reprint job per placement, in one batch per film, in one request', async () => {
       const r = await student.post(`/api/robots/${robotId}/event-kit`)
       expect(r.status, JSON.stringify(r.body)).toBe(201)
-      expect(r.body.jobIds).toHaveLength(5)
-      const jobs = await testDb().selectFrom('job').innerJoin('placement', 'placement.id', 'job.placement_id')
-        .select(['job.kind', 'job.quantity', 'job.reason', 'placement.spares', 'placement.side']).where('job.id', 'in', r.body.jobIds).orderBy('job.id').execute()
+      expect(r.body.jobIds).toHaveLength(6)
+      const jobs = await testDb().selectFrom('job').innerJoin('placement', 'placement.id', 'job.placement_id').innerJoin('batch', 'batch.id', 'job.batch_id')
+        .select(['job.id', 'job.kind', 'job.quantity', 'job.reason', 'job.state', 'job.film_id', 'job.batch_id', 'batch.film_id as batch_film', 'batch.state as batch_state', 'placement.id as placement_id', 'placement.side'])
+        .where('job.id', 'in', r.body.jobIds).orderBy('job.id').execute()
+      // Worked by hand: the plates' spares (2, 2, then at least 1 for the rest) and the marked decal's 3; never the unmarked one.
       expect(jobs.map((j) => [j.kind, j.side, j.quantity])).toEqual([
-        ['reprint', 'front', 2], ['reprint', 'front', 2], ['reprint', 'back', 1], ['reprint', 'back', 1], ['reprint', 'top', 1],
+        ['reprint', 'front', 2], ['reprint', 'front', 2], ['reprint', 'back', 1], ['reprint', 'back', 1], ['reprint', 'top', 1], ['reprint', null, 3],
       ])
+      expect(jobs.map((j) => j.placement_id)).toContain(marked)
+      expect(jobs.map((j) => j.placement_id)).not.toContain(unmarked)
       expect(new Set(jobs.map((j) => j.reason))).toEqual(new Set([EVENT_KIT_REASON]))
+      // Every job in a queued batch of its own film; one batch per film: white, red and black.
+      expect(jobs.every((j) => j.batch_film === j.film_id && j.batch_state === 'queued' && j.state === 'queued')).toBe(true)
+      const byFilm = new Map<number, Set<number>>()
+      for (const j of jobs) byFilm.set(j.film_id, (byFilm.get(j.film_id) ?? new Set()).add(j.batch_id!))
+      expect([...byFilm.keys()].sort()).toEqual([films.white, films.red, films.black].sort())
+      expect([...byFilm.values()].every((b) => b.size === 1)).toBe(true)
+      // The answer says the same: each batch with its film, jobs and copies, worked by hand: white
+      // holds the front numerals (2), the top numerals (1) and the marked decal (3); red the two
+      // backgrounds (2 + 1); black the back numerals (1).
+      const batches = r.body.batches as { id: number; filmId: number; filmName: string; jobIds: number[]; copies: number }[]
+      expect(batches).toHaveLength(3)
+      expect(Object.fromEntries(batches.map((b) => [b.filmId, b.copies]))).toEqual({ [films.white]: 6, [films.red]: 3, [films.black]: 1 })
+      expect(r.body.copies).toBe(10)
+      for (const b of batches) expect(b.jobIds.every((id) => jobs.find((j) => j.id === id)!.batch_id === b.id)).toBe(true)
+      // The cut queue lists each batch.
+      const queue = await mentor.get('/api/batches')
+      expect(queue.status, JSON.stringify(queue.body)).toBe(200)
+      const listed = (queue.body.batches as { id: number }[]).map((b) => b.id)
+      for (const b of batches) expect(listed).toContain(b.id)
     })
 
     it('the kit is queued whole or not at all: one plate in a retired film refuses it, and no job is added', async () => {

@@ -186,6 +186,10 @@ describe('the histogram', () => {
     expect(levelAfterKey('Home', 99)).toBe(0)
     expect(levelAfterKey('End', 99)).toBe(255)
     expect(levelAfterKey('a', 99)).toBeNull()
+    // Shift with an arrow is a larger step, as Page Up and Page Down are.
+    expect(levelAfterKey('ArrowRight', 100, true)).toBe(110)
+    expect(levelAfterKey('ArrowDown', 5, true)).toBe(0)
+    expect(levelAfterKey('PageUp', 100)).toBe(levelAfterKey('ArrowUp', 100, true))
   })
 
   it('tells what share becomes ink', () => {

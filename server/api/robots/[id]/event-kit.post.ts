@@ -2,7 +2,8 @@ import { useDb } from '#server/platform/db'
 import { findRobot } from '#server/robots/queries'
 import { queueEventKit } from '#server/plates/robot-check'
 
-// One click before an event: spares of every plate on the robot, queued together.
+// One click before an event: spares of every plate on the robot and of every decal marked as
+// needed at events, queued together as one batch per film.
 export default defineEventHandler(async (event) => {
   const actor = await requireActor(event)
   const db = useDb()
