@@ -1,6 +1,7 @@
 // A robot against its program's rule profile, and the event kit: spares of every plate.
 import { createError } from 'h3'
 import { sql } from 'kysely'
+import { jsonArrayFrom } from 'kysely/helpers/postgres'
 import { checkRobotPlates, scaleToPlacement, type PlacedPlate } from '../../shared/plates/check'
 import type { RobotSide } from '../../shared/plates/profiles'
 import type { EventKit, PlateFacts, RobotPlateCheck } from '../../shared/types/plates'
@@ -18,32 +19,45 @@ function platePlacements(db: Db, robotId: number) {
     .innerJoin('film', 'film.id', 'placement.film_id')
     .select(['placement.id', 'placement.side', 'placement.spot', 'placement.width_mm', 'placement.quantity', 'placement.spares', 'placement.film_id',
       'revision.width_mm as revision_width', 'revision.height_mm as revision_height', 'artwork.title',
-      sql<PlateFacts>`revision.plate`.as('plate'), 'film.colour as film_colour', 'film.name as film_name', 'film.cleared as film_cleared', 'film.retired as film_retired'])
+      sql<PlateFacts>`revision.plate`.as('plate'), 'film.colour as film_colour', 'film.name as film_name', 'film.cleared as film_cleared', 'film.retired as film_retired',
+      // A layered plate's film per layer, bottom first: the colours the check reads.
+      (eb) => jsonArrayFrom(eb.selectFrom('placement_layer_film as plf').innerJoin('film as lf', 'lf.id', 'plf.film_id')
+        .select(['plf.position', 'lf.colour']).whereRef('plf.placement_id', '=', 'placement.id').orderBy('plf.position')).as('layer_films')])
     .where('placement.robot_id', '=', robotId).where('placement.removed_at', 'is', null).where('revision.origin', '=', 'generated')
     .orderBy('placement.id').execute()
 }
 
 type PlateRow = Awaited<ReturnType<typeof platePlacements>>[number]
 
+/** The film colour a layered plate's placement gives the layer of this role (null: no such layer). */
+function layerColour(row: PlateRow, role: 'numerals' | 'background'): string | null {
+  const layer = row.plate.layers?.find((l) => l.role === role)
+  return layer ? row.layer_films.find((f) => f.position === layer.position)?.colour ?? null : null
+}
+
 /**
- * The plates as the check sees them: each numerals placement with a side is a plate; its
- * background is the placement of the same generated plate's background layer on the same side.
+ * The plates as the check sees them: each numerals placement with a side is a plate. A layered
+ * plate carries its background: the colours are those of the films chosen for its layers. An
+ * older plate of one artwork per colour has its background in the placement of the same
+ * generated plate's background layer on the same side.
  * Sizes are measured on the revision's vector and scaled to the placement's width.
  */
 export function placedPlates(rows: PlateRow[]): { row: PlateRow; plate: PlacedPlate }[] {
   const numerals = rows.filter((r) => r.plate.role === 'numerals' && r.side !== null)
   return numerals.map((row) => {
-    const under = rows.find((b) => b.plate.role === 'background' && b.plate.group === row.plate.group && b.side === row.side)
+    const layered = row.plate.layers !== undefined
+    const under = layered ? null : rows.find((b) => b.plate.role === 'background' && b.plate.group === row.plate.group && b.side === row.side)
     const m = row.plate.measured
     const scaled = scaleToPlacement({
       numeralHeightMm: m.tallestPieceMm, strokeMm: m.strokeMm, marginMm: m.marginMm,
-      plateWidthMm: row.revision_width, plateHeightMm: row.revision_height,
+      plateWidthMm: m.plateWidthMm ?? row.revision_width, plateHeightMm: m.plateHeightMm ?? row.revision_height,
     }, row.revision_width, row.width_mm)
     return {
       row,
       plate: {
         side: row.side as RobotSide, spot: row.spot, ...scaled,
-        backgroundColour: under ? under.film_colour : null, numeralColour: row.film_colour,
+        backgroundColour: layered ? layerColour(row, 'background') : under ? under.film_colour : null,
+        numeralColour: layered ? layerColour(row, 'numerals') : row.film_colour,
         quantity: row.quantity, spares: row.spares,
       },
     }
