@@ -259,6 +259,15 @@ describe('placing a layered decal', () => {
     expect(await onHand()).toBe(before + 2)
   })
 
+  it('editing the placement queues the extra copies as one order of a job per layer, each in its film', async () => {
+    const r = await mentor.patch(`/api/placements/${placementId}`, { quantity: 2 })
+    expect(r.status, JSON.stringify(r.body)).toBe(200)
+    expect(r.body.queuedJobIds).toHaveLength(2)
+    const made = await testDb().selectFrom('job').select(['layer', 'film_id', 'order_id', 'kind', 'quantity']).where('id', 'in', r.body.queuedJobIds).orderBy('layer').execute()
+    expect(made.map((j) => [j.kind, j.layer, j.film_id, j.quantity])).toEqual([['extra', 0, films.red, 1], ['extra', 1, films.white, 1]])
+    expect(made[0]!.order_id).toBe(made[1]!.order_id)
+  })
+
   it('removing the placement cancels every layer\'s queued jobs', async () => {
     const r = await mentor.request('DELETE', `/api/placements/${placementId}`, { reason: 'new bumper' })
     expect(r.status, JSON.stringify(r.body)).toBe(200)
