@@ -18,6 +18,7 @@ import { benchBrowserRoundTrip } from './lib/bench-browser'
 import { benchCutSheets } from './lib/bench-cutsheet'
 import { benchSheets } from './lib/bench-sheets'
 import { benchPlates } from './lib/bench-plates'
+import { benchLayeredPlates } from './lib/bench-layered-plates'
 import { benchGeometry } from './lib/bench-geometry'
 import { benchColour } from './lib/bench-colour'
 import { benchCleanup } from './lib/bench-cleanup'
@@ -175,6 +176,7 @@ async function main() {
   await benchCutSheets(RUNS)
   await benchSheets(RUNS)
   await benchPlates(RUNS)
+  await benchLayeredPlates(RUNS)
   await benchColour(RUNS)
   await benchCleanup(RUNS)
   await benchTrust()

@@ -12,7 +12,7 @@ import { audit, by } from '../history/service'
 import { notUsableBecause, takeSheets, toFilm } from '../films/service'
 import { filmOfProgram } from '../films/queries'
 import { findJobs, jobsOfBatch, type JobRow } from '../jobs/queries'
-import { advance, cutEstimate, jobRef, jobViews, refusedFilm } from '../jobs/service'
+import { advance, countsCopies, cutEstimate, jobRef, jobViews, refusedFilm } from '../jobs/service'
 import { DEFAULT_SHEET, defaultSheetCount, sheetFile, sheetLayout, type SheetFile, type SheetOptions } from '../jobs/sheets'
 import { batchableJobs, findBatch, queuedBatches, type BatchRow } from './queries'
 
@@ -91,7 +91,7 @@ export async function cutBatch(db: Db, actor: Actor, b: BatchRow, input: z.outpu
     if (!done.numUpdatedRows) throw createError({ statusCode: 409, message: 'Someone else cut this batch just now. Reload the page.' })
     for (const r of rows) {
       await advance(trx, r, 'queued', { state: 'cut', cut_by: actor.id, cut_at: now, sheets_used: null })
-      await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity) })).where('id', '=', r.placement_id).execute()
+      if (countsCopies(r)) await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity) })).where('id', '=', r.placement_id).execute()
       await audit(trx, { ...by(actor), action: 'mark-cut', subject: 'job', subjectId: r.job_id, detail: { ...jobRef(r), batchId: b.id }, about: { robotId: r.robot_id } })
     }
     // One stock line for the shared sheets, against the batch's first job.

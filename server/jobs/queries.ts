@@ -1,5 +1,7 @@
 import { sql } from 'kysely'
+import { jsonArrayFrom } from 'kysely/helpers/postgres'
 import type { JobState } from '#shared/types/robots'
+import type { Measurements } from '#shared/types/pipeline'
 import type { Db } from '../platform/db'
 import { teamScope, type Actor } from '../policy'
 
@@ -16,6 +18,8 @@ function jobsOnFilm(db: Db) {
 function visibleJobs(db: Db, actor: Actor) {
   return jobsOnFilm(db)
     .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
+    // A layered decal's job cuts its layer: that layer's vector (stacked, with the marks) and measurements.
+    .leftJoin('revision_layer as cut_layer', (j) => j.onRef('cut_layer.revision_id', '=', 'revision.id').onRef('cut_layer.position', '=', 'job.layer'))
     .innerJoin('users as creator', 'creator.id', 'job.created_by')
     .leftJoin('users as cutter', 'cutter.id', 'job.cut_by')
     .leftJoin('users as applier', 'applier.id', 'job.applied_by')
@@ -31,7 +35,14 @@ function visibleJobs(db: Db, actor: Actor) {
       'robot.id as robot_id', 'robot.name as robot_name', 'robot.season',
       'team.id as teamId', 'team.program_id as programId', 'team.name as team_name', 'team.colour as team_colour',
       'revision.id as revision_id', 'revision.number as revision_number', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
-      'revision.vector_key', 'revision.measurements', 'artwork.id as artwork_id', 'artwork.title',
+      sql<string>`coalesce(cut_layer.vector_key, revision.vector_key)`.as('vector_key'),
+      sql<Measurements>`coalesce(cut_layer.measurements, revision.measurements)`.as('measurements'),
+      'artwork.id as artwork_id', 'artwork.title',
+      'job.layer', 'job.order_id', 'revision.layer_count', 'cut_layer.name as layer_name', 'cut_layer.hex as layer_hex',
+      jsonArrayFrom(eb.selectFrom('job as sibling').innerJoin('film as sf', 'sf.id', 'sibling.film_id')
+        .innerJoin('revision_layer as sl', (j) => j.onRef('sl.revision_id', '=', 'revision.id').onRef('sl.position', '=', 'sibling.layer'))
+        .select(['sibling.id', 'sibling.layer', 'sl.name', 'sf.name as filmName', 'sibling.state'])
+        .whereRef('sibling.order_id', '=', 'job.order_id').orderBy('sibling.layer').orderBy('sibling.id')).$castTo<{ id: number; layer: number; name: string; filmName: string; state: JobState }[]>().as('order_jobs'),
       'film.sheet_width_mm', 'film.sheet_height_mm', 'film.laser_speed_mm_s', 'film.laser_passes', 'film.cleared as film_cleared', 'film.kerf_mm as film_kerf',
       eb.selectFrom('job as recut').select('recut.id').whereRef('recut.recut_of', '=', 'job.id').orderBy('recut.id').limit(1).as('recut_by'),
     ])
@@ -89,4 +100,17 @@ export function queuedSheetInputs(db: Db, programId: number) {
     .where('team.program_id', '=', programId).where('job.state', '=', 'queued')
     .orderBy('job.id')
     .execute()
+}
+
+/**
+ * The layers of a placement's revision, bottom first, each with the film it is cut in (the
+ * placement's own film where no film was recorded for a layer); empty for one colour.
+ */
+export function layerFilmsOfPlacement(db: Db, placementId: number) {
+  return db.selectFrom('placement')
+    .innerJoin('revision_layer as rl', 'rl.revision_id', 'placement.revision_id')
+    .leftJoin('placement_layer_film as plf', (j) => j.onRef('plf.placement_id', '=', 'placement.id').onRef('plf.position', '=', 'rl.position'))
+    .innerJoin('film', (j) => j.on(sql<boolean>`film.id = coalesce(plf.film_id, placement.film_id)`))
+    .select(['rl.position', 'rl.name', 'rl.hex', 'film.id as film_id', 'film.name as film_name', 'film.cleared as film_cleared', 'film.retired as film_retired'])
+    .where('placement.id', '=', placementId).orderBy('rl.position').execute()
 }

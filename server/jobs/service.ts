@@ -22,7 +22,7 @@ import { newJobMail } from '../mail/templates'
 import { notUsableBecause, takeSheets, toFilm } from '../films/service'
 import { filmOfProgram, filmsOfProgram } from '../films/queries'
 import { DEFAULT_SHEET, defaultSheetCount, sheetFile, sheetLayout, type SheetFile, type SheetOptions } from './sheets'
-import { findJob, jobPage, operatorEmails, queuedSheetInputs, type JobFilter, type JobRow } from './queries'
+import { findJob, jobPage, layerFilmsOfPlacement, operatorEmails, queuedSheetInputs, type JobFilter, type JobRow } from './queries'
 
 export interface NewJob {
   placementId: number
@@ -34,6 +34,10 @@ export interface NewJob {
   reason: string
   /** The failed job a recut replaces. */
   recutOf?: number
+  /** Of a layered decal: only this layer (a damaged layer's reprint, a recut); every layer when left out. */
+  layer?: number
+  /** The order a recut joins (its failed job's); a new order when left out. */
+  orderId?: number
   /** What the job is for, for the history and the operators' mail. */
   teamId: number
   robotId: number
@@ -55,19 +59,45 @@ export function refusedFilm(err: unknown): never {
 
 /**
  * Queues a cut, writes its history line and mails the operators, all in the caller's
- * transaction: every query here goes through `trx`, never a second pool connection.
+ * transaction: every query here goes through `trx`, never a second pool connection. For a
+ * layered decal the cut is one order of one job per layer (or of the one layer asked for),
+ * each in its layer's film; the answer is the jobs' ids, bottom layer first.
  */
+export async function queueJobs(trx: Transaction<Database>, actor: Actor, o: NewJob): Promise<number[]> {
+  const layers = await layerFilmsOfPlacement(trx, o.placementId)
+  if (layers.length === 0) return [await insertJob(trx, actor, o, null)]
+  const cut = o.layer === undefined ? layers : layers.filter((l) => l.position === o.layer)
+  if (cut.length === 0) throw fieldError(400, `This decal has ${layers.length} layers: choose one of them.`, 'layer')
+  // The database refuses a film that is not cleared; a retired one is refused here, for every caller.
+  const blocked = cut.find((l) => !l.film_cleared || l.film_retired)
+  if (blocked) {
+    throw createError({ statusCode: 422, message: `“${o.title}” has layer ${blocked.position + 1} (${blocked.name}) placed in ${blocked.film_name}, which may not be cut now: place it again in another film.` })
+  }
+  const orderId = o.orderId ?? (await trx.insertInto('job_order').values({ placement_id: o.placementId, created_by: actor.id }).returning('id').executeTakeFirstOrThrow()).id
+  const ids: number[] = []
+  for (const l of cut) {
+    ids.push(await insertJob(trx, actor, { ...o, filmId: l.film_id }, { layer: l.position, orderId, words: `layer ${l.position + 1} of ${layers.length}: ${l.name}, in ${l.film_name}` }))
+  }
+  return ids
+}
+
+/** One job of queueJobs: the first (a one-colour decal's only) job's id. */
 export async function queueJob(trx: Transaction<Database>, actor: Actor, o: NewJob): Promise<number> {
+  return (await queueJobs(trx, actor, o))[0]!
+}
+
+async function insertJob(trx: Transaction<Database>, actor: Actor, o: NewJob, layer: { layer: number; orderId: number; words: string } | null): Promise<number> {
   const job = await trx.insertInto('job').values({
     placement_id: o.placementId, kind: o.kind, quantity: o.quantity, reason: o.reason, film_id: o.filmId, width_mm: o.widthMm,
-    recut_of: o.recutOf ?? null, created_by: actor.id,
+    recut_of: o.recutOf ?? null, created_by: actor.id, layer: layer?.layer ?? null, order_id: layer?.orderId ?? null,
   }).returning('id').executeTakeFirstOrThrow().catch(refusedFilm)
-  const ref = { title: o.title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason }
+  const title = layer ? `${o.title} (${layer.words})` : o.title
+  const ref = { title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason }
   const about = { robotId: o.robotId }
   if (o.kind === 'recut') await audit(trx, { ...by(actor), action: 'recut', subject: 'job', subjectId: job.id, detail: { ...ref, recutOf: o.recutOf! }, about })
   else await audit(trx, { ...by(actor), action: QUEUE_ACTION[o.kind], subject: 'job', subjectId: job.id, detail: ref, about })
   const to = await operatorEmails(trx, actor.programId, o.teamId)
-  await queueMail(trx, actor.programId, newJobMail({ to, kind: o.kind, title: o.title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason, by: actor.name, url: absoluteUrl(`/lab/jobs/${job.id}`) }))
+  await queueMail(trx, actor.programId, newJobMail({ to, kind: o.kind, title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason, by: actor.name, url: absoluteUrl(`/lab/jobs/${job.id}`) }))
   return job.id
 }
 
@@ -90,6 +120,9 @@ function toView(r: JobRow, film: Film, stock: JobStock | null): JobView {
     robot: { id: r.robot_id, name: r.robot_name, season: r.season },
     team: { id: r.teamId, name: r.team_name, colour: r.team_colour },
     revision: { id: r.revision_id, number: r.revision_number, artworkId: r.artwork_id, title: r.title, vectorUrl: `/api/revisions/${r.revision_id}/vector.svg` },
+    layer: r.layer === null || r.order_id === null ? null : {
+      position: r.layer, count: r.layer_count, name: r.layer_name ?? '', hex: r.layer_hex ?? '#000000', orderId: r.order_id, order: r.order_jobs,
+    },
     film,
     stock,
     batchId: r.batch_id,
@@ -176,6 +209,13 @@ export async function advance(trx: Transaction<Database>, r: Pick<JobRow, 'job_i
   if (!done.numUpdatedRows) throw createError({ statusCode: 409, message: 'Someone else moved this job just now. Reload the page.' })
 }
 
+/**
+ * Whether a job's copies count as decals on hand: a one-colour job's do; of a layered decal,
+ * only its bottom layer's (the layers above are laid on it, so the bottom layer's copies count
+ * the decals, and a failed upper layer's recut restores the stack without counting twice).
+ */
+export const countsCopies = (r: Pick<JobRow, 'layer'>) => r.layer === null || r.layer === 0
+
 /** How many copies of a job go on the robot unless the operator says otherwise: the placement's count for its first cut, all of them otherwise. */
 function defaultApplied(r: JobRow): number {
   return Math.min(r.job_quantity, r.kind === 'initial' ? r.placement_quantity : r.job_quantity)
@@ -201,13 +241,16 @@ export async function moveJob(db: Db, actor: Actor, r: JobRow, input: z.output<t
       const sheets = cutSheets
       await advance(trx, r, from, { state: 'cut', cut_by: actor.id, cut_at: new Date(), sheets_used: sheets })
       await takeSheets(trx, actor, { filmId: r.film_id, sheets, jobId: r.job_id, kind: 'cut' })
-      await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity) })).where('id', '=', r.placement_id).execute()
+      if (countsCopies(r)) await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity) })).where('id', '=', r.placement_id).execute()
       await audit(trx, { ...by(actor), action: 'mark-cut', subject: 'job', subjectId: r.job_id, detail: { ...jobRef(r), sheets }, about: { robotId: r.robot_id } })
     } else {
-      const applied = input.applied ?? Math.min(defaultApplied(r), r.spares_on_hand)
+      const counts = countsCopies(r)
+      const applied = input.applied ?? (counts ? Math.min(defaultApplied(r), r.spares_on_hand) : defaultApplied(r))
       if (applied > r.job_quantity) throw fieldError(400, `This job cut ${r.job_quantity}: at most that many can go on the robot from it.`, 'applied')
-      const taken = await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '-', applied) }))
-        .where('id', '=', r.placement_id).where('spares_on_hand', '>=', applied).executeTakeFirst()
+      const taken = counts
+        ? await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '-', applied) }))
+            .where('id', '=', r.placement_id).where('spares_on_hand', '>=', applied).executeTakeFirst()
+        : { numUpdatedRows: 1n }
       if (!taken.numUpdatedRows) throw fieldError(409, `Only ${r.spares_on_hand} cut ${r.spares_on_hand === 1 ? 'copy is' : 'copies are'} on hand for this placement.`, 'applied')
       await advance(trx, r, from, { state: 'applied', applied_by: actor.id, applied_at: new Date(), applied_count: applied })
       await audit(trx, { ...by(actor), action: 'mark-applied', subject: 'job', subjectId: r.job_id, detail: { ...jobRef(r), applied }, about: { robotId: r.robot_id } })
@@ -258,14 +301,16 @@ export async function failJob(db: Db, actor: Actor, r: JobRow, input: z.output<t
       const sheets = queuedSheets
       await advance(trx, r, 'queued', { state: 'failed', cut_by: actor.id, cut_at: now, sheets_used: sheets, failed_by: actor.id, failed_at: now, failure: input.failure, failure_note: input.note })
       await takeSheets(trx, actor, { filmId: r.film_id, sheets, jobId: r.job_id, kind: 'failed-cut' })
-      if (r.job_quantity > spoilt) await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity - spoilt) })).where('id', '=', r.placement_id).execute()
+      if (r.job_quantity > spoilt && countsCopies(r)) await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb('spares_on_hand', '+', r.job_quantity - spoilt) })).where('id', '=', r.placement_id).execute()
     } else {
       await advance(trx, r, 'cut', { state: 'failed', failed_by: actor.id, failed_at: now, failure: input.failure, failure_note: input.note })
-      await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb.fn('greatest', [eb.lit(0), eb('spares_on_hand', '-', spoilt)]) })).where('id', '=', r.placement_id).execute()
+      if (countsCopies(r)) await trx.updateTable('placement').set((eb) => ({ spares_on_hand: eb.fn('greatest', [eb.lit(0), eb('spares_on_hand', '-', spoilt)]) })).where('id', '=', r.placement_id).execute()
     }
     const words = `${CUT_FAILURE_LABELS[input.failure]}${input.note ? `: ${input.note}` : ''}`
     const recutJobId = await queueJob(trx, actor, {
       placementId: r.placement_id, filmId: r.film_id, kind: 'recut', quantity: spoilt, widthMm: r.job_width, reason: `Job ${r.job_id} failed (${words}).`, recutOf: r.job_id,
+      // Of a layered decal, only the failed layer is cut again, in the same order.
+      ...(r.layer !== null && r.order_id !== null ? { layer: r.layer, orderId: r.order_id } : {}),
       teamId: r.teamId, robotId: r.robot_id, robotName: r.robot_name, title: r.title, spot: r.spot,
     })
     await audit(trx, {

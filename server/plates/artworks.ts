@@ -1,15 +1,17 @@
 // Plates as artworks: the generator's layers become artworks whose revision 1 is the exact
 // vector (origin 'generated': no source, prepared bitmap or raw outline), measured from the
 // stored SVG by the same measurement code as any vector, and reviewed like any artwork.
-// Multi-colour artworks are not built yet, so a plate is one single-colour artwork per layer
-// (background and numerals), tied together by a group id in each revision's plate facts.
+// A plate with a background is one layered artwork (background and numerals as colour layers,
+// in register with registration marks, as the multi-colour work stores a traced decal).
 import { randomUUID } from 'node:crypto'
 import sharp from 'sharp'
 import { createRequire } from 'node:module'
 import type { z } from 'zod'
 import type { plateRequestSchema } from '../../shared/plates/schemas'
 import type { Measurements, StageTimings } from '../../shared/types/pipeline'
-import type { CreatedPlate, PlateFacts, PlateLayerFigures, PlatePreview } from '../../shared/types/plates'
+import type { CreatedPlate, PlateFacts, PlateLayerFigures, PlateLayerRole, PlatePreview } from '../../shared/types/plates'
+import type { RevisionColour } from '../../shared/types/layers'
+import type { PlateColour } from '../../shared/plates/profiles'
 import { fieldError } from '../platform/http'
 import { inTransaction, type Db } from '../platform/db'
 import { contentHash } from '../platform/object-store'
@@ -18,7 +20,7 @@ import { audit, by } from '../history/service'
 import { abandonClaim, claimAndStore, settleClaim } from '../artworks/objects'
 import { ENGINE_VERSIONS_BASE } from '../pipeline/versions'
 import { DEFAULT_PLATE_FONT_ID, PLATE_FONTS, loadPlateFont } from './font'
-import { PlateRequestError, generatePlate, type GeneratedPlate } from './generate'
+import { PLATE_COLOUR_HEX, PlateRequestError, framePlate, generatePlate, type GeneratedPlate } from './generate'
 import { measureLayer, type LayerMeasurements } from './measure'
 import { chosenProfile, findRuleProfile, resolveProfile, type RuleProfileRow } from './queries'
 import { plateFontChoices } from './service'
@@ -86,55 +88,104 @@ function asMeasurements(m: LayerMeasurements): Measurements {
 const figures = (m: LayerMeasurements): PlateLayerFigures =>
   ({ tallestPieceMm: m.tallestPieceMm, marginMm: m.marginMm, strokeMm: m.narrowestFeatureMm, strokePxPerMm: m.strokePxPerMm })
 
-const layerTitle = (n: string, role: string, colour: string) => `Plate ${n}: ${role === 'numerals' ? 'numerals' : 'background'} (${colour})`
+const plateTitle = (n: string, layers: { role: string; colour: string }[]) => {
+  const numerals = layers.find((l) => l.role === 'numerals')!, under = layers.find((l) => l.role === 'background')
+  return `Plate ${n}: ${numerals.colour} numerals${under ? ` on ${under.colour}` : ''}`
+}
+
+const ENGINE_VERSIONS = () => ({ ...ENGINE_VERSIONS_BASE, potrace: 'not used', sharp: sharp.versions.sharp ?? '', vips: sharp.versions.vips, opentype: OPENTYPE_VERSION })
+
+/** The whole decal's measurements from its layers': sums, and the least of the narrowest strokes. */
+function totalOf(layers: LayerMeasurements[], widthMm: number, heightMm: number, pxPerMm: number): Measurements {
+  const sum = (f: (m: LayerMeasurements) => number) => layers.reduce((a, m) => a + f(m), 0)
+  const strokes = layers.map((m) => m.narrowestFeatureMm).filter((v): v is number => v !== null)
+  return {
+    ...asMeasurements(layers[0]!),
+    widthMm, heightMm, inkAreaMm2: sum((m) => m.inkAreaMm2), cutLengthMm: sum((m) => m.cutLengthMm),
+    pieces: sum((m) => m.pieces), holes: sum((m) => m.holes), nodes: sum((m) => m.nodes), smallPieces: sum((m) => m.smallPieces),
+    narrowestFeatureMm: strokes.length ? Math.min(...strokes) : null, pxPerMm,
+  }
+}
+
+interface StoredLayer { role: PlateLayerRole; colour: PlateColour; hex: string; bytes: Uint8Array; key: string; measured: LayerMeasurements }
+
+const vectorFile = (svg: string) => {
+  const bytes = new TextEncoder().encode(svg)
+  return { bytes, key: `vector/${contentHash(bytes)}.svg` }
+}
 
 /**
- * Makes the plate's artworks, each with revision 1, in one transaction. The caller has found
- * the team and checked `artwork.upload` in it.
+ * Makes the plate's artwork with revision 1 in one transaction: with a background, one layered
+ * revision (background bottom, numerals top, registration marks round the plate), stored like
+ * a traced layered revision: the stacked vector as the revision's, a clean vector per layer,
+ * revision_layer rows without prepared bitmap or raw outline. Numerals alone stay one colour.
+ * Every figure is measured from the stored vectors. The caller has found the team and checked
+ * `artwork.upload` in it.
  */
 export async function createPlateArtworks(db: Db, actor: Actor, team: Team, input: PlateInput): Promise<CreatedPlate> {
   const t0 = performance.now()
   const { plate, row } = await generate(db, actor, team, input)
+  const layered = plate.layers.length > 1
+  const framed = layered ? framePlate(plate) : null
   const generatedMs = performance.now() - t0
-  const enc = new TextEncoder()
-  const layers: { layer: GeneratedPlate['layers'][number]; bytes: Uint8Array; key: string; measured: LayerMeasurements; measureMs: number }[] = []
-  for (const l of plate.layers) {
-    const bytes = enc.encode(l.svg)
-    const t1 = performance.now()
-    // Measured from the SVG as stored, not taken from the generator.
-    const measured = await measureLayer(l.svg)
-    layers.push({ layer: l, bytes, key: `vector/${contentHash(bytes)}.svg`, measured, measureMs: performance.now() - t1 })
+  const t1 = performance.now()
+  const stored: StoredLayer[] = []
+  for (const [i, l] of plate.layers.entries()) {
+    const svg = framed ? framed.layers[i]!.svg : l.svg
+    // Measured from the SVG as stored, not taken from the generator: on a layered plate, the
+    // ink inside the plate (the marks lie outside it).
+    const box = framed?.plateBox
+    const measured = await measureLayer(svg, box ? { within: { minX: box.x0, minY: box.y0, maxX: box.x1, maxY: box.y1 } } : {})
+    stored.push({ role: l.role, colour: l.colour, hex: PLATE_COLOUR_HEX[l.colour], ...vectorFile(svg), measured })
   }
-  const claim = await claimAndStore(db, layers.map((l) => ({ key: l.key, bytes: l.bytes, type: 'image/svg+xml' })))
+  const whole = framed ? vectorFile(framed.stackedSvg) : { bytes: stored[0]!.bytes, key: stored[0]!.key }
+  const measureMs = performance.now() - t1
+  const files = [whole, ...(framed ? stored : [])]
+  const claim = await claimAndStore(db, files.map((f) => ({ key: f.key, bytes: f.bytes, type: 'image/svg+xml' })))
   const group = randomUUID()
+  const numerals = stored.find((l) => l.role === 'numerals')!
+  const layers = stored.map((l, position) => ({ position, role: l.role, colour: l.colour }))
+  const widthMm = framed ? framed.frame.widthMm : numerals.measured.widthMm
+  const heightMm = framed ? framed.frame.heightMm : numerals.measured.heightMm
   try {
     return await inTransaction(db, async (trx) => {
-      const out: CreatedPlate = { group, artworks: [] }
-      for (const { layer, key, measured, measureMs } of layers) {
-        const title = layerTitle(plate.teamNumber, layer.role, layer.colour)
-        const artwork = await trx.insertInto('artwork').values({ team_id: team.teamId, title, author_id: actor.id }).returning('id').executeTakeFirstOrThrow()
-        const facts: PlateFacts = {
-          group, role: layer.role, colour: layer.colour, teamNumber: plate.teamNumber,
-          profile: { id: row.id, name: row.name, key: plate.profileKey }, font: plate.font,
-          numeralHeightMm: plate.numeralHeightMm, marginMm: plate.marginMm, cornerRadiusMm: plate.cornerRadiusMm,
-          measured: figures(measured),
-        }
-        const timings: StageTimings = { prepareMs: 0, traceMs: 0, cleanMs: generatedMs, measureMs, totalMs: generatedMs + measureMs }
-        const rev = await trx.insertInto('revision').values({
-          artwork_id: artwork.id, number: 1, origin: 'generated', source_id: null, prepared_key: null, outline_key: null, vector_key: key,
-          settings: JSON.stringify({}), width_mm: measured.widthMm, height_mm: measured.heightMm, drawing_width_mm: measured.widthMm,
-          measurements: JSON.stringify(asMeasurements(measured)), timings: JSON.stringify(timings),
-          engine_versions: JSON.stringify({ ...ENGINE_VERSIONS_BASE, potrace: 'not used', sharp: sharp.versions.sharp ?? '', vips: sharp.versions.vips, opentype: OPENTYPE_VERSION }),
-          plate: JSON.stringify(facts), author_id: actor.id,
-        }).returning('id').executeTakeFirstOrThrow()
-        await audit(trx, {
-          ...by(actor), action: 'generate-plate', subject: 'artwork', subjectId: artwork.id,
-          detail: { title, revision: 1, teamNumber: plate.teamNumber, profile: row.name, role: layer.role, colour: layer.colour },
-        })
-        out.artworks.push({ artworkId: artwork.id, revisionId: rev.id, role: layer.role, colour: layer.colour, title })
+      const title = plateTitle(plate.teamNumber, layers)
+      const artwork = await trx.insertInto('artwork').values({ team_id: team.teamId, title, author_id: actor.id }).returning('id').executeTakeFirstOrThrow()
+      const facts: PlateFacts = {
+        group, role: 'numerals', colour: numerals.colour, teamNumber: plate.teamNumber,
+        profile: { id: row.id, name: row.name, key: plate.profileKey }, font: plate.font,
+        numeralHeightMm: plate.numeralHeightMm, marginMm: plate.marginMm, cornerRadiusMm: plate.cornerRadiusMm,
+        measured: { ...figures(numerals.measured), plateWidthMm: numerals.measured.widthMm, plateHeightMm: numerals.measured.heightMm },
+        ...(framed ? { layers } : {}),
       }
+      const colour: RevisionColour | null = framed
+        ? {
+            sentence: `${stored.length} colours: ${stored.map((l) => `${l.colour} ${l.role}`).join(' under ')}`,
+            inks: stored.map((l) => ({ name: `${l.colour} ${l.role}`, hex: l.hex, share: l.measured.inkAreaMm2 / (plate.widthMm * plate.heightMm) })),
+            stack: framed.stack, marks: framed.frame.marks.length > 0,
+          }
+        : null
+      const timings: StageTimings = { prepareMs: 0, traceMs: 0, cleanMs: generatedMs, measureMs, totalMs: generatedMs + measureMs }
+      const measurements = framed ? totalOf(stored.map((l) => l.measured), widthMm, heightMm, numerals.measured.strokePxPerMm) : asMeasurements(numerals.measured)
+      const rev = await trx.insertInto('revision').values({
+        artwork_id: artwork.id, number: 1, origin: 'generated', source_id: null, prepared_key: null, outline_key: null, vector_key: whole.key,
+        settings: JSON.stringify({}), width_mm: widthMm, height_mm: heightMm, drawing_width_mm: plate.widthMm,
+        measurements: JSON.stringify(measurements), timings: JSON.stringify(timings), engine_versions: JSON.stringify(ENGINE_VERSIONS()),
+        plate: JSON.stringify(facts), author_id: actor.id,
+        ...(framed ? { layer_count: stored.length, colour: JSON.stringify(colour) } : {}),
+      }).returning('id').executeTakeFirstOrThrow()
+      if (framed) {
+        await trx.insertInto('revision_layer').values(stored.map((l, position) => {
+          const { threshold: _, ...m } = asMeasurements(l.measured)
+          return { revision_id: rev.id, position, name: `${l.colour} ${l.role}`, hex: l.hex, prepared_key: null, outline_key: null, vector_key: l.key, measurements: JSON.stringify(m) }
+        })).execute()
+      }
+      await audit(trx, {
+        ...by(actor), action: 'generate-plate', subject: 'artwork', subjectId: artwork.id,
+        detail: { title, revision: 1, teamNumber: plate.teamNumber, profile: row.name, role: layers.map((l) => l.role).join(' and '), colour: layers.map((l) => l.colour).join(' and ') },
+      })
       await settleClaim(trx, claim)
-      return out
+      return { group, artworks: [{ artworkId: artwork.id, revisionId: rev.id, title, layers: layers.map(({ role, colour }) => ({ role, colour })) }] }
     })
   } catch (err) {
     await abandonClaim(db, claim)

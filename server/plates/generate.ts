@@ -16,6 +16,9 @@ import { normaliseTeamNumber } from '../../shared/plates/team-number'
 import { cleanVector } from '../pipeline/clean'
 import { measureCurves } from '../pipeline/geometry'
 import type { ClosedCurve } from '../pipeline/trace'
+import { DEFAULT_MARKS, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from '../pipeline/colour/marks'
+import { stackedPreviewSvg } from '../pipeline/colour/preview'
+import { DEFAULT_STACK, layerVector, stackLayers, type StackSettings } from '../pipeline/colour/stack'
 import type { PlateFont } from './font'
 import { glyphContours, rectangleContour, signByNesting, type Contour } from './outline'
 
@@ -77,6 +80,8 @@ export interface GeneratedPlate {
   cornerRadiusMm: number
   /** True when the plate is larger than the profile's smallest plate (the numerals needed room). */
   grown: boolean
+  /** How the background meets the numerals (null: no background). */
+  backgroundStyle: 'under' | 'knock-out' | null
   /** Bottom to top, in register: every layer has the plate's size and origin. */
   layers: PlateLayer[]
 }
@@ -211,6 +216,62 @@ export function generatePlate(req: PlateRequest): GeneratedPlate {
   return {
     teamNumber, profileKey: profile.key,
     font: { id: font.info.id, family: font.info.family, style: font.info.style, licence: font.info.licence },
-    widthMm, heightMm, numeralHeightMm, marginMm, cornerRadiusMm, grown, layers,
+    widthMm, heightMm, numeralHeightMm, marginMm, cornerRadiusMm, grown,
+    backgroundStyle: wantsBackground ? (req.background?.style ?? 'under') : null, layers,
+  }
+}
+
+/** The swatch each plate colour is drawn in until a film is chosen (our own choice of shades). */
+export const PLATE_COLOUR_HEX: Record<PlateColour, string> = {
+  white: '#ffffff', black: '#1a1a1a', red: '#c62828', blue: '#1f4fa3', yellow: '#f2c200',
+  green: '#2e7d32', orange: '#e8710a', purple: '#6a3d9a', grey: '#8a8a8a',
+}
+
+export interface FramedPlateLayer {
+  role: PlateLayerRole
+  colour: PlateColour
+  hex: string
+  /** The layer's clean vector as cut: stacked, on the framed canvas, with the registration marks. */
+  svg: string
+}
+
+/** A plate as one layered decal: every layer on one framed canvas with the same marks. */
+export interface FramedPlate {
+  frame: RegistrationFrame
+  /** The plate's own box in the framed canvas, mm. */
+  plateBox: { x0: number; y0: number; x1: number; y1: number }
+  /** How each layer meets the ones above, bottom first (as the multi-colour work records it). */
+  stack: StackSettings[]
+  /** Bottom first. */
+  layers: FramedPlateLayer[]
+  /** Every layer in its colour, a group per layer, bottom first, in mm. */
+  stackedSvg: string
+}
+
+/**
+ * The plate's layers stacked and framed like a traced layered decal: a background cut out
+ * under the numerals ('knock-out') keeps the multi-colour work's overlap (DEFAULT_STACK's
+ * distance) under their edges; a whole background ('under') already lies under every numeral,
+ * so no overlap can add to it and it keeps its exact curves. Then the registration marks
+ * (server/pipeline/colour/marks.ts) go round the plate, the same in every layer.
+ */
+export function framePlate(plate: GeneratedPlate, marks: MarkSettings = DEFAULT_MARKS): FramedPlate {
+  const canvas = { widthMm: plate.widthMm, heightMm: plate.heightMm }
+  const stack: StackSettings[] = plate.layers.map((l) => l.role === 'background' && plate.backgroundStyle === 'knock-out'
+    ? { mode: 'knock-out', overlapMm: DEFAULT_STACK.overlapMm }
+    : { mode: 'under', overlapMm: 0 })
+  const stacked = stackLayers(plate.layers.map((l) => ({ curves: l.curvesMm })), canvas, stack)
+  // The marks go round the plate's edge, not just the ink: a plate is its whole rectangle.
+  const edge = { curves: signByNesting([rectangleContour(0, 0, plate.widthMm, plate.heightMm, 0)]) }
+  const frame = registrationFrame([edge, ...stacked], canvas, marks)
+  const layers = stacked.map((l, i) => {
+    const src = plate.layers[i]!
+    const framed = layerVector(withRegistrationMarks(l.curves, frame), frame)
+    return { role: src.role, colour: src.colour, hex: PLATE_COLOUR_HEX[src.colour], svg: framed.svg }
+  })
+  return {
+    frame, stack, layers,
+    plateBox: { x0: frame.shift.x, y0: frame.shift.y, x1: frame.shift.x + plate.widthMm, y1: frame.shift.y + plate.heightMm },
+    stackedSvg: stackedPreviewSvg(layers.map((l) => ({ svg: l.svg, hex: l.hex }))),
   }
 }

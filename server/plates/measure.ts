@@ -90,7 +90,14 @@ export interface MeasureLayerOptions {
   /** false: skip the narrowest stroke (narrowestFeatureMm null), for a quick look at the geometry. */
   stroke?: boolean
   smallPieceMm2?: number
+  /**
+   * Measure only the ink lying inside this box (mm, in the vector's coordinates), as if the box
+   * were the vector: a layered plate's layer carries registration marks outside the plate.
+   */
+  within?: Box
 }
+
+const inside = (b: Box, w: Box) => b.minX >= w.minX - 0.01 && b.minY >= w.minY - 0.01 && b.maxX <= w.maxX + 0.01 && b.maxY <= w.maxY + 0.01
 
 /**
  * Curves read back on the clean vector's 0.01 mm grid. Relative coordinates summed back up carry
@@ -113,7 +120,9 @@ export async function measureLayer(svg: string, options: MeasureLayerOptions = {
   const pxPerMm = options.pxPerMm ?? STROKE_PX_PER_MM
   const limit = options.smallPieceMm2 ?? DEFAULT_SMALL_PIECE_MM2
   const vector = readCleanVector(svg)
-  const curves: ClosedCurve[] = signByNesting(onGrid(vector.curves))
+  const w = options.within
+  const all: ClosedCurve[] = signByNesting(onGrid(vector.curves))
+  const curves = w ? all.filter((c) => { const b = measureCurves([c], 1).bounds; return b !== null && inside(b, w) }) : all
   const g = measureCurves(curves, 1)
   const pieceBoxes: Box[] = []
   let tallest: number | null = null
@@ -127,10 +136,13 @@ export async function measureLayer(svg: string, options: MeasureLayerOptions = {
   const stroke = options.stroke === false
     ? { mm: null, pxPerMm: 0 }
     : await narrowestStroke(svg, strokeWindows(pieceBoxes), pxPerMm, options.maxWindowPixels ?? WINDOW_MAX_PIXELS)
-  const b = g.bounds
+  const o = w ? { x: w.minX, y: w.minY } : { x: 0, y: 0 }
+  const widthMm = w ? round2(w.maxX - w.minX) : vector.widthMm
+  const heightMm = w ? round2(w.maxY - w.minY) : vector.heightMm
+  const b = g.bounds && { minX: g.bounds.minX - o.x, minY: g.bounds.minY - o.y, maxX: g.bounds.maxX - o.x, maxY: g.bounds.maxY - o.y }
   return {
-    widthMm: vector.widthMm,
-    heightMm: vector.heightMm,
+    widthMm,
+    heightMm,
     inkAreaMm2: g.inkAreaMm2,
     cutLengthMm: g.cutLengthMm,
     pieces: g.pieces,
@@ -140,7 +152,7 @@ export async function measureLayer(svg: string, options: MeasureLayerOptions = {
     smallPieces: smallPieces(curves, 1, limit).length,
     smallPieceLimitMm2: limit,
     tallestPieceMm: tallest,
-    marginMm: b ? Math.min(b.minX, b.minY, vector.widthMm - b.maxX, vector.heightMm - b.maxY) : null,
+    marginMm: b ? Math.min(b.minX, b.minY, widthMm - b.maxX, heightMm - b.maxY) : null,
     inkBounds: b,
     strokePxPerMm: stroke.pxPerMm,
   }

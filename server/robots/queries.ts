@@ -16,8 +16,14 @@ function placementsOf(eb: ExpressionBuilder<Database, 'robot'>) {
       'revision.id as revision_id', 'revision.number', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
       'artwork.id as artwork_id', 'artwork.title', 'film.id as film_id', 'film.name as film_name', 'film.colour as film_colour', 'film.colour_hex as film_colour_hex',
       'users.name as created_by',
-      jsonArrayFrom(p.selectFrom('job').select(['job.id', 'job.kind', 'job.quantity', 'job.state', 'job.width_mm as widthMm'])
+      jsonArrayFrom(p.selectFrom('job').select(['job.id', 'job.kind', 'job.quantity', 'job.state', 'job.width_mm as widthMm', 'job.layer', 'job.order_id as orderId'])
         .whereRef('job.placement_id', '=', 'placement.id').orderBy('job.id')).as('jobs'),
+      // A layered decal's layers, bottom first, each with its film.
+      jsonArrayFrom(p.selectFrom('revision_layer as rl')
+        .leftJoin('placement_layer_film as plf', (j) => j.onRef('plf.placement_id', '=', 'placement.id').onRef('plf.position', '=', 'rl.position'))
+        .innerJoin('film as lf', (j) => j.on(sql<boolean>`lf.id = coalesce(plf.film_id, placement.film_id)`))
+        .select(['rl.position', 'rl.name', 'rl.hex', 'lf.id as film_id', 'lf.name as film_name', 'lf.colour as film_colour', 'lf.colour_hex as film_colour_hex'])
+        .whereRef('rl.revision_id', '=', 'placement.revision_id').orderBy('rl.position')).as('layers'),
     ])
     .whereRef('placement.robot_id', '=', 'robot.id')
     .where('placement.removed_at', 'is', null)
@@ -74,6 +80,13 @@ export function queuedJobsOf(db: Db, placementId: number) {
 }
 
 export type PlacementRow = NonNullable<Awaited<ReturnType<typeof findPlacement>>>
+
+/** The layers of revisions, bottom first (none for one-colour revisions). */
+export function layersOfRevisions(db: Db, revisionIds: number[]) {
+  if (revisionIds.length === 0) return Promise.resolve([])
+  return db.selectFrom('revision_layer').select(['revision_id', 'position', 'name', 'hex'])
+    .where('revision_id', 'in', revisionIds).orderBy('revision_id').orderBy('position').execute()
+}
 
 /** Every approved revision of a team's artworks, the choice for a new placement. */
 export function approvedRevisionsOfTeam(db: Db, teamId: number) {

@@ -6,7 +6,7 @@ import { z } from 'zod'
 import type { Database } from '../db/schema'
 import type { Page } from '#shared/types/api'
 import type { ApprovedRevision, PlacementView, RobotView } from '#shared/types/robots'
-import type { applySpareSchema, placementPatchSchema, robotPatchSchema } from '#shared/utils/schemas'
+import type { applySpareSchema, placementPatchSchema, placementSchema, reprintSchema, robotPatchSchema } from '#shared/utils/schemas'
 import { decodeCursor, pageOf } from '../platform/cursor'
 import { inTransaction, type Db } from '../platform/db'
 import { fieldError } from '../platform/http'
@@ -14,9 +14,11 @@ import { flags, type Actor, type TeamSubject } from '../policy'
 import { audit, by } from '../history/service'
 import { findRevision } from '../artworks/queries'
 import { notUsableBecause } from '../films/service'
-import { filmOfProgram } from '../films/queries'
-import { cancelQueued, queueJob, refusedFilm } from '../jobs/service'
-import { approvedRevisionsOfTeam, findPlacement, findRobot, queuedJobsOf, robotPage, type PlacementRow, type RobotKey, type RobotRow } from './queries'
+import { filmOfProgram, filmsOfProgram, type FilmRow } from '../films/queries'
+import { layerFilmsOfPlacement } from '../jobs/queries'
+import { filmsByColour } from './film-colours'
+import { cancelQueued, queueJob, queueJobs, refusedFilm } from '../jobs/service'
+import { approvedRevisionsOfTeam, findPlacement, layersOfRevisions, findRobot, queuedJobsOf, robotPage, type PlacementRow, type RobotKey, type RobotRow } from './queries'
 import { planPlacementChange, type PlacementPlan } from './plan'
 import type { RobotSide } from '#shared/plates/profiles'
 
@@ -29,6 +31,7 @@ export function toRobotView(actor: Actor, r: RobotRow): RobotView {
       id: p.id, spot: p.spot, side: p.side, widthMm: p.width_mm, heightMm: (p.width_mm * p.revision_height) / p.revision_width,
       quantity: p.quantity, spares: p.spares, sparesOnHand: p.spares_on_hand, neededAtEvents: p.needed_at_events,
       film: { id: p.film_id, name: p.film_name, colour: p.film_colour, colourHex: p.film_colour_hex },
+      layers: p.layers.map((l) => ({ position: l.position, name: l.name, hex: l.hex, film: { id: l.film_id, name: l.film_name, colour: l.film_colour, colourHex: l.film_colour_hex } })),
       revision: { id: p.revision_id, number: p.number, artworkId: p.artwork_id, title: p.title, vectorUrl: `/api/revisions/${p.revision_id}/vector.svg` },
       createdAt: iso(p.created_at), createdBy: p.created_by,
       jobs: p.jobs,
@@ -72,10 +75,44 @@ export async function editRobot(db: Db, actor: Actor, robot: RobotRow, input: z.
   })
 }
 
-/** The approved revisions that may go on the robot (its team's). */
+/** The approved revisions that may go on the robot (its team's); a layered one's layers each with the films nearest its colour. */
 export async function approvedRevisions(db: Db, robot: RobotRow): Promise<ApprovedRevision[]> {
   const rows = await approvedRevisionsOfTeam(db, robot.teamId)
-  return rows.map((r) => ({ revisionId: r.id, artworkId: r.artwork_id, title: r.title, number: r.number, widthMm: r.width_mm, heightMm: r.height_mm, narrowestMm: r.narrowest_mm }))
+  const [layers, films] = await Promise.all([layersOfRevisions(db, rows.map((r) => r.id)), filmsOfProgram(db, robot.programId)])
+  const swatches = films.map((f) => ({ id: f.id, colourHex: f.colour_hex, usable: notUsableBecause(f) === null }))
+  return rows.map((r) => ({
+    revisionId: r.id, artworkId: r.artwork_id, title: r.title, number: r.number, widthMm: r.width_mm, heightMm: r.height_mm, narrowestMm: r.narrowest_mm,
+    layers: layers.filter((l) => l.revision_id === r.id)
+      .map((l) => ({ position: l.position, name: l.name, hex: l.hex, suggestedFilmIds: filmsByColour(l.hex, swatches) })),
+  }))
+}
+
+/** A placement asked for (the robot is the caller's; the side may be left out). */
+type PlacementInput = Omit<z.output<typeof placementSchema>, 'robotId' | 'side' | 'neededAtEvents'> & { side?: RobotSide | null; neededAtEvents?: boolean }
+
+/**
+ * The films a placement is cut in, bottom layer first (one for a one-colour decal), each found
+ * in the program's stock and cleared for the laser; refused in a sentence naming the layer.
+ */
+async function filmsForPlacement(trx: Transaction<Database>, actor: Actor, layers: { name: string }[], input: PlacementInput) {
+  const field = layers.length ? 'layerFilmIds' : 'filmId'
+  const ids = layers.length ? input.layerFilmIds ?? [] : [input.filmId ?? input.layerFilmIds![0]!]
+  if (layers.length && ids.length !== layers.length) {
+    throw fieldError(400, `Please check the form: this decal has ${layers.length} layers, so it needs a film for each, bottom layer first.`, field, `Choose ${layers.length} films, one per layer.`)
+  }
+  if (!layers.length && (input.layerFilmIds?.length ?? 0) > 1) {
+    throw fieldError(400, 'Please check the form: this decal is one colour, so it is cut in one film.', 'layerFilmIds', 'One film only.')
+  }
+  const films: FilmRow[] = []
+  for (const [i, id] of ids.entries()) {
+    const which = layers.length ? `Layer ${i + 1} (${layers[i]!.name}): ` : ''
+    const film = await filmOfProgram(trx, actor.programId, id)
+    if (!film) throw fieldError(400, `Please check the form: ${which ? `${which.toLowerCase()}choose` : 'choose'} a film from the stock.`, field, 'Choose a film from the stock.')
+    const refused = notUsableBecause(film)
+    if (refused) throw fieldError(422, `${which}${refused}`, field, film.cleared ? 'Retired.' : film.polymer_verdict === 'never' ? 'Never cut this film.' : 'Needs the lab\'s approval first.')
+    films.push(film)
+  }
+  return films
 }
 
 async function placementView(db: Db, actor: Actor, robotId: number, placementId: number): Promise<PlacementView> {
@@ -87,7 +124,7 @@ async function placementView(db: Db, actor: Actor, robotId: number, placementId:
  * Puts an approved revision of the robot's team on the robot, in film the register clears for
  * cutting, and queues its first cut. The caller has found the robot and checked `placement.create`.
  */
-export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, input: { revisionId: number; filmId: number; spot: string; side?: RobotSide | null; widthMm: number; quantity: number; spares: number; neededAtEvents?: boolean }): Promise<PlacementView> {
+export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, input: PlacementInput): Promise<PlacementView> {
   const placementId = await inTransaction(db, async (trx) => {
     const revision = await findRevision(trx, actor, input.revisionId)
     if (!revision || revision.teamId !== robot.teamId) {
@@ -96,18 +133,20 @@ export async function createPlacement(db: Db, actor: Actor, robot: RobotRow, inp
     if (revision.status !== 'approved') {
       throw fieldError(409, 'Only approved revisions can be placed on a robot. Submit it for review first.', 'revisionId', 'Not approved yet.')
     }
-    const film = await filmOfProgram(trx, actor.programId, input.filmId)
-    if (!film) throw fieldError(400, 'Please check the form: choose a film from the stock.', 'filmId', 'Choose a film from the stock.')
-    const refused = notUsableBecause(film)
-    if (refused) throw fieldError(422, refused, 'filmId', film.cleared ? 'Retired.' : film.polymer_verdict === 'never' ? 'Never cut this film.' : 'Needs the lab\'s approval first.')
+    const layers = await layersOfRevisions(trx, [revision.id])
+    const films = await filmsForPlacement(trx, actor, layers, input)
+    const film = films[0]!
     const p = await trx.insertInto('placement').values({
       robot_id: robot.id, revision_id: revision.id, film_id: film.id, spot: input.spot, side: input.side ?? null, width_mm: input.widthMm,
       quantity: input.quantity, spares: input.spares, needed_at_events: input.neededAtEvents ?? false, created_by: actor.id,
     }).returning('id').executeTakeFirstOrThrow().catch(refusedFilm)
+    if (layers.length) {
+      await trx.insertInto('placement_layer_film').values(films.map((f, position) => ({ placement_id: p.id, position, film_id: f.id }))).execute().catch(refusedFilm)
+    }
     await audit(trx, {
       ...by(actor), action: 'place', subject: 'robot', subjectId: robot.id, about: { artworkId: revision.artwork_id },
       detail: {
-        title: revision.title, revision: revision.number, spot: input.spot, film: film.name, quantity: input.quantity, spares: input.spares,
+        title: revision.title, revision: revision.number, spot: input.spot, film: films.map((f) => f.name).join(', '), quantity: input.quantity, spares: input.spares,
         ...(input.neededAtEvents ? { neededAtEvents: true } : {}),
       },
     })
@@ -124,19 +163,24 @@ function mustBeHere(p: PlacementRow) {
   if (p.removed_at) throw createError({ statusCode: 409, message: 'This placement was removed from the robot.' })
 }
 
-function mayCutMore(p: PlacementRow) {
-  if (!p.film_cleared) throw createError({ statusCode: 422, message: `${p.film_name} may not be cut: see the film's page. Place the decal again in another film.` })
-  if (p.film_retired) throw createError({ statusCode: 422, message: 'The film of this placement is retired; a mentor can place the decal again in another film.' })
+/** Every film the cut needs (each layer's, or the one layer's asked for) may still be cut. */
+async function mayCutMore(db: Db, p: PlacementRow, layer?: number) {
+  const layers = (await layerFilmsOfPlacement(db, p.id)).filter((l) => layer === undefined || l.position === layer)
+  const films = layers.length ? layers : [{ film_name: p.film_name, film_cleared: p.film_cleared, film_retired: p.film_retired }]
+  for (const f of films) {
+    if (!f.film_cleared) throw createError({ statusCode: 422, message: `${f.film_name} may not be cut: see the film's page. Place the decal again in another film.` })
+    if (f.film_retired) throw createError({ statusCode: 422, message: `${f.film_name} is retired; a mentor can place the decal again in another film.` })
+  }
 }
 
 const jobFor = (p: PlacementRow) => ({ placementId: p.id, filmId: p.film_id, teamId: p.teamId, robotId: p.robot_id, robotName: p.robot_name, title: p.title, spot: p.spot })
 
 /** More copies of exactly the placed revision. The caller has found the placement and checked `placement.reprint`. */
-export async function requestReprint(db: Db, actor: Actor, placement: PlacementRow, input: { quantity: number; reason: string }): Promise<{ jobId: number; sparesOnHand: number }> {
+export async function requestReprint(db: Db, actor: Actor, placement: PlacementRow, input: z.output<typeof reprintSchema>): Promise<{ jobId: number; jobIds: number[]; sparesOnHand: number }> {
   mustBeHere(placement)
-  mayCutMore(placement)
-  const jobId = await inTransaction(db, (trx) => queueJob(trx, actor, { ...jobFor(placement), kind: 'reprint', quantity: input.quantity, widthMm: placement.width_mm, reason: input.reason }))
-  return { jobId, sparesOnHand: placement.spares_on_hand }
+  await mayCutMore(db, placement, input.layer)
+  const jobIds = await inTransaction(db, (trx) => queueJobs(trx, actor, { ...jobFor(placement), kind: 'reprint', quantity: input.quantity, widthMm: placement.width_mm, reason: input.reason, layer: input.layer }))
+  return { jobId: jobIds[0]!, jobIds, sparesOnHand: placement.spares_on_hand }
 }
 
 /** Spares from the shelf put on the robot. The caller has found the placement and checked `placement.reprint`. */
@@ -161,6 +205,8 @@ export interface PlacementChange {
   placement: PlacementView
   /** The job queued for what the change added, if any. */
   queuedJobId: number | null
+  /** Every job queued (one per layer of a layered decal). */
+  queuedJobIds: number[]
   /** Queued jobs the change made obsolete (a new width). */
   cancelledJobIds: number[]
   /** In words: what happened to the cut queue. */
@@ -182,7 +228,7 @@ export async function editPlacement(db: Db, actor: Actor, found: PlacementRow, p
       { spot: placement.spot, widthMm: placement.width_mm, quantity: placement.quantity, spares: placement.spares, sparesOnHand: placement.spares_on_hand },
       patch,
     )
-    if (plan.copiesToQueue > 0) mayCutMore(placement)
+    if (plan.copiesToQueue > 0) await mayCutMore(trx, placement)
     const after = plan.after
     const side = patch.side === undefined ? placement.side : patch.side
     if (side !== placement.side) plan.changes.side = { from: placement.side, to: side }
@@ -193,16 +239,18 @@ export async function editPlacement(db: Db, actor: Actor, found: PlacementRow, p
       spot: after.spot, width_mm: after.widthMm, quantity: after.quantity, spares: after.spares, ...(plan.resized ? { spares_on_hand: 0 } : {}),
     }).where('id', '=', placement.id).where('removed_at', 'is', null).execute()
     const names = { ...placement, spot: after.spot }
-    const queuedJobId = plan.copiesToQueue > 0
-      ? await queueJob(trx, actor, {
+    // A layered decal's copies are one job per layer, in one order.
+    const queuedJobIds = plan.copiesToQueue > 0
+      ? await queueJobs(trx, actor, {
           ...jobFor(names), kind: 'extra', quantity: plan.copiesToQueue, widthMm: after.widthMm,
           reason: plan.resized ? `The placement is now ${after.widthMm} mm wide.` : `The placement now needs ${after.quantity} on the robot and ${after.spares} spare${after.spares === 1 ? '' : 's'}.`,
         })
-      : null
+      : []
+    const queuedJobId = queuedJobIds[0] ?? null
     const cancelled: number[] = []
     if (plan.resized) {
       for (const j of await queuedJobsOf(trx, placement.id)) {
-        if (j.job_id === queuedJobId) continue
+        if (queuedJobIds.includes(j.job_id)) continue
         await cancelQueued(trx, actor, j, `The placement was changed from ${placement.width_mm} mm to ${after.widthMm} mm wide${queuedJobId ? `; job ${queuedJobId} cuts the new size` : ''}.`)
         cancelled.push(j.job_id)
       }
@@ -211,11 +259,11 @@ export async function editPlacement(db: Db, actor: Actor, found: PlacementRow, p
       ...by(actor), action: 'edit-placement', subject: 'robot', subjectId: placement.robot_id, about: { artworkId: placement.artwork_id },
       detail: { placementId: placement.id, title: placement.title, robot: placement.robot_name, spot: after.spot, changes: plan.changes },
     })
-    return { queuedJobId, cancelled, summary: changeSummary(plan, queuedJobId, cancelled) }
+    return { queuedJobId, queuedJobIds, cancelled, summary: changeSummary(plan, queuedJobId, cancelled) }
   })
   return {
     placement: await placementView(db, actor, found.robot_id, found.id),
-    queuedJobId: done.queuedJobId, cancelledJobIds: done.cancelled, summary: done.summary,
+    queuedJobId: done.queuedJobId, queuedJobIds: done.queuedJobIds, cancelledJobIds: done.cancelled, summary: done.summary,
   }
 }
 

@@ -19,13 +19,19 @@ export interface PlateLayerFigures {
   strokeMm: number | null
   /** Resolution the stroke was measured at, px/mm. */
   strokePxPerMm: number
+  /** The plate's own size, mm, when the vector is larger (a layered plate's canvas holds its registration marks). */
+  plateWidthMm?: number
+  plateHeightMm?: number
 }
 
 /** Recorded on a generated revision: what the generator was asked, and what its vector measured. */
 export interface PlateFacts {
   /** Shared by the layers of one plate, so the check can pair background and numerals. */
   group: string
+  /** The numerals' layer for a layered plate (its figures are the numerals'). */
   role: PlateLayerRole
+  /** A layered plate's layers, bottom first: which revision layer is which (absent on the older one-artwork-per-colour plates). */
+  layers?: { position: number; role: PlateLayerRole; colour: PlateColour }[]
   colour: PlateColour
   teamNumber: string
   profile: { id: number; name: string; key: string }
@@ -82,7 +88,8 @@ export interface PlatePreview {
 
 export interface CreatedPlate {
   group: string
-  artworks: { artworkId: number; revisionId: number; role: PlateLayerRole; colour: PlateColour; title: string }[]
+  /** One layered artwork: its layers bottom first. */
+  artworks: { artworkId: number; revisionId: number; title: string; layers: { role: PlateLayerRole; colour: PlateColour }[] }[]
 }
 
 /** A robot checked against its program's rule profile. */

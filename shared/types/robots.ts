@@ -39,11 +39,32 @@ export interface PlacementView {
   sparesOnHand: number
   /** Its spares go in the robot's event kit. */
   neededAtEvents: boolean
+  /** The bottom layer's film for a layered decal. */
   film: { id: number; name: string; colour: string; colourHex: string }
+  /** A layered decal's layers, bottom first, each with the film it is cut in; empty for one colour. */
+  layers: PlacedLayer[]
   revision: { id: number; number: number; artworkId: number; title: string; vectorUrl: string }
   createdAt: string
   createdBy: string
-  jobs: { id: number; kind: JobKind; quantity: number; state: JobState; widthMm: number }[]
+  /** layer: the layer a job cuts (null for one colour); orderId groups one order's jobs. */
+  jobs: { id: number; kind: JobKind; quantity: number; state: JobState; widthMm: number; layer: number | null; orderId: number | null }[]
+}
+
+/** One layer of a layered placement and its film. */
+export interface PlacedLayer {
+  position: number
+  name: string
+  hex: string
+  film: { id: number; name: string; colour: string; colourHex: string }
+}
+
+/** A layer of an approved layered revision, with the cleared films nearest its ink's colour first. */
+export interface RevisionLayerChoice {
+  position: number
+  name: string
+  hex: string
+  /** Cleared, unretired films, nearest in colour first (CIEDE2000 between the ink and the film's swatch). */
+  suggestedFilmIds: number[]
 }
 
 export interface RobotView {
@@ -66,6 +87,8 @@ export interface ApprovedRevision {
   heightMm: number
   /** The revision's narrowest stroke at its own width, mm. */
   narrowestMm: number | null
+  /** Bottom first; empty for a one-colour revision. */
+  layers: RevisionLayerChoice[]
 }
 
 export interface JobView {
@@ -97,6 +120,11 @@ export interface JobView {
   robot: { id: number; name: string; season: string }
   team: { id: number; name: string; colour: string }
   revision: { id: number; number: number; artworkId: number; title: string; vectorUrl: string }
+  /**
+   * The layer this job cuts, for a layered decal ("layer 2 of 3: red"), with the order's jobs
+   * (this one among them), one per layer; null for one colour.
+   */
+  layer: JobLayer | null
   film: Film
   /** For queued jobs: sheets needed against sheets on hand. */
   stock: JobStock | null
@@ -157,3 +185,14 @@ export interface BatchSuggestion { filmId: number; filmName: string; jobIds: num
 export interface BatchSummary { id: number; filmId: number; filmName: string; state: BatchState; jobIds: number[]; copies: number; createdAt: string }
 
 export interface BatchList { batches: BatchSummary[]; suggestions: BatchSuggestion[] }
+
+/** Which layer of a layered decal a job cuts, and its order's jobs. */
+export interface JobLayer {
+  /** From 0, bottom first. */
+  position: number
+  count: number
+  name: string
+  hex: string
+  orderId: number
+  order: { id: number; layer: number; name: string; filmName: string; state: JobState }[]
+}

@@ -2,6 +2,7 @@
 import { z } from 'zod'
 import { CUT_SHEET_LIMITS, WEEDING_LINE_LIMITS } from '../constants/cut-sheet'
 import { PLACEMENT_LIMITS } from '../constants/placements'
+import { MAX_LAYERS } from '../types/layers'
 import { MEMBER_ROLES, ROLES } from '../types/roles'
 import { CUT_FAILURES, JOB_STATES } from '../types/robots'
 import { AUDIT_KINDS } from '../types/audit'
@@ -239,13 +240,17 @@ const sideSchema = z.enum(ROBOT_SIDES, { message: 'Choose a side of the robot.' 
 export const placementSchema = z.object({
   robotId: z.number({ message: 'Choose a robot.' }).int().positive(),
   revisionId: z.number({ message: 'Choose an approved revision.' }).int().positive(),
-  filmId: z.number({ message: 'Choose a film.' }).int().positive(),
+  /** The film of a one-colour decal (for a layered one, its bottom layer's: layerFilmIds[0] when left out). */
+  filmId: z.number({ message: 'Choose a film.' }).int().positive().optional(),
+  /** A layered decal's film per layer, bottom first. */
+  layerFilmIds: z.array(z.number({ message: 'Choose a film for each layer.' }).int().positive(), { message: 'Choose a film for each layer.' })
+    .min(1).max(MAX_LAYERS).optional(),
   ...placementFields,
   spares: placementFields.spares.default(PLACEMENT_LIMITS.spares.default),
   side: sideSchema.default(null),
   /** Its spares travel in the robot's event kit. */
   neededAtEvents: z.boolean().default(false),
-})
+}).refine((v) => v.filmId !== undefined || v.layerFilmIds !== undefined, { message: 'Choose a film.', path: ['filmId'] })
 
 /** A change to a placement: any of its spot, side, width, copies on the robot, spares and whether it is needed at events. */
 export const placementPatchSchema = z.object({
@@ -264,6 +269,8 @@ export const placementRemovalSchema = z.object({ reason: reasonSchema('the panel
 export const reprintSchema = z.object({
   quantity: z.number({ message: 'How many to reprint?' }).int().min(PLACEMENT_LIMITS.reprint.min, { message: 'At least one.' }).max(PLACEMENT_LIMITS.reprint.max),
   reason: z.string().trim().min(1, { message: 'Say what happened, e.g. "torn off in a match".' }).max(500),
+  /** One damaged layer of a layered decal (from 0, bottom first); every layer when left out. */
+  layer: z.number({ message: 'Choose a layer.' }).int().min(0).max(MAX_LAYERS - 1).optional(),
 })
 
 /** Spares taken from the shelf and put on the robot. */

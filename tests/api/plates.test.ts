@@ -12,6 +12,7 @@ import { hashPassword } from '../../server/platform/passwords'
 import { buildProgram, type ProgramFixture } from '../support/fixtures'
 import { drawing } from '../support/images'
 import { uploadArtwork } from '../support/upload'
+import { getKeyText } from '../support/s3'
 
 let student: ApiClient
 let mentor: ApiClient
@@ -108,20 +109,24 @@ describe('rule profiles', () => {
   })
 })
 
-interface Plate { numerals: { artworkId: number; revisionId: number }; background: { artworkId: number; revisionId: number } }
+interface Plate { artworkId: number; revisionId: number }
 
-/** Bounding box of every point of the path, sampled every 0.01 mm along it by svg-path-properties. */
-function pathBounds(svg: string) {
+interface Box { minX: number; minY: number; maxX: number; maxY: number }
+
+/** Bounding box of every piece (subpath) of the path, each sampled every 0.01 mm along it by svg-path-properties. */
+function pieceBoxes(svg: string): Box[] {
   const d = /\bd="([^"]+)"/.exec(svg)![1]!
-  const props = new svgPathProperties(d)
-  let minY = Infinity, maxY = -Infinity
-  const total = props.getTotalLength()
-  for (let s = 0; s <= total; s += 0.01) {
-    const p = props.getPointAtLength(s)
-    minY = Math.min(minY, p.y)
-    maxY = Math.max(maxY, p.y)
-  }
-  return { minY, maxY }
+  return d.split(/(?=M)/).filter((x) => x.trim()).map((sub) => {
+    const props = new svgPathProperties(sub)
+    const total = props.getTotalLength()
+    const box = { minX: Infinity, minY: Infinity, maxX: -Infinity, maxY: -Infinity }
+    for (let s = 0; s <= total; s += 0.01) {
+      const p = props.getPointAtLength(s)
+      box.minX = Math.min(box.minX, p.x); box.maxX = Math.max(box.maxX, p.x)
+      box.minY = Math.min(box.minY, p.y); box.maxY = Math.max(box.maxY, p.y)
+    }
+    return box
+  })
 }
 
 describe('the plate generator', () => {
@@ -149,41 +154,50 @@ describe('the plate generator', () => {
     expect(own.status).toBe(422)
   })
 
-  it('makes two single-colour artworks, each an exact generated revision with only a vector', async () => {
+  it('makes one layered artwork, background under numerals, an exact generated revision with only vectors', async () => {
     const r = await student.post(`/api/teams/${wrens}/plates`, { teamNumber: '4711', numeralHeightMm: 50, backgroundColour: 'red' })
     expect(r.status, JSON.stringify(r.body)).toBe(201)
-    expect(r.body.artworks.map((a: { title: string }) => a.title)).toEqual(['Plate 4711: background (red)', 'Plate 4711: numerals (white)'])
-    plate = {
-      background: r.body.artworks.find((a: { role: string }) => a.role === 'background'),
-      numerals: r.body.artworks.find((a: { role: string }) => a.role === 'numerals'),
-    }
-    const rev = (await student.get(`/api/revisions/${plate.numerals.revisionId}`)).body
+    expect(r.body.artworks).toHaveLength(1)
+    expect(r.body.artworks[0]).toMatchObject({ title: 'Plate 4711: white numerals on red', layers: [{ role: 'background', colour: 'red' }, { role: 'numerals', colour: 'white' }] })
+    plate = r.body.artworks[0]
+    const rev = (await student.get(`/api/revisions/${plate.revisionId}`)).body
     expect(rev).toMatchObject({ origin: 'generated', number: 1, status: 'draft', source: null, files: { prepared: null, outline: null, source: null } })
     expect(rev.plate).toMatchObject({ role: 'numerals', colour: 'white', teamNumber: '4711', numeralHeightMm: 50, font: { family: 'Work Sans', licence: 'OFL-1.1' } })
-    expect((await student.get(`/api/revisions/${plate.numerals.revisionId}/prepared.png`)).status).toBe(404)
+    expect((await student.get(`/api/revisions/${plate.revisionId}/prepared.png`)).status).toBe(404)
+    // Stored like a traced layered revision: the stacked vector, a clean vector per layer, no bitmaps.
+    const db = testDb()
+    expect((await db.selectFrom('revision').select('layer_count').where('id', '=', plate.revisionId).executeTakeFirstOrThrow()).layer_count).toBe(2)
+    const layers = await db.selectFrom('revision_layer').selectAll().where('revision_id', '=', plate.revisionId).orderBy('position').execute()
+    expect(layers.map((l) => [l.name, l.prepared_key, l.outline_key])).toEqual([['red background', null, null], ['white numerals', null, null]])
+    const stacked = await getKeyText((await db.selectFrom('revision').select('vector_key').where('id', '=', plate.revisionId).executeTakeFirstOrThrow()).vector_key)
+    expect([...stacked.matchAll(/<g id="(dw-layer-\d)"/g)].map((m) => m[1])).toEqual(['dw-layer-1', 'dw-layer-2'])
+    expect(stacked).toMatch(/width="[\d.]+mm" height="[\d.]+mm"/)
     // A generated plate has nothing to tune.
-    expect((await mentor.post(`/api/artworks/${plate.numerals.artworkId}/revisions`, { settings: {}, widthMm: 100 })).status).toBe(409)
+    expect((await mentor.post(`/api/artworks/${plate.artworkId}/revisions`, { settings: {}, widthMm: 100 })).status).toBe(409)
   })
 
   it('measures the stored numerals: height within 0.05 mm of the asked 50 mm, stroke at least the profile\'s 5 mm', async () => {
-    const rev = (await student.get(`/api/revisions/${plate.numerals.revisionId}`)).body
+    const rev = (await student.get(`/api/revisions/${plate.revisionId}`)).body
     expect(Math.abs(rev.plate.measured.tallestPieceMm - 50)).toBeLessThanOrEqual(0.05)
     expect(rev.plate.measured.strokeMm).toBeGreaterThanOrEqual(5)
     expect(rev.measurements.narrowestFeatureMm).toBe(rev.plate.measured.strokeMm)
-    // A second reading of the stored SVG with svg-path-properties (npm), independent of our
+    // A second reading of the stored layers with svg-path-properties (npm), independent of our
     // geometry code: "4711" has flat tops and bottoms in this font (its figures 1, 4 and 7 span
-    // the same 0–660 font units), so the whole ink's height is the numerals' height.
-    const svg = await fetch(new URL(`/api/revisions/${plate.numerals.revisionId}/vector.svg`, student.baseUrl), { headers: { cookie: [...student.cookies].map(([k, v]) => `${k}=${v}`).join('; ') } }).then((x) => x.text())
-    const b = pathBounds(svg)
-    expect(Math.abs(b.maxY - b.minY - 50)).toBeLessThanOrEqual(0.05)
+    // the same 0–660 font units), so the numerals' ink height is the numerals' height. The
+    // plate is the background's largest piece; the marks lie outside it.
+    const keys = await testDb().selectFrom('revision_layer').select('vector_key').where('revision_id', '=', plate.revisionId).orderBy('position').execute()
+    const [background, numerals] = await Promise.all(keys.map((k) => getKeyText(k.vector_key)))
+    const area = (b: Box) => (b.maxX - b.minX) * (b.maxY - b.minY)
+    const plateBox = pieceBoxes(background!).sort((x, y) => area(y) - area(x))[0]!
+    const inside = pieceBoxes(numerals!).filter((b) => b.minX >= plateBox.minX && b.maxX <= plateBox.maxX && b.minY >= plateBox.minY && b.maxY <= plateBox.maxY)
+    expect(Math.abs(plateBox.maxX - plateBox.minX - rev.plate.measured.plateWidthMm)).toBeLessThanOrEqual(0.05)
+    expect(Math.abs(Math.max(...inside.map((b) => b.maxY)) - Math.min(...inside.map((b) => b.minY)) - 50)).toBeLessThanOrEqual(0.05)
   })
 
   it('goes through review like any artwork and can then be placed', async () => {
-    for (const a of [plate.numerals, plate.background]) {
-      expect((await student.post(`/api/revisions/${a.revisionId}/submit`)).status).toBe(200)
-      const r = await mentor.post(`/api/revisions/${a.revisionId}/review`, { decision: 'approve' })
-      expect(r.status, JSON.stringify(r.body)).toBe(200)
-    }
+    expect((await student.post(`/api/revisions/${plate.revisionId}/submit`)).status).toBe(200)
+    const r = await mentor.post(`/api/revisions/${plate.revisionId}/review`, { decision: 'approve' })
+    expect(r.status, JSON.stringify(r.body)).toBe(200)
   })
 
   describe('robot checks and the event kit', () => {
@@ -191,8 +205,9 @@ describe('the plate generator', () => {
     let widthMm: number
     let numeralHeight: number
 
-    const place = async (revisionId: number, filmId: number, side: string, spot: string, width: number, spares = 1) => {
-      const r = await mentor.post('/api/placements', { robotId, revisionId, filmId, spot, side, widthMm: width, quantity: 1, spares })
+    /** The plate placed with a film per layer: background, then numerals. */
+    const place = async (layerFilmIds: number[], side: string, spot: string, width: number, spares = 1) => {
+      const r = await mentor.post('/api/placements', { robotId, revisionId: plate.revisionId, layerFilmIds, spot, side, widthMm: width, quantity: 1, spares })
       expect(r.status, JSON.stringify(r.body)).toBe(201)
       return r.body
     }
@@ -206,15 +221,14 @@ describe('the plate generator', () => {
     beforeAll(async () => {
       const r = await mentor.post('/api/robots', { teamId: wrens, name: `Plate bot ${stamp}`, season: '2025–26' })
       robotId = r.body.id
-      const rev = (await mentor.get(`/api/revisions/${plate.numerals.revisionId}`)).body
+      const rev = (await mentor.get(`/api/revisions/${plate.revisionId}`)).body
       widthMm = rev.widthMm
       numeralHeight = rev.plate.measured.tallestPieceMm
     })
 
     it('one plate on the front: everything passes but the sides', async () => {
-      const p = await place(plate.numerals.revisionId, films.white, 'front', 'front bumper', widthMm, 2)
+      const p = await place([films.red, films.white], 'front', 'front bumper', widthMm, 2)
       expect(p.side).toBe('front')
-      await place(plate.background.revisionId, films.red, 'front', 'front bumper', widthMm, 2)
       const c = await check()
       // Worked by hand: the FTC profile asks for two plates at least 90° apart (R401); only the front has one.
       expect(result(c, 'sides')).toMatchObject({ passed: false, sentence: 'Plates only on the front: the rules ask for two plates at least 90° apart.' })
@@ -222,8 +236,7 @@ describe('the plate generator', () => {
     })
 
     it('a second side passes the side rule; black numerals on it are the wrong colour', async () => {
-      await place(plate.numerals.revisionId, films.black, 'back', 'back bumper', widthMm)
-      await place(plate.background.revisionId, films.red, 'back', 'back bumper', widthMm)
+      await place([films.red, films.black], 'back', 'back bumper', widthMm)
       const c = await check()
       expect(result(c, 'sides')).toMatchObject({ passed: true, sentence: 'Plates on the front and back: two plates at least 90° apart, as the rules ask.' })
       expect(result(c, 'numeral-colour')).toMatchObject({
@@ -232,16 +245,16 @@ describe('the plate generator', () => {
     })
 
     let leftId: number
-    it('numerals placed at half size are too small, and that plate has no background', async () => {
-      leftId = (await place(plate.numerals.revisionId, films.white, 'left', 'left panel', widthMm / 2)).id
+    it('a plate placed at half size has numerals too small', async () => {
+      leftId = (await place([films.red, films.white], 'left', 'left panel', widthMm / 2)).id
       const c = await check()
       // Half the measured height; the FTC range is 1.75 to 2.75 in = 44.45 to 69.85 mm.
       expect(result(c, 'numeral-height')).toMatchObject({
         passed: false,
         sentence: `The numerals on the left plate (left panel) are ${formatMmText(numeralHeight / 2)} mm tall: the rules ask for numerals 44.45 to 69.85 mm tall (1.75 to 2.75 in).`,
       })
-      expect(result(c, 'background').sentence).toMatch(/^The left plate \(left panel\) has no background film: the rules ask for a red or blue background\.$/)
-      expect(c.kitPlacements).toBe(5)
+      expect(result(c, 'background').passed).toBe(true)
+      expect(c.kitPlacements).toBe(3)
     })
 
     it('a placement\'s side can be changed, and the check follows it', async () => {
@@ -270,15 +283,15 @@ describe('the plate generator', () => {
       const b = await put('arm')
       expect(b.neededAtEvents).toBe(false)
       unmarked = b.id
-      // Five plate layers and the marked decal.
-      expect((await check()).kitPlacements).toBe(6)
+      // Three plates and the marked decal.
+      expect((await check()).kitPlacements).toBe(4)
       const on = await mentor.patch(`/api/placements/${unmarked}`, { neededAtEvents: true })
       expect(on.status, JSON.stringify(on.body)).toBe(200)
       expect(on.body.placement.neededAtEvents).toBe(true)
-      expect((await check()).kitPlacements).toBe(7)
+      expect((await check()).kitPlacements).toBe(5)
       const off = await mentor.patch(`/api/placements/${unmarked}`, { neededAtEvents: false })
       expect(off.body.placement.neededAtEvents).toBe(false)
-      expect((await check()).kitPlacements).toBe(6)
+      expect((await check()).kitPlacements).toBe(4)
       // The robot's page shows the mark.
       const robot = (await student.get(`/api/robots/${robotId}`)).body as { placements: { id: number; neededAtEvents: boolean }[] }
       expect(robot.placements.filter((p) => p.neededAtEvents).map((p) => p.id)).toEqual([marked])
@@ -286,16 +299,17 @@ describe('the plate generator', () => {
       expect((await student.patch(`/api/placements/${marked}`, { neededAtEvents: false })).status).toBe(403)
     })
 
-    it('the event kit queues one reprint job per placement, in one batch per film, in one request', async () => {
+    it('the event kit queues one reprint job per placement (per layer of a plate), in one batch per film, in one request', async () => {
       const r = await student.post(`/api/robots/${robotId}/event-kit`)
       expect(r.status, JSON.stringify(r.body)).toBe(201)
-      expect(r.body.jobIds).toHaveLength(6)
+      expect(r.body.jobIds).toHaveLength(7)
       const jobs = await testDb().selectFrom('job').innerJoin('placement', 'placement.id', 'job.placement_id').innerJoin('batch', 'batch.id', 'job.batch_id')
-        .select(['job.id', 'job.kind', 'job.quantity', 'job.reason', 'job.state', 'job.film_id', 'job.batch_id', 'batch.film_id as batch_film', 'batch.state as batch_state', 'placement.id as placement_id', 'placement.side'])
+        .select(['job.id', 'job.kind', 'job.quantity', 'job.reason', 'job.state', 'job.layer', 'job.film_id', 'job.batch_id', 'batch.film_id as batch_film', 'batch.state as batch_state', 'placement.id as placement_id', 'placement.side'])
         .where('job.id', 'in', r.body.jobIds).orderBy('job.id').execute()
-      // Worked by hand: the plates' spares (2, 2, then at least 1 for the rest) and the marked decal's 3; never the unmarked one.
-      expect(jobs.map((j) => [j.kind, j.side, j.quantity])).toEqual([
-        ['reprint', 'front', 2], ['reprint', 'front', 2], ['reprint', 'back', 1], ['reprint', 'back', 1], ['reprint', 'top', 1], ['reprint', null, 3],
+      // Worked by hand: each plate is one order of a job per layer (background 0, numerals 1), at
+      // the plate's spares (2, then at least 1); the marked decal's 3; never the unmarked one.
+      expect(jobs.map((j) => [j.kind, j.side, j.layer, j.quantity])).toEqual([
+        ['reprint', 'front', 0, 2], ['reprint', 'front', 1, 2], ['reprint', 'back', 0, 1], ['reprint', 'back', 1, 1], ['reprint', 'top', 0, 1], ['reprint', 'top', 1, 1], ['reprint', null, null, 3],
       ])
       expect(jobs.map((j) => j.placement_id)).toContain(marked)
       expect(jobs.map((j) => j.placement_id)).not.toContain(unmarked)
@@ -307,12 +321,12 @@ describe('the plate generator', () => {
       expect([...byFilm.keys()].sort()).toEqual([films.white, films.red, films.black].sort())
       expect([...byFilm.values()].every((b) => b.size === 1)).toBe(true)
       // The answer says the same: each batch with its film, jobs and copies, worked by hand: white
-      // holds the front numerals (2), the top numerals (1) and the marked decal (3); red the two
-      // backgrounds (2 + 1); black the back numerals (1).
+      // holds the front numerals (2), the top numerals (1) and the marked decal (3); red the three
+      // backgrounds (2 + 1 + 1); black the back numerals (1).
       const batches = r.body.batches as { id: number; filmId: number; filmName: string; jobIds: number[]; copies: number }[]
       expect(batches).toHaveLength(3)
-      expect(Object.fromEntries(batches.map((b) => [b.filmId, b.copies]))).toEqual({ [films.white]: 6, [films.red]: 3, [films.black]: 1 })
-      expect(r.body.copies).toBe(10)
+      expect(Object.fromEntries(batches.map((b) => [b.filmId, b.copies]))).toEqual({ [films.white]: 6, [films.red]: 4, [films.black]: 1 })
+      expect(r.body.copies).toBe(11)
       for (const b of batches) expect(b.jobIds.every((id) => jobs.find((j) => j.id === id)!.batch_id === b.id)).toBe(true)
       // The cut queue lists each batch.
       const queue = await mentor.get('/api/batches')

@@ -1,5 +1,5 @@
 import { inject } from 'vitest'
-import { ListObjectsV2Command, PutObjectCommand, S3Client } from '@aws-sdk/client-s3'
+import { GetObjectCommand, ListObjectsV2Command, PutObjectCommand, S3Client } from '@aws-sdk/client-s3'
 
 let client: S3Client | undefined
 function s3() {
@@ -23,4 +23,10 @@ export async function allKeys(): Promise<string[]> {
 /** Stores a file straight in the test bucket (a clean vector made by a test, say). */
 export async function putKey(key: string, body: string | Uint8Array, contentType: string): Promise<void> {
   await s3().send(new PutObjectCommand({ Bucket: inject('s3').bucket, Key: key, Body: body, ContentType: contentType }))
+}
+
+/** A stored file's text, straight from the test bucket (a layer's vector, say). */
+export async function getKeyText(key: string): Promise<string> {
+  const r = await s3().send(new GetObjectCommand({ Bucket: inject('s3').bucket, Key: key }))
+  return r.Body!.transformToString('utf8')
 }
