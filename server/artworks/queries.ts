@@ -98,6 +98,10 @@ export async function keysInUse(db: Db, keys: readonly string[]): Promise<Set<st
     .union(db.selectFrom('revision').select('prepared_key as key').where('prepared_key', 'in', list).$narrowType<{ key: string }>())
     .union(db.selectFrom('revision').select('outline_key as key').where('outline_key', 'in', list).$narrowType<{ key: string }>())
     .union(db.selectFrom('revision').select('vector_key as key').where('vector_key', 'in', list))
+    // Each layer of a layered revision has files of its own.
+    .union(db.selectFrom('revision_layer').select('prepared_key as key').where('prepared_key', 'in', list).$narrowType<{ key: string }>())
+    .union(db.selectFrom('revision_layer').select('outline_key as key').where('outline_key', 'in', list).$narrowType<{ key: string }>())
+    .union(db.selectFrom('revision_layer').select('vector_key as key').where('vector_key', 'in', list))
     .union(db.selectFrom('object_claim').select('key').where('key', 'in', list))
     // A source waiting in the work queue for its first revision.
     .union(db.selectFrom('work_item').select('source_key as key').where('source_key', 'in', list).where('state', 'in', ['queued', 'running']).$narrowType<{ key: NotNull }>())

@@ -1,6 +1,6 @@
 import { describe, expect } from 'vitest'
 import { can } from '../../server/policy'
-import { findArtwork, findRevision } from '../../server/artworks/queries'
+import { findArtwork, findRevision, keysInUse } from '../../server/artworks/queries'
 import { artworkDetail, listArtworks } from '../../server/artworks/service'
 import { actorOf, test } from '../support/service'
 import { addArtwork, buildProgram } from '../support/fixtures'
@@ -72,5 +72,16 @@ describe('the artwork list and its scopes', () => {
     expect(await detail(team.designer)).toEqual({ 'artwork.revise': true, 'revision.submit': true, 'revision.review': false })
     expect(await detail(team.operator)).toEqual({ 'artwork.revise': false, 'revision.submit': false, 'revision.review': false })
     expect(await detail(p.mentor)).toEqual({ 'artwork.revise': true, 'revision.submit': true, 'revision.review': true })
+  })
+})
+
+describe('stored files in use', () => {
+  test('a layered revision\'s layer files count as in use, so the sweep of unused files leaves them', async ({ trx }) => {
+    const p = await buildProgram(trx)
+    const team = p.teams[0]
+    await addArtwork(trx, { teamId: team.id, authorId: team.student, layers: [{ name: 'red', hex: '#c8102e' }, { name: 'blue', hex: '#1f4e9c' }] })
+    const layerKeys = ['prepared/fixture-0.png', 'outline/fixture-0.svg', 'vector/fixture-0.svg', 'prepared/fixture-1.png', 'outline/fixture-1.svg', 'vector/fixture-1.svg']
+    const inUse = await keysInUse(trx, [...layerKeys, 'vector/nothing-points-here.svg'])
+    expect([...inUse].sort()).toEqual([...layerKeys].sort())
   })
 })
