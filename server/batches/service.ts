@@ -119,6 +119,6 @@ export async function batchSheetFile(db: Db, actor: Actor, b: BatchRow, o: Sheet
   const rows = await jobsOfBatch(db, actor, b.id)
   if (rows.length === 0) throw createError({ statusCode: 409, message: 'This batch has no jobs.' })
   if (rows.some((r) => !r.film_cleared)) throw createError({ statusCode: 422, message: 'This film may not be cut. See the film\'s page.' })
-  const file = await sheetFile(rows, o, format, sheet)
+  const file = await sheetFile(rows, o, format, sheet, { batchId: b.id })
   return { ...file, name: `batch-${b.id}` }
 }

@@ -284,6 +284,6 @@ export async function jobSheetFile(db: Db, actor: Actor, r: JobRow, o: SheetOpti
     const film = await filmOfProgram(db, actor.programId, r.film_id)
     throw createError({ statusCode: 422, message: (film && notUsableBecause(film)) ?? 'This film may not be cut.' })
   }
-  const file = await sheetFile([r], o, format, sheet)
+  const file = await sheetFile([r], o, format, sheet, { jobIds: [r.job_id] })
   return { ...file, name: `job-${r.job_id}-${fileSlug(r.title, 40, 'decal')}-r${r.revision_number}` }
 }

@@ -14,7 +14,8 @@ import type { PackInput } from '../cutsheet/pack'
 import { readCleanVector, type CutCurve } from '../cutsheet/path'
 import type { BatchDesign, BatchSheetInput } from '../cutsheet/sheet'
 import { buildSheetsInPool, packInPool } from '../platform/cutsheet-pool'
-import { getObject, objectExists, putObject } from '../platform/object-store'
+import type { Db } from '../platform/db'
+import { deleteObject, getObject, listObjects, objectExists, putObject, type StoredObject } from '../platform/object-store'
 
 /** Bump when the files change for the same input, so kept sheets are built again. */
 export const CUT_SHEET_ENGINE = 'sheets-2'
@@ -98,16 +99,22 @@ async function copyGeometry(j: SheetJob): Promise<BatchDesign> {
 
 export interface SheetFile { bytes: Buffer; sheets: number; fromStore: boolean }
 
+/** Whose sheets these are: a batch's (its jobs now), or a job's own. Kept with the files, so the sweep can tell whether they can still be asked for. */
+export type SheetOwner = { batchId: number; jobIds?: undefined } | { batchId?: undefined; jobIds: number[] }
+
+/** What is kept beside the files; written last, so a half-kept set is never read. */
+interface SheetManifest { sheets: number; engine: string; owner?: SheetOwner; options?: SheetOptions; builtAt?: string }
+
 const fileKey = (key: string, n: number, format: 'svg' | 'dxf') => `${PREFIX}${key}/sheet-${n}.${format}`
 const countKey = (key: string) => `${PREFIX}${key}/sheets.json`
 
 async function storedCount(key: string): Promise<number | null> {
   if (!(await objectExists(countKey(key)))) return null
-  return (JSON.parse((await getObject(countKey(key))).toString('utf8')) as { sheets: number }).sheets
+  return (JSON.parse((await getObject(countKey(key))).toString('utf8')) as SheetManifest).sheets
 }
 
-/** Builds every sheet in both formats off the request thread and keeps them; the count goes last, so a half-kept set is never read. */
-async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string): Promise<number> {
+/** Builds every sheet in both formats off the request thread and keeps them; the manifest goes last. */
+async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string, owner: SheetOwner): Promise<number> {
   const base = sheetInput(jobs, o)
   const curves = await Promise.all(jobs.map(copyGeometry))
   const input: BatchSheetInput = { ...base, designs: base.designs.map((d, i) => ({ ...curves[i]!, ...d, widthMm: curves[i]!.widthMm, heightMm: curves[i]!.heightMm })) }
@@ -116,18 +123,80 @@ async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string): Pro
     putObject(fileKey(key, i + 1, 'svg'), s.svg!, 'image/svg+xml'),
     putObject(fileKey(key, i + 1, 'dxf'), s.dxf!, 'application/dxf'),
   ]))
-  await putObject(countKey(key), Buffer.from(JSON.stringify({ sheets: built.sheets.length, engine: CUT_SHEET_ENGINE })), 'application/json')
+  const manifest: SheetManifest = { sheets: built.sheets.length, engine: CUT_SHEET_ENGINE, owner, options: o, builtAt: new Date().toISOString() }
+  await putObject(countKey(key), Buffer.from(JSON.stringify(manifest)), 'application/json')
   return built.sheets.length
 }
 
 /** Sheet `n` (from 1) in `format`, from the store when it was built before. */
-export async function sheetFile(jobs: SheetJob[], o: SheetOptions, format: 'svg' | 'dxf', n: number): Promise<SheetFile> {
+export async function sheetFile(jobs: SheetJob[], o: SheetOptions, format: 'svg' | 'dxf', n: number, owner: SheetOwner): Promise<SheetFile> {
   // Nothing is packed on the request thread: a kept sheet is read back, and a new one is packed
   // in the worker, which answers copies that do not fit with the reason (a 422).
   const key = sheetKey(jobs, o)
   let sheets = await storedCount(key)
   const fromStore = sheets !== null
-  sheets ??= await buildAndKeep(jobs, o, key)
+  sheets ??= await buildAndKeep(jobs, o, key, owner)
   if (n > sheets) throw createError({ statusCode: 404, message: `There ${sheets === 1 ? 'is 1 sheet' : `are ${sheets} sheets`}.` })
   return { bytes: await getObject(fileKey(key, n, format)), sheets, fromStore }
+}
+
+// ---------- the sweep ----------
+
+/** Kept sheets no one has had built again for this long are removed; asking for them again builds them anew. */
+export const KEPT_SHEET_MAX_AGE_S = 14 * 24 * 3600
+/** A set with no manifest this old was left half-built by a process that died. */
+export const HALF_BUILT_AGE_S = 3600
+
+/** The owner's jobs as they are now, whoever asks (the sweep and the work queue have no person). */
+export function ownerJobs(db: Db, owner: SheetOwner) {
+  const q = db.selectFrom('job')
+    .innerJoin('placement', 'placement.id', 'job.placement_id')
+    .innerJoin('revision', 'revision.id', 'placement.revision_id')
+    .innerJoin('film', 'film.id', 'job.film_id')
+    .select(['job.id as job_id', 'job.quantity as job_quantity', 'job.width_mm as job_width', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
+      'revision.vector_key', 'film.sheet_width_mm', 'film.sheet_height_mm', 'film.kerf_mm as film_kerf', 'film.cleared as film_cleared', 'job.state'])
+  return (owner.batchId !== undefined ? q.where('job.batch_id', '=', owner.batchId) : q.where('job.id', 'in', owner.jobIds.length ? owner.jobIds : [-1]))
+    .orderBy('job.id').execute()
+}
+
+/** Whether the set under `key` is still what its owner's queued jobs would be built into with its options. */
+async function stillAskedFor(db: Db, key: string, m: SheetManifest): Promise<boolean> {
+  if (m.engine !== CUT_SHEET_ENGINE || !m.owner || !m.options) return false
+  const jobs = await ownerJobs(db, m.owner)
+  // A cut, cancelled or failed job, or a batch cut or emptied, is not cut from these sheets again.
+  if (jobs.length === 0 || jobs.some((j) => j.state !== 'queued')) return false
+  return sheetKey(jobs, m.options) === key
+}
+
+/**
+ * Removes kept cut sheets nothing can ask for any more: their jobs changed (another quantity,
+ * width, revision, film or batch gives another key), were cut, cancelled or failed; built with
+ * another engine; older than `maxAgeS`; or left half-built. Returns how many sets were removed.
+ */
+export async function sweepKeptSheets(db: Db, o: { maxAgeS?: number; halfBuiltAgeS?: number; now?: Date } = {}): Promise<number> {
+  const now = (o.now ?? new Date()).getTime()
+  const sets = new Map<string, StoredObject[]>()
+  let token: string | undefined
+  do {
+    const page = await listObjects(PREFIX, token)
+    token = page.next
+    for (const x of page.objects) {
+      const key = x.key.slice(PREFIX.length).split('/')[0]!
+      sets.set(key, [...(sets.get(key) ?? []), x])
+    }
+  } while (token)
+  let removed = 0
+  for (const [key, objects] of sets) {
+    const manifest = objects.find((x) => x.key === countKey(key))
+    const newest = Math.max(...objects.map((x) => x.lastModified.getTime()))
+    let gone: boolean
+    if (!manifest) gone = now - newest > (o.halfBuiltAgeS ?? HALF_BUILT_AGE_S) * 1000
+    else if (now - manifest.lastModified.getTime() > (o.maxAgeS ?? KEPT_SHEET_MAX_AGE_S) * 1000) gone = true
+    else gone = !(await stillAskedFor(db, key, JSON.parse((await getObject(manifest.key)).toString('utf8')) as SheetManifest))
+    if (!gone) continue
+    // The manifest first: from then on the set reads as not kept, and a request builds it again.
+    for (const x of [...objects].sort((a, b) => Number(b.key === countKey(key)) - Number(a.key === countKey(key)))) await deleteObject(x.key)
+    removed++
+  }
+  return removed
 }
