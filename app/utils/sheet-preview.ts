@@ -5,6 +5,8 @@
 // kinds of line differ by pattern and weight, not only by colour: copy outlines solid and
 // heavy, weeding lines dashed, weeding frames dotted; copy ids are text.
 
+import type { WorkItemView } from '#shared/types/work'
+
 /** How each kind of line looks on screen; the legend under the picture uses the same values. */
 export const SCREEN_LINES = {
   outline: { widthPx: 2, dash: '', colour: '#1f4a3f', words: 'Copy outline (cut)' },
@@ -32,4 +34,14 @@ export function screenSheetSvg(svg: string): string {
   if (!open) throw new Error('This is not an SVG document.')
   const at = open.index + open[0].length
   return `${svg.slice(0, at)}\n<style>${SCREEN_SHEET_STYLE}</style>${svg.slice(at)}`
+}
+
+/** What the browser says while a cut sheet is built as a work item. */
+export function sheetWorkWords(w: Pick<WorkItemView, 'state' | 'phase' | 'percent'>): { words: string; percent: number } {
+  const words = w.state === 'queued' || w.phase === 'waiting' ? 'Waiting for a free worker…'
+    : w.phase === 'reading' ? 'Reading the drawings…'
+      : w.phase === 'outlining' ? 'Laying out the copies and writing the files…'
+        : w.phase === 'storing' ? 'Keeping the files…'
+          : 'Finishing…'
+  return { words, percent: w.percent }
 }

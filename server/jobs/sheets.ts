@@ -14,7 +14,11 @@ import type { PackInput } from '../cutsheet/pack'
 import { readCleanVector, type CutCurve } from '../cutsheet/path'
 import type { BatchDesign, BatchSheetInput } from '../cutsheet/sheet'
 import { buildSheetsInPool, packInPool } from '../platform/cutsheet-pool'
-import type { Db } from '../platform/db'
+import { sql } from 'kysely'
+import type { SheetWorkResult, WorkPhase } from '#shared/types/work'
+import { inTransaction, type Db } from '../platform/db'
+import type { Actor } from '../policy'
+import { addWork, finishWork, reportPhase, type BegunWork } from '../work/items'
 import { deleteObject, getObject, listObjects, objectExists, putObject, type StoredObject } from '../platform/object-store'
 
 /** Bump when the files change for the same input, so kept sheets are built again. */
@@ -108,17 +112,19 @@ interface SheetManifest { sheets: number; engine: string; owner?: SheetOwner; op
 const fileKey = (key: string, n: number, format: 'svg' | 'dxf') => `${PREFIX}${key}/sheet-${n}.${format}`
 const countKey = (key: string) => `${PREFIX}${key}/sheets.json`
 
-async function storedCount(key: string): Promise<number | null> {
+async function readManifest(key: string): Promise<SheetManifest | null> {
   if (!(await objectExists(countKey(key)))) return null
-  return (JSON.parse((await getObject(countKey(key))).toString('utf8')) as SheetManifest).sheets
+  return JSON.parse((await getObject(countKey(key))).toString('utf8')) as SheetManifest
 }
 
 /** Builds every sheet in both formats off the request thread and keeps them; the manifest goes last. */
-async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string, owner: SheetOwner): Promise<number> {
+async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string, owner: SheetOwner, report: (p: WorkPhase) => Promise<void>): Promise<number> {
   const base = sheetInput(jobs, o)
   const curves = await Promise.all(jobs.map(copyGeometry))
   const input: BatchSheetInput = { ...base, designs: base.designs.map((d, i) => ({ ...curves[i]!, ...d, widthMm: curves[i]!.widthMm, heightMm: curves[i]!.heightMm })) }
+  await report('outlining')
   const built = await buildSheetsInPool(input)
+  await report('storing')
   await Promise.all(built.sheets.flatMap((s, i) => [
     putObject(fileKey(key, i + 1, 'svg'), s.svg!, 'image/svg+xml'),
     putObject(fileKey(key, i + 1, 'dxf'), s.dxf!, 'application/dxf'),
@@ -128,16 +134,54 @@ async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string, owne
   return built.sheets.length
 }
 
-/** Sheet `n` (from 1) in `format`, from the store when it was built before. */
-export async function sheetFile(jobs: SheetJob[], o: SheetOptions, format: 'svg' | 'dxf', n: number, owner: SheetOwner): Promise<SheetFile> {
-  // Nothing is packed on the request thread: a kept sheet is read back, and a new one is packed
-  // in the worker, which answers copies that do not fit with the reason (a 422).
+/** Sheet `n` (from 1) of the set kept under `key`, or null when the set is not kept. */
+async function keptFile(key: string, format: 'svg' | 'dxf', n: number): Promise<SheetFile | null> {
+  const m = await readManifest(key)
+  if (!m) return null
+  if (n > m.sheets) throw createError({ statusCode: 404, message: `There ${m.sheets === 1 ? 'is 1 sheet' : `are ${m.sheets} sheets`}.` })
+  return { bytes: await getObject(fileKey(key, n, format)), sheets: m.sheets, fromStore: true }
+}
+
+/** The queue's task that builds a set of cut sheets. */
+export const BUILD_CUT_SHEET = 'build-cut-sheet'
+
+/** What a cut-sheet work item asks for: the owner's sheets with these options (built from the jobs as they are when it runs). */
+interface SheetWorkInput { key: string; owner: SheetOwner; options: SheetOptions }
+
+/** A kept sheet, or the work item that is building its set. */
+export type SheetAnswer = { file: SheetFile; workItemId?: undefined } | { file?: undefined; workItemId: number }
+
+/**
+ * Sheet `n` in `format` at once when its set is kept; otherwise the work item that builds the
+ * set: the asker's own unfinished one for the same content, or a new one in the work queue.
+ * Nothing is packed or written on the request thread.
+ */
+export async function keptOrQueued(db: Db, asker: Pick<Actor, 'id' | 'programId'>, jobs: SheetJob[], o: SheetOptions, format: 'svg' | 'dxf', n: number, owner: SheetOwner): Promise<SheetAnswer> {
   const key = sheetKey(jobs, o)
-  let sheets = await storedCount(key)
-  const fromStore = sheets !== null
-  sheets ??= await buildAndKeep(jobs, o, key, owner)
-  if (n > sheets) throw createError({ statusCode: 404, message: `There ${sheets === 1 ? 'is 1 sheet' : `are ${sheets} sheets`}.` })
-  return { bytes: await getObject(fileKey(key, n, format)), sheets, fromStore }
+  const file = await keptFile(key, format, n)
+  if (file) return { file }
+  const open = await db.selectFrom('work_item').select('id')
+    .where('kind', '=', 'cut-sheet').where('asked_by', '=', asker.id).where('state', 'in', ['queued', 'running'])
+    .where(sql<string>`input->>'key'`, '=', key).orderBy('id', 'desc').executeTakeFirst()
+  if (open) return { workItemId: open.id }
+  const input: SheetWorkInput = { key, owner, options: o }
+  const id = await inTransaction(db, (trx) => addWork(trx, { programId: asker.programId, kind: 'cut-sheet', askedBy: asker.id, input: { ...input }, task: BUILD_CUT_SHEET }))
+  return { workItemId: id }
+}
+
+/**
+ * The runner's half (the build-cut-sheet task): builds and keeps the owner's sheets as its jobs
+ * are now, unless they are kept already, and finishes the item with the set's key and size.
+ */
+export async function buildSheetsForWork(db: Db, item: BegunWork): Promise<SheetWorkResult> {
+  const { owner, options } = item.input as SheetWorkInput
+  const jobs = await ownerJobs(db, owner)
+  if (jobs.some((j) => !j.film_cleared)) throw createError({ statusCode: 422, message: 'This film may not be cut. See the film\'s page.' })
+  const key = sheetKey(jobs, options)
+  const sheets = (await readManifest(key))?.sheets ?? await buildAndKeep(jobs, options, key, owner, (p) => reportPhase(db, item.id, p))
+  const result: SheetWorkResult = { sheetKey: key, sheets }
+  await inTransaction(db, (trx) => finishWork(trx, item.id, result))
+  return result
 }
 
 // ---------- the sweep ----------

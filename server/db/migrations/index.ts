@@ -11,6 +11,7 @@ import * as m0009 from './0009_cleanup'
 import * as m0010 from './0010_batches'
 import * as m0011 from './0011_plates'
 import * as m0012 from './0012_work'
+import * as m0014 from './0014_cut_sheet_work'
 
 // A static list: a bundled server cannot read a folder of migration files.
 // Add new migrations here, in order, under a name that sorts after the last one.
@@ -27,4 +28,5 @@ export const migrations: Record<string, Migration> = {
   '0010_batches': m0010,
   '0011_plates': m0011,
   '0012_work': m0012,
+  '0014_cut_sheet_work': m0014,
 }
