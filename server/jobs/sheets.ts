@@ -1,6 +1,7 @@
 // The cut sheets of one job or of a batch: the copies of every job packed on the film's sheets,
-// kerf-compensated by the film's kerf, labelled, with weeding lines when asked for. Built in a
-// worker thread when first asked for and kept in object storage under a key made of everything
+// kerf-compensated by the film's kerf, labelled, with weeding lines when asked for. Built as a
+// work item (the queue's build-cut-sheet task) in a worker thread, which reads the stored
+// vectors itself, when first asked for, and kept in object storage under a key made of everything
 // that shapes the files (the jobs' drawings, sizes and counts, the sheet, the options and the
 // engine's version), so a second download, or the other format, is read back, not rebuilt.
 import { createHash } from 'node:crypto'
@@ -11,9 +12,8 @@ import { DEFAULT_KERF_MM } from '#shared/films/library'
 import type { cutSheetQuerySchema } from '#shared/utils/schemas'
 import { CUT_SHEET_LIMITS, WEEDING_LINE_LIMITS } from '#shared/constants/cut-sheet'
 import type { PackInput } from '../cutsheet/pack'
-import { readCleanVector, type CutCurve } from '../cutsheet/path'
-import type { BatchDesign, BatchSheetInput } from '../cutsheet/sheet'
-import { buildSheetsInPool, packInPool } from '../platform/cutsheet-pool'
+import type { BatchSheetInput } from '../cutsheet/sheet'
+import { buildSheetsFromVectorsInPool, packInPool } from '../platform/cutsheet-pool'
 import { sql } from 'kysely'
 import type { SheetWorkResult, WorkPhase } from '#shared/types/work'
 import { inTransaction, type Db } from '../platform/db'
@@ -88,19 +88,6 @@ export function sheetKey(jobs: SheetJob[], o: SheetOptions): string {
   return createHash('sha256').update(JSON.stringify(substance)).digest('hex')
 }
 
-/** The placed copy's curves at the job's width (the revision's vector scaled). */
-async function copyGeometry(j: SheetJob): Promise<BatchDesign> {
-  const vector = readCleanVector((await getObject(j.vector_key)).toString('utf8'))
-  const k = j.job_width / vector.widthMm
-  const s = (p: { x: number; y: number }) => ({ x: p.x * k, y: p.y * k })
-  const curves: CutCurve[] = vector.curves.map((c) => ({
-    segments: c.segments.map((g) => g.kind === 'line'
-      ? { kind: 'line' as const, from: s(g.from), to: s(g.to) }
-      : { kind: 'cubic' as const, from: s(g.from), c1: s(g.c1), c2: s(g.c2), to: s(g.to) }),
-  }))
-  return { id: `J${j.job_id}`, curves, widthMm: vector.widthMm * k, heightMm: vector.heightMm * k, count: j.job_quantity }
-}
-
 export interface SheetFile { bytes: Buffer; sheets: number; fromStore: boolean }
 
 /** Whose sheets these are: a batch's (its jobs now), or a job's own. Kept with the files, so the sweep can tell whether they can still be asked for. */
@@ -120,10 +107,10 @@ async function readManifest(key: string): Promise<SheetManifest | null> {
 /** Builds every sheet in both formats off the request thread and keeps them; the manifest goes last. */
 async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string, owner: SheetOwner, report: (p: WorkPhase) => Promise<void>): Promise<number> {
   const base = sheetInput(jobs, o)
-  const curves = await Promise.all(jobs.map(copyGeometry))
-  const input: BatchSheetInput = { ...base, designs: base.designs.map((d, i) => ({ ...curves[i]!, ...d, widthMm: curves[i]!.widthMm, heightMm: curves[i]!.heightMm })) }
+  // The stored vectors go to the thread as they are: it reads and scales them, not this one.
+  const vectors = await Promise.all(jobs.map((j) => getObject(j.vector_key)))
   await report('outlining')
-  const built = await buildSheetsInPool(input)
+  const built = await buildSheetsFromVectorsInPool({ ...base, designs: base.designs.map(({ heightMm: _h, ...d }, i) => ({ ...d, vector: vectors[i]! })) })
   await report('storing')
   await Promise.all(built.sheets.flatMap((s, i) => [
     putObject(fileKey(key, i + 1, 'svg'), s.svg!, 'image/svg+xml'),
