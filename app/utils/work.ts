@@ -5,11 +5,12 @@ import type { WorkItemView, WorkResult } from '#shared/types/work'
  * is finished. Resolves with its result; rejects like $fetch with the refusal it ended in, so
  * apiProblem() reads it as it reads any other answer.
  */
-export async function followWork(first: WorkItemView, onItem: (item: WorkItemView) => void, intervalMs = 700): Promise<WorkResult> {
+export async function followWork<R extends NonNullable<WorkItemView['result']> = WorkResult>(first: WorkItemView, onItem: (item: WorkItemView) => void, intervalMs = 700): Promise<R> {
   let item = first
   for (;;) {
     onItem(item)
-    if (item.state === 'done' && item.result) return item.result
+    // The caller knows what its kind of work leaves.
+    if (item.state === 'done' && item.result) return item.result as R
     if (item.state === 'failed' && item.error) {
       const { status, message, data } = item.error
       throw { statusCode: status, data: { statusCode: status, message, data } }

@@ -7,7 +7,12 @@
 import { createHash } from 'node:crypto'
 import path from 'node:path'
 import { monitorEventLoopDelay, performance } from 'node:perf_hooks'
+import Piscina from 'piscina'
+import { packCurves } from '../../server/cutsheet/curve-buffer'
+import { curvePathData } from '../../server/cutsheet/design'
+import { readCleanVectorAt } from '../../server/cutsheet/path'
 import { packBatch } from '../../server/cutsheet/pack'
+import type { CutSheetRequest } from '../../server/cutsheet/worker'
 import type { BatchSheetInput } from '../../server/cutsheet/sheet'
 import { detailedDrawing, median } from './bench-cutsheet'
 import { buildCutSheetWorker } from './pipeline-worker-build'
@@ -25,7 +30,8 @@ export async function benchSheets(runs: number): Promise<void> {
     sheetWidthMm: 600, sheetHeightMm: 400, gapMm: 3, marginMm: 5, kerfMm: 0.15, labels: { mode: 'text' }, weedingLines: { spacingMm: 25, clearanceMm: 1 },
   }
   console.log(`\nThe operator's sheets through the server's pool: ${COPIES} copies of a ${drawing.nodes}-node drawing, kerf 0.15 mm, text labels, weeding lines (targets ≤ ${TARGET_SHEET_MS} ms a sheet, pause ≤ ${TARGET_PAUSE_MS} ms)`)
-  // The worker file exactly as the server's build makes it, found where the pool looks.
+  // The worker file exactly as the server's build makes it, found where the pool looks. The
+  // server's pool hands the curves over packed in a typed array (server/cutsheet/curve-buffer.ts).
   process.env.DECALWRIGHT_CUTSHEET_WORKER = await buildCutSheetWorker(path.resolve('node_modules/.cache/decalwright-bench'))
   const { buildSheetsInPool } = await import('../../server/platform/cutsheet-pool')
   const first = await buildSheetsInPool(structuredClone(input)) // starts the thread
@@ -55,9 +61,22 @@ export async function benchSheets(runs: number): Promise<void> {
   }
   delay.disable()
 
-  // On the request thread: the content key of a download (all a kept sheet costs besides
-  // reading it back), and the job or batch page's layout (boxes only).
-  const boxes = { ...input, designs: input.designs.map(({ curves: _c, ...d }) => d) }
+  // As before the curves were packed: the same request with the curves as objects, cloned one by
+  // one on this thread into a pool of the same worker file, for the side-by-side figures.
+  const objects = new Piscina({ filename: process.env.DECALWRIGHT_CUTSHEET_WORKER, maxThreads: 1, minThreads: 1 })
+  await objects.run({ kind: 'batch', input } satisfies CutSheetRequest)
+  const cloned = monitorEventLoopDelay({ resolution: 1 })
+  const clonedWalls: number[] = []
+  cloned.enable()
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now()
+    await objects.run({ kind: 'batch', input } satisfies CutSheetRequest)
+    clonedWalls.push(performance.now() - t0)
+  }
+  cloned.disable()
+  await objects.destroy()
+
+  // Medians of work on this thread.
   const timed = (work: () => unknown) => {
     const t: number[] = []
     for (let i = 0; i < runs; i++) {
@@ -67,6 +86,28 @@ export async function benchSheets(runs: number): Promise<void> {
     }
     return median(t)
   }
+  // What handing the curves over costs this thread: a structured clone of the objects, or packing them.
+  const cloneMs = timed(() => structuredClone(input.designs[0]!.curves))
+  const packMs = timed(() => packCurves(input.designs[0]!.curves))
+  // The server's own path: the stored clean vector's bytes go to the thread, which reads them.
+  const svg = `<svg xmlns="http://www.w3.org/2000/svg" width="${drawing.widthMm}mm" height="${drawing.heightMm}mm" viewBox="0 0 ${drawing.widthMm} ${drawing.heightMm}"><path d="${drawing.curves.map(curvePathData).join('')}"/></svg>`
+  const vector = new TextEncoder().encode(svg)
+  const readMs = timed(() => readCleanVectorAt(vector, drawing.widthMm))
+  const { buildSheetsFromVectorsInPool } = await import('../../server/platform/cutsheet-pool')
+  const fromVectors = { ...input, designs: input.designs.map(({ curves: _c, heightMm: _h, ...d }) => ({ ...d, vector: Uint8Array.from(vector) })) }
+  const served = monitorEventLoopDelay({ resolution: 1 })
+  const servedWalls: number[] = []
+  served.enable()
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now()
+    await buildSheetsFromVectorsInPool({ ...fromVectors, designs: fromVectors.designs.map((d) => ({ ...d, vector: Uint8Array.from(d.vector) })) })
+    servedWalls.push(performance.now() - t0)
+  }
+  served.disable()
+
+  // On the request thread: the content key of a download (all a kept sheet costs besides
+  // reading it back), and the job or batch page's layout (boxes only).
+  const boxes = { ...input, designs: input.designs.map(({ curves: _c, ...d }) => d) }
   const keyMs = timed(() => createHash('sha256').update(JSON.stringify(boxes)).digest('hex'))
   const layoutMs = timed(() => packBatch(boxes))
   // The pages ask the pool for it instead: how long the page waits, and the pause meanwhile.
@@ -83,7 +124,10 @@ export async function benchSheets(runs: number): Promise<void> {
 
   console.log(`  files: SVG ${(sheet.svg!.byteLength / 1024).toFixed(0)} KiB, DXF ${(sheet.dxf!.byteLength / 1024 / 1024).toFixed(1)} MiB; floor (copy both once): ${ms(f)}`)
   console.log(`  a sheet, request to bytes in the pool: median ${ms(median(walls))} (${(median(walls) / f).toFixed(0)}× floor)`)
-  console.log(`  longest event-loop pause meanwhile: ${(delay.max / 1e6).toFixed(1)} ms (idle floor ${(idle.max / 1e6).toFixed(1)} ms)`)
+  console.log(`  longest event-loop pause meanwhile: ${(delay.max / 1e6).toFixed(1)} ms (idle floor ${(idle.max / 1e6).toFixed(1)} ms; ${(delay.max / Math.max(idle.max, 1)).toFixed(2)}× idle)`)
+  console.log(`  the same with the curves as objects (as before): a sheet ${ms(median(clonedWalls))} (${(median(clonedWalls) / f).toFixed(0)}× floor), longest pause ${(cloned.max / 1e6).toFixed(1)} ms (${(cloned.max / Math.max(idle.max, 1)).toFixed(2)}× idle)`)
+  console.log(`  as the server builds it (the stored vector's bytes handed over, read in the thread): a sheet ${ms(median(servedWalls))} (${(median(servedWalls) / f).toFixed(0)}× floor), longest pause ${(served.max / 1e6).toFixed(1)} ms (${(served.max / Math.max(idle.max, 1)).toFixed(2)}× idle); reading that vector here instead (as before) ${ms(readMs)}`)
+  console.log(`  handing the curves over, on this thread: cloned as objects ${ms(cloneMs)} (${(cloneMs / f).toFixed(2)}× floor), packed into a typed array ${ms(packMs)} (${(packMs / f).toFixed(2)}× floor)`)
   console.log(`  a download's content key, on the request thread: ${ms(keyMs)} (${(keyMs / f).toFixed(2)}× floor)`)
   console.log(`  the page's layout: ${ms(layoutMs)} in this thread (${(layoutMs / f).toFixed(2)}× floor); asked of the pool as the server does, ${ms(median(inPool))}, longest pause meanwhile ${(paused.max / 1e6).toFixed(1)} ms`)
 }

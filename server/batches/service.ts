@@ -13,7 +13,7 @@ import { notUsableBecause, takeSheets, toFilm } from '../films/service'
 import { filmOfProgram } from '../films/queries'
 import { findJobs, jobsOfBatch, type JobRow } from '../jobs/queries'
 import { advance, countsCopies, cutEstimate, jobRef, jobViews, refusedFilm } from '../jobs/service'
-import { DEFAULT_SHEET, defaultSheetCount, sheetFile, sheetLayout, type SheetFile, type SheetOptions } from '../jobs/sheets'
+import { DEFAULT_SHEET, defaultSheetCount, keptOrQueued, sheetLayout, type SheetAnswer, type SheetOptions } from '../jobs/sheets'
 import { batchableJobs, findBatch, queuedBatches, type BatchRow } from './queries'
 
 const iso = (t: Date | string | null) => (t ? new Date(t).toISOString() : null)
@@ -115,10 +115,10 @@ export async function leaveBatch(db: Db, actor: Actor, b: BatchRow, jobId: numbe
 }
 
 /** One sheet of the batch's cut sheet, with the file's name. The caller has checked `queue.work`. */
-export async function batchSheetFile(db: Db, actor: Actor, b: BatchRow, o: SheetOptions, format: 'svg' | 'dxf', sheet: number): Promise<SheetFile & { name: string }> {
+export async function batchSheetFile(db: Db, actor: Actor, b: BatchRow, o: SheetOptions, format: 'svg' | 'dxf', sheet: number): Promise<SheetAnswer & { name: string }> {
   const rows = await jobsOfBatch(db, actor, b.id)
   if (rows.length === 0) throw createError({ statusCode: 409, message: 'This batch has no jobs.' })
   if (rows.some((r) => !r.film_cleared)) throw createError({ statusCode: 422, message: 'This film may not be cut. See the film\'s page.' })
-  const file = await sheetFile(rows, o, format, sheet)
-  return { ...file, name: `batch-${b.id}` }
+  const answer = await keptOrQueued(db, actor, rows, o, format, sheet, { batchId: b.id })
+  return { ...answer, name: `batch-${b.id}` }
 }

@@ -238,3 +238,16 @@ export function polygonPerimeter(points: Point[]): number {
   }
   return l
 }
+
+/** The clean vector's curves scaled to `widthMm` wide (a placed copy's size), from the stored file's bytes. */
+export function readCleanVectorAt(bytes: Uint8Array, widthMm: number): { curves: CutCurve[]; widthMm: number; heightMm: number } {
+  const vector = readCleanVector(new TextDecoder().decode(bytes))
+  const k = widthMm / vector.widthMm
+  const s = (p: Point) => ({ x: p.x * k, y: p.y * k })
+  const curves: CutCurve[] = vector.curves.map((c) => ({
+    segments: c.segments.map((g) => g.kind === 'line'
+      ? { kind: 'line' as const, from: s(g.from), to: s(g.to) }
+      : { kind: 'cubic' as const, from: s(g.from), c1: s(g.c1), c2: s(g.c2), to: s(g.to) }),
+  }))
+  return { curves, widthMm: vector.widthMm * k, heightMm: vector.heightMm * k }
+}

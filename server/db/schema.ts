@@ -12,7 +12,7 @@ import type { StockEventKind, TestGridRecord } from '../../shared/types/films'
 import type { LayerMeasurements, RevisionColour } from '../../shared/types/layers'
 import type { RobotSide, RuleProfile } from '../../shared/plates/profiles'
 import type { PlateFacts, RevisionOrigin } from '../../shared/types/plates'
-import type { WorkError, WorkKind, WorkPhase, WorkResult, WorkState } from '../../shared/types/work'
+import type { SheetWorkResult, WorkError, WorkKind, WorkPhase, WorkResult, WorkState } from '../../shared/types/work'
 
 type CreatedAt = ColumnType<Date, Date | string | undefined, never>
 type Timestamp = ColumnType<Date, Date | string, Date | string>
@@ -440,7 +440,7 @@ export interface WorkItemTable {
   percent: ColumnType<number, number | undefined, number>
   input: ColumnType<unknown, string, string>
   source_key: string | null
-  result: ColumnType<WorkResult | null, string | null | undefined, string | null>
+  result: ColumnType<WorkResult | SheetWorkResult | null, string | null | undefined, string | null>
   error: ColumnType<WorkError | null, string | null | undefined, string | null>
   attempts: ColumnType<number, number | undefined, number>
   asked_by: number

@@ -21,7 +21,7 @@ import { audit, by, historyOf } from '../history/service'
 import { newJobMail } from '../mail/templates'
 import { notUsableBecause, takeSheets, toFilm } from '../films/service'
 import { filmOfProgram, filmsOfProgram } from '../films/queries'
-import { DEFAULT_SHEET, defaultSheetCount, sheetFile, sheetLayout, type SheetFile, type SheetOptions } from './sheets'
+import { DEFAULT_SHEET, defaultSheetCount, keptOrQueued, sheetLayout, type SheetAnswer, type SheetOptions } from './sheets'
 import { findJob, jobPage, layerFilmsOfPlacement, operatorEmails, queuedSheetInputs, type JobFilter, type JobRow } from './queries'
 
 export interface NewJob {
@@ -323,12 +323,12 @@ export async function failJob(db: Db, actor: Actor, r: JobRow, input: z.output<t
 }
 
 /** One sheet of the job's cut sheet, with the file's name. The caller has checked `queue.work`. */
-export async function jobSheetFile(db: Db, actor: Actor, r: JobRow, o: SheetOptions, format: 'svg' | 'dxf', sheet: number): Promise<SheetFile & { name: string }> {
+export async function jobSheetFile(db: Db, actor: Actor, r: JobRow, o: SheetOptions, format: 'svg' | 'dxf', sheet: number): Promise<SheetAnswer & { name: string }> {
   // The database already refuses such a job; this guards the file itself as well.
   if (!r.film_cleared) {
     const film = await filmOfProgram(db, actor.programId, r.film_id)
     throw createError({ statusCode: 422, message: (film && notUsableBecause(film)) ?? 'This film may not be cut.' })
   }
-  const file = await sheetFile([r], o, format, sheet)
-  return { ...file, name: `job-${r.job_id}-${fileSlug(r.title, 40, 'decal')}-r${r.revision_number}` }
+  const answer = await keptOrQueued(db, actor, [r], o, format, sheet, { jobIds: [r.job_id] })
+  return { ...answer, name: `job-${r.job_id}-${fileSlug(r.title, 40, 'decal')}-r${r.revision_number}` }
 }

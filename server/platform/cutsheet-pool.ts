@@ -2,6 +2,7 @@
 // sheet of a detailed drawing is a few hundred milliseconds of work and tens of megabytes).
 import Piscina from 'piscina'
 import { createError } from 'h3'
+import { packCurves } from '../cutsheet/curve-buffer'
 import type { CutSheetAnswer, CutSheetRequest } from '../cutsheet/worker'
 import { workerPath } from './pipeline-pool'
 
@@ -21,13 +22,18 @@ function useCutSheetPool(): Piscina {
   return pool
 }
 
+type RunOptions = NonNullable<Parameters<Piscina['run']>[1]>
+// piscina infers its transfer list's type from MessagePort.postMessage's last overload (the
+// options object) under Node 20's types; at run time it is the list of buffers to hand over.
+const transferring = (buffers: ArrayBuffer[]): RunOptions => ({ transferList: buffers as unknown as RunOptions['transferList'] })
+
 type Answer<K extends CutSheetRequest['kind']> = Extract<CutSheetAnswer, { kind: K; ok: true }>['result']
 
 /** Runs one request in a worker thread; input it cannot make a sheet of becomes a 422. */
-async function inPool<R extends CutSheetRequest>(req: R): Promise<Answer<R['kind']>> {
+async function inPool<R extends CutSheetRequest>(req: R, options?: RunOptions): Promise<Answer<R['kind']>> {
   let answer: CutSheetAnswer
   try {
-    answer = await useCutSheetPool().run(req)
+    answer = await useCutSheetPool().run(req, options)
   } catch (err) {
     if ((err as Error).message?.includes('Task queue is at limit')) throw createError({ statusCode: 503, message: 'The cut sheet workers are busy. Try again in a moment.' })
     throw err
@@ -37,9 +43,24 @@ async function inPool<R extends CutSheetRequest>(req: R): Promise<Answer<R['kind
   throw new Error(`cut sheet failed: ${answer.ok ? 'unexpected answer' : answer.message}`)
 }
 
-/** Builds a batch's sheets, SVG and DXF as bytes. */
+/**
+ * Builds a batch's sheets, SVG and DXF as bytes. The curves cross into the thread packed in
+ * typed arrays whose buffers are handed over, not cloned object by object on this thread.
+ */
 export function buildSheetsInPool(input: Extract<CutSheetRequest, { kind: 'batch' }>['input']) {
-  return inPool({ kind: 'batch', input })
+  const designs = input.designs.map(({ curves, ...d }) => ({ ...d, packed: packCurves(curves) }))
+  return inPool({ kind: 'batch-packed', input: { ...input, designs } }, transferring(designs.map((d) => d.packed.buffer as ArrayBuffer)))
+}
+
+/**
+ * Builds a batch's sheets from the designs' stored clean vectors: the bytes cross into the
+ * thread unread (a stored file's bytes are in shared memory), and the thread reads the curves.
+ */
+export function buildSheetsFromVectorsInPool(input: Extract<CutSheetRequest, { kind: 'batch-vectors' }>['input']) {
+  // Only a buffer the view owns whole is handed over: a small Buffer may share Node's pool slab.
+  const handed = input.designs.map((d) => d.vector)
+    .filter((v) => v.buffer instanceof ArrayBuffer && v.byteOffset === 0 && v.byteLength === v.buffer.byteLength).map((v) => v.buffer as ArrayBuffer)
+  return inPool({ kind: 'batch-vectors', input }, handed.length ? transferring(handed) : undefined)
 }
 
 /** Where the copies go, without the files. */

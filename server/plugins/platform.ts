@@ -4,6 +4,7 @@ import { everyInterval } from '../platform/housekeeping'
 import { forgetOldRequests } from '../platform/idempotency'
 import { startMailSender } from '../platform/mail'
 import { sweepOrphans } from '../artworks/objects'
+import { sweepKeptSheets } from '../jobs/sheets'
 
 // At boot: tell the platform modules where the outside services are (NUXT_* variables through
 // the runtime config), start the migrations so the first request does not pay for them, then
@@ -38,7 +39,8 @@ export default defineNitroPlugin((nitro) => {
     work: async () => {
       const removed = await sweepOrphans(useDb(), { minAgeS })
       const forgotten = await forgetOldRequests(useDb())
-      if (removed || forgotten) console.log(`[decalwright] housekeeping: ${removed} stored files nothing used, ${forgotten} old request answers removed`)
+      const sheets = await sweepKeptSheets(useDb())
+      if (removed || forgotten || sheets) console.log(`[decalwright] housekeeping: ${removed} stored files nothing used, ${forgotten} old request answers, ${sheets} kept cut sheets no one can ask for removed`)
     },
   })
   nitro.hooks.hook('close', () => {

@@ -6,7 +6,7 @@ import { useDb } from '../platform/db'
 import { findBatch } from '../batches/queries'
 import { batchSheetFile } from '../batches/service'
 import { requireCan } from './actor'
-import { sendSheetFile } from './downloads'
+import { answerSheet } from './cut-sheets'
 import { idParam, readQuery } from './request'
 
 /** Batches are the cut queue's work: 401/403 by the policy, then 404 for another program's. */
@@ -18,11 +18,11 @@ export async function requireBatch(event: H3Event) {
   return { actor, db, batch }
 }
 
-/** GET a batch's sheet N (?sheet=N, default 1) in one format, with the sheet options in the query. */
+/** GET a batch's sheet N (?sheet=N, default 1) in one format, with the sheet options in the query; 202 while it is built. */
 export function batchSheetHandler(format: 'svg' | 'dxf') {
   return defineEventHandler(async (event) => {
     const { actor, db, batch } = await requireBatch(event)
     const { sheet = 1, ...options } = readQuery(event, cutSheetQuerySchema)
-    return sendSheetFile(event, await batchSheetFile(db, actor, batch, options, format, sheet), format, sheet)
+    return answerSheet(event, actor, () => batchSheetFile(db, actor, batch, options, format, sheet), format, sheet)
   })
 }

@@ -11,7 +11,7 @@ import type { Actor } from '../policy'
 export async function answerWhenDone<T>(event: H3Event, actor: Actor, workItemId: number, answer: (done: WorkResult) => Promise<T>): Promise<T | WorkAccepted> {
   const db = useDb()
   const item = await waitForWork(db, actor, workItemId, { timeoutMs: Number(useRuntimeConfig().workWaitMs) || 60_000 })
-  if (item.state === 'done' && item.result) {
+  if (item.state === 'done' && item.result && 'revisionId' in item.result) {
     setResponseStatus(event, 201)
     return answer(item.result)
   }

@@ -3,7 +3,7 @@
 // the same transaction as the row (server/platform/work-queue.ts).
 import { sql, type Transaction } from 'kysely'
 import type { Database } from '../db/schema'
-import { WORK_PHASES, type WorkError, type WorkItemView, type WorkKind, type WorkPhase, type WorkResult } from '#shared/types/work'
+import { WORK_PHASES, type SheetWorkResult, type WorkError, type WorkItemView, type WorkKind, type WorkPhase, type WorkResult } from '#shared/types/work'
 import { inTransaction, type Db } from '../platform/db'
 import { addJob, removeJob } from '../platform/work-queue'
 import { canCancelWork, workScope, type Actor } from '../policy'
@@ -18,6 +18,8 @@ export interface NewWork {
   input: Record<string, unknown>
   /** A stored file the work will read and nothing else points at yet. */
   sourceKey?: string
+  /** The queue's task that does the work (default: make-revision). */
+  task?: string
 }
 
 // giveUpStrandedWork's SQL spells the same key.
@@ -28,7 +30,7 @@ export async function addWork(trx: Transaction<Database>, w: NewWork): Promise<n
   const { id } = await trx.insertInto('work_item').values({
     program_id: w.programId, kind: w.kind, asked_by: w.askedBy, input: JSON.stringify(w.input), source_key: w.sourceKey ?? null,
   }).returning('id').executeTakeFirstOrThrow()
-  await addJob(trx, MAKE_REVISION, { workItemId: id }, { key: jobKey(id) })
+  await addJob(trx, w.task ?? MAKE_REVISION, { workItemId: id }, { key: jobKey(id) })
   return id
 }
 
@@ -86,7 +88,7 @@ export async function reportPhase(db: Db, id: number, p: WorkPhase): Promise<voi
 }
 
 /** In the transaction that writes the work's rows. */
-export async function finishWork(trx: Transaction<Database>, id: number, result: WorkResult): Promise<void> {
+export async function finishWork(trx: Transaction<Database>, id: number, result: WorkResult | SheetWorkResult): Promise<void> {
   await trx.updateTable('work_item')
     .set({ state: 'done', result: JSON.stringify(result), finished_at: new Date(), updated_at: new Date(), ...phase('finished') })
     .where('id', '=', id).execute()

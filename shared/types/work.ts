@@ -3,7 +3,7 @@
 export const WORK_STATES = ['queued', 'running', 'done', 'failed'] as const
 export type WorkState = (typeof WORK_STATES)[number]
 
-export const WORK_KINDS = ['upload', 'revise'] as const
+export const WORK_KINDS = ['upload', 'revise', 'cut-sheet'] as const
 export type WorkKind = (typeof WORK_KINDS)[number]
 
 /** The steps of making a revision, in order, with the share of the work done when each begins. */
@@ -18,6 +18,8 @@ export const WORK_PHASES = {
 export type WorkPhase = keyof typeof WORK_PHASES
 
 export interface WorkResult { artworkId: number; revisionId: number }
+/** What building a cut sheet leaves: the kept set's content key and how many sheets it has. */
+export interface SheetWorkResult { sheetKey: string; sheets: number }
 export interface WorkError { status: number; message: string; data?: unknown }
 
 export interface WorkItemView {
@@ -27,7 +29,7 @@ export interface WorkItemView {
   phase: WorkPhase
   percent: number
   attempts: number
-  result: WorkResult | null
+  result: WorkResult | SheetWorkResult | null
   error: WorkError | null
   createdAt: string
   finishedAt: string | null

@@ -3,8 +3,10 @@
 // and weeding lines read back from the DXF by outside libraries, and sheets kept by content.
 import { execFileSync } from 'node:child_process'
 import { existsSync } from 'node:fs'
-import { beforeAll, describe, expect, it } from 'vitest'
+import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { hashPassword } from '../../server/platform/passwords'
+import { configurePlatform } from '../../server/platform/config'
+import { KEPT_SHEET_MAX_AGE_S, sweepKeptSheets } from '../../server/jobs/sheets'
 import { ApiClient, signedIn } from '../support/client'
 import { testDb } from '../support/db'
 import { addArtwork, addRobot, buildProgram, type ProgramFixture } from '../support/fixtures'
@@ -238,5 +240,55 @@ describe('the sheets', () => {
     const changed = await file(operator, `/api/jobs/${job}/cut-sheet.svg?gap=4`)
     expect(changed.from).toBe('built')
     expect(changed.body.match(/<use id="dw-copy-/g)).toHaveLength(3)
+  })
+
+  it('are removed by the sweep once nothing can ask for them: jobs changed, cancelled, cut, a batch changed, or too old; a current sheet stays', async () => {
+    // The sweep runs here, in the test's process, against the run's PostgreSQL and s3rver.
+    const c = inject('s3')
+    configurePlatform({
+      databaseUrl: '', s3: { ...c, region: 'us-east-1', forcePathStyle: true }, smtpUrl: '', mailFrom: 'Decalwright <decalwright@tests.example>', mailOutboxDir: '', baseUrl: 'http://decalwright.test',
+    })
+    const db = testDb()
+    const sheetKeys = async () => (await allKeys()).filter((k) => k.startsWith('cut-sheets/'))
+    const before = new Set(await sheetKeys())
+    /** Asks for a sheet and answers the one new set of kept files it made. */
+    const newSet = async (path: string) => {
+      const r = await file(operator, path)
+      expect(r.status, r.body.slice(0, 200)).toBe(200)
+      const keys = await sheetKeys()
+      const fresh = [...new Set(keys.filter((k) => !before.has(k)).map((k) => k.split('/')[1]!))]
+      for (const k of keys) before.add(k)
+      expect(fresh).toHaveLength(1)
+      return fresh[0]!
+    }
+    const kept = async (set: string) => (await allKeys()).filter((k) => k.startsWith(`cut-sheets/${set}/`)).length
+
+    const current = await queued(program, square.revisionId, 22, 2)
+    const currentSet = await newSet(`/api/jobs/${current}/cut-sheet.svg?gap=3.5`)
+    const changed = await queued(program, square.revisionId, 22, 2)
+    const changedSet = await newSet(`/api/jobs/${changed}/cut-sheet.svg?gap=3.5`)
+    await db.updateTable('job').set({ quantity: 4 }).where('id', '=', changed).execute()
+    const cancelled = await queued(program, square.revisionId, 22, 1)
+    const cancelledSet = await newSet(`/api/jobs/${cancelled}/cut-sheet.dxf?gap=3.5`)
+    await db.updateTable('job').set({ state: 'cancelled', cancelled_at: new Date(), cancel_reason: 'test' }).where('id', '=', cancelled).execute()
+    const [a, b] = [await queued(program, square.revisionId, 22, 1), await queued(program, ell.revisionId, 30, 1)]
+    const batch = (await operator.post('/api/batches', { jobIds: [a, b] })).body as { id: number }
+    const batchSet = await newSet(`/api/batches/${batch.id}/cut-sheet.svg?gap=3.5`)
+    expect((await operator.request('DELETE', `/api/batches/${batch.id}/jobs/${b}`)).status).toBe(200)
+    const cut = await queued(program, ell.revisionId, 30, 1)
+    const cutSet = await newSet(`/api/jobs/${cut}/cut-sheet.svg?gap=3.5`)
+    expect((await operator.post(`/api/jobs/${cut}/state`, { state: 'cut', sheetsUsed: 0 })).status, 'mark cut').toBeLessThan(300)
+    for (const set of [currentSet, changedSet, cancelledSet, batchSet, cutSet]) expect(await kept(set), set).toBeGreaterThanOrEqual(3)
+
+    await sweepKeptSheets(db)
+    expect(await kept(currentSet)).toBe(3)
+    for (const set of [changedSet, cancelledSet, batchSet, cutSet]) expect(await kept(set), set).toBe(0)
+    // Still read back from the store, not built again.
+    expect((await file(operator, `/api/jobs/${current}/cut-sheet.dxf?gap=3.5`)).from).toBe('store')
+
+    // Past the stated age even a current sheet goes; asking again builds it anew.
+    await sweepKeptSheets(db, { now: new Date(Date.now() + (KEPT_SHEET_MAX_AGE_S + 60) * 1000) })
+    expect(await kept(currentSet)).toBe(0)
+    expect((await file(operator, `/api/jobs/${current}/cut-sheet.svg?gap=3.5`)).from).toBe('built')
   })
 })

@@ -100,8 +100,32 @@ describe('the work queue', () => {
     const placed = await mentorA.post('/api/placements', { robotId: robot.body.id, revisionId: rev.body.id, filmId: pet.id, spot: 'rear bumper', widthMm: 40, quantity: 2 })
     expect(placed.status, JSON.stringify(placed.body)).toBe(201)
     const operatorB = await signedIn(DEMO_ACCOUNTS.operator.email, DEMO_PASSWORD, { baseUrl: b.baseUrl })
-    const sheet = await operatorB.request('GET', `/api/jobs/${placed.body.jobs[0].id}/cut-sheet.svg`)
+    const jobId = placed.body.jobs[0].id
+    const sheet = await operatorB.request('GET', `/api/jobs/${jobId}/cut-sheet.svg`)
     expect(sheet.status).toBe(200)
+    // Built as a work item by whoever took it (the apps asked run none), waited for by the request.
+    expect(sheet.headers.get('x-sheet-from')).toBe('built')
+    const operatorId = (await testDb().selectFrom('users').select('id').where('email', '=', DEMO_ACCOUNTS.operator.email).executeTakeFirstOrThrow()).id
+    const sheetItem = await testDb().selectFrom('work_item').select(['state', 'attempts', 'result']).where('kind', '=', 'cut-sheet').where('asked_by', '=', operatorId)
+      .orderBy('id', 'desc').executeTakeFirstOrThrow()
+    expect(sheetItem).toMatchObject({ state: 'done', attempts: 1, result: { sheets: 1 } })
+
+    // Asked at one app without waiting (as the job page asks), followed at the other, then read back from the store at either.
+    const operatorA = await signedIn(DEMO_ACCOUNTS.operator.email, DEMO_PASSWORD, { baseUrl: a.baseUrl })
+    const asked = await operatorA.request('GET', `/api/jobs/${jobId}/cut-sheet.dxf?gap=6`, undefined, { prefer: 'respond-async' })
+    expect(asked.status, JSON.stringify(asked.body)).toBe(202)
+    expect(asked.headers.get('location')).toBe(`/api/work/${asked.body.workItem.id}`)
+    expect(asked.body.workItem).toMatchObject({ kind: 'cut-sheet' })
+    const built = await until('the cut sheet to be built', async () => {
+      const w = await operatorB.get(`/api/work/${asked.body.workItem.id}`)
+      return w.body.state === 'done' || w.body.state === 'failed' ? w.body : undefined
+    })
+    expect(built).toMatchObject({ state: 'done', phase: 'finished', percent: 100, result: { sheets: 1 } })
+    for (const [client, format] of [[operatorA, 'dxf'], [operatorB, 'svg']] as const) {
+      const kept = await client.request('GET', `/api/jobs/${jobId}/cut-sheet.${format}?gap=6`, undefined, { prefer: 'respond-async' })
+      expect(kept.status, format).toBe(200)
+      expect(kept.headers.get('x-sheet-from'), format).toBe('store')
+    }
   }, 180_000)
 
   it('answers 202 with the work item when the work outlasts the wait, and the item then shows the result', async () => {

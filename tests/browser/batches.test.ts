@@ -21,7 +21,7 @@ let program: ProgramFixture
 let jobs: number[]
 
 /** Prints the page to PDF as Chromium does (print media, the page's @page rules) and reads it back with poppler-utils. */
-async function printed(page: Page, name: string, format: 'A4' | 'Letter') {
+async function printed(page: Page, name: string, format: 'A4' | 'Letter', onPage?: number) {
   for (const tool of ['/usr/bin/pdfinfo', '/usr/bin/pdftotext']) {
     if (!existsSync(tool)) throw new Error(`${tool} is missing: the printed sheet is read back with it. Install it with: apt-get install poppler-utils`)
   }
@@ -30,8 +30,33 @@ async function printed(page: Page, name: string, format: 'A4' | 'Letter') {
   await page.pdf({ path: file, format, preferCSSPageSize: true })
   const info = execFileSync('/usr/bin/pdfinfo', [file]).toString('utf8')
   const pages = Number(/^Pages:\s+(\d+)/m.exec(info)?.[1])
-  const text = execFileSync('/usr/bin/pdftotext', ['-layout', file, '-']).toString('utf8')
+  const range = onPage ? ['-f', String(onPage), '-l', String(onPage)] : []
+  const text = execFileSync('/usr/bin/pdftotext', ['-layout', ...range, file, '-']).toString('utf8')
   return { pages, text }
+}
+
+/**
+ * Dark pixels of the on-screen sheet picture drawn at two widths. Lines drawn in millimetres
+ * (hair-lines) grow in length and width with the picture, so their ink grows with the square
+ * of its size, and a 0.1 mm line on a 300 mm sheet shown 300 px wide is too faint to count;
+ * lines of a fixed width in screen pixels grow only in length.
+ */
+function previewInk(page: Page, widths: number[]) {
+  return page.locator('[data-test="cut-sheet-image"]').evaluate(async (img: HTMLImageElement, ws: number[]) => {
+    await img.decode()
+    return ws.map((w) => {
+      const h = Math.round((w * img.naturalHeight) / img.naturalWidth)
+      const canvas = Object.assign(document.createElement('canvas'), { width: w, height: h })
+      const g = canvas.getContext('2d')!
+      g.fillStyle = 'white'
+      g.fillRect(0, 0, w, h)
+      g.drawImage(img, 0, 0, w, h)
+      const px = g.getImageData(0, 0, w, h).data
+      let dark = 0
+      for (let i = 0; i < px.length; i += 4) if (px[i]! + px[i + 1]! + px[i + 2]! < 3 * 128) dark++
+      return dark
+    })
+  }, widths)
 }
 
 /** What only the screen shows: the navigation, the footer, buttons and forms. */
@@ -104,5 +129,47 @@ describe('the operator\'s sheet', () => {
     await page.locator('[data-test="batch-state"]', { hasText: 'Cut' }).waitFor()
     const states = await testDb().selectFrom('job').select('state').where('id', 'in', jobs).execute()
     expect(states.map((s) => s.state)).toEqual(['cut', 'cut'])
+  })
+
+  it('prints every sheet of a job on a page of its own, to scale, and shows the sheet with lines a person can see', async () => {
+    const db = testDb()
+    const art = await db.selectFrom('placement').select('revision_id').innerJoin('job', 'job.placement_id', 'placement.id').where('job.id', '=', jobs[0]!).executeTakeFirstOrThrow()
+    const robot = await addRobot(db, program.teams[0].id)
+    // 120 mm copies: two side by side on the fixture's 300 × 200 mm sheet, one row; three copies take two sheets.
+    const p = await db.insertInto('placement').values({ robot_id: robot, revision_id: art.revision_id, film_id: program.films.pet, spot: 'side', width_mm: 120, quantity: 3, created_by: program.mentor })
+      .returning('id').executeTakeFirstOrThrow()
+    const big = (await db.insertInto('job').values({ placement_id: p.id, kind: 'initial', quantity: 3, film_id: program.films.pet, width_mm: 120, created_by: program.mentor })
+      .returning('id').executeTakeFirstOrThrow()).id
+    const page = await tabletPage('')
+    await signInThroughForm(page, program.emails.get(program.teams[0].operator)!, PASSWORD)
+    await page.waitForURL((u) => u.pathname !== '/sign-in')
+    await page.goto(new URL(`/lab/jobs/${big}?frame=2`, page.url()).toString(), { waitUntil: 'networkidle' })
+    await page.locator('[data-test="sheet-picker"]').waitFor()
+
+    const image = page.locator('[data-test="cut-sheet-image"]')
+    await expect.poll(() => image.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth), { timeout: 30_000 }).toBeGreaterThan(0)
+    await screenshot(page, 'job-two-sheets')
+    const [small, large] = await previewInk(page, [300, 900])
+    expect(small).toBeGreaterThan(200)
+    // Three times the width: about three times the ink for pixel-wide lines, nine for lines in mm.
+    expect(large! / small!).toBeLessThan(4.5)
+    await expect(page.locator('[data-test="sheet-legend"]').textContent()).resolves.toMatch(/Copy outline \(cut\)[\s\S]*Weeding frame \(cut\)[\s\S]*Copy id/)
+
+    for (const format of ['A4', 'Letter'] as const) {
+      const all = await printed(page, 'job-two-sheets', format)
+      expect(all.pages).toBe(2)
+      const first = await printed(page, 'job-two-sheets', format, 1)
+      expect(first.text).toContain(`Job ${big}: job sheet`)
+      expect(first.text).toMatch(/Sheet 1 of 2, 300 × 200 mm, drawn at 1 : 2\b/)
+      expect(first.text).toContain(`${big}-1`)
+      expect(first.text).not.toContain('Sheet 2 of 2')
+      const second = await printed(page, 'job-two-sheets', format, 2)
+      expect(second.text).toContain(`Job ${big}: sheet 2 of 2`)
+      // With the page to itself the drawing still fits 1 : 2 at most; the bar says what it measures.
+      expect(second.text).toMatch(/Sheet 2 of 2, 300 × 200 mm, drawn at 1 : (1\.5|2)\b/)
+      expect(second.text).toContain('mm on the film')
+      expect(second.text).toContain(`${big}-3`)
+      for (const words of SCREEN_ONLY) expect(all.text).not.toContain(words)
+    }
   })
 })

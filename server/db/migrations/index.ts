@@ -12,6 +12,7 @@ import * as m0010 from './0010_batches'
 import * as m0011 from './0011_plates'
 import * as m0012 from './0012_work'
 import * as m0013 from './0013_layers'
+import * as m0014 from './0014_cut_sheet_work'
 import * as m0015 from './0015_event_kit'
 
 // A static list: a bundled server cannot read a folder of migration files.
@@ -30,5 +31,6 @@ export const migrations: Record<string, Migration> = {
   '0011_plates': m0011,
   '0012_work': m0012,
   '0013_layers': m0013,
+  '0014_cut_sheet_work': m0014,
   '0015_event_kit': m0015,
 }

@@ -5,6 +5,7 @@ import { readCleanVector } from '../../../server/cutsheet/path'
 import { buildCutSheets, type BatchSheetInput } from '../../../server/cutsheet/sheet'
 import { testGrid } from '../../../server/cutsheet/test-grid'
 import { runCutSheetRequest } from '../../../server/cutsheet/worker'
+import { packCurves } from '../../../server/cutsheet/curve-buffer'
 import { L_BOX, L_PATH, svgMm } from './shapes'
 
 const L = readCleanVector(svgMm(L_BOX.width, L_BOX.height, [L_PATH]))
@@ -24,6 +25,22 @@ describe('runCutSheetRequest', () => {
     expect(bytes).toHaveLength(2 * direct.sheets.length)
     // structuredClone is the algorithm postMessage uses between threads (HTML Living Standard).
     expect(structuredClone(answer)).toEqual(answer)
+  })
+
+  it('answers the same bytes whether the curves come as objects, packed in a typed array, or as the stored vector read in the thread', () => {
+    const text = new TextDecoder()
+    const files = (r: ReturnType<typeof runCutSheetRequest>) => {
+      const a = r.answer
+      if (!a.ok || a.kind === 'pack' || a.kind === 'test-grid') throw new Error(`expected sheets, got ${JSON.stringify(a)}`)
+      return a.result.sheets.map((s) => [text.decode(s.svg), text.decode(s.dxf)])
+    }
+    const objects = files(runCutSheetRequest({ kind: 'batch', input: structuredClone(input) }))
+    const packed = files(runCutSheetRequest({ kind: 'batch-packed', input: { ...input, designs: input.designs.map(({ curves, ...d }) => ({ ...d, packed: packCurves(curves) })) } }))
+    // The stored vector drawn twice as large, placed at the L's own width: the thread scales it back.
+    const stored = new TextEncoder().encode(svgMm(L_BOX.width * 2, L_BOX.height * 2, [L_PATH.replace(/-?\d+(\.\d+)?/g, (n) => String(Number(n) * 2))]))
+    const vectors = files(runCutSheetRequest({ kind: 'batch-vectors', input: { ...input, designs: input.designs.map(({ curves: _c, heightMm: _h, ...d }) => ({ ...d, vector: stored })) } }))
+    expect(packed).toEqual(objects)
+    expect(vectors).toEqual(objects)
   })
 
   it('answers a test grid, and turns refused input into a plain answer', () => {

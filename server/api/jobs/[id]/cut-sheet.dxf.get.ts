@@ -9,5 +9,5 @@ export default defineEventHandler(async (event) => {
   const db = useDb()
   const job = authorize(actor, 'job.view', await findJob(db, actor, idParam(event)), 'No such job.')
   const { sheet = 1, ...options } = readQuery(event, cutSheetQuerySchema)
-  return sendSheetFile(event, await jobSheetFile(db, actor, job, options, 'dxf', sheet), 'dxf', sheet)
+  return answerSheet(event, actor, () => jobSheetFile(db, actor, job, options, 'dxf', sheet), 'dxf', sheet)
 })
