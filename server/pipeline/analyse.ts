@@ -17,7 +17,7 @@ import {
   chroma, colourName, colourOfDensity, densityReader, densityDirection, densityGrey, estimatePaperColour, fromHex,
   hue, orthonormal, toHex, type PaperColour, type Rgb,
 } from './colour'
-import { findPieces, inkBox, type Box, type Piece } from './components'
+import { inkBox, piecesOf, type Box, type Piece } from './components'
 import { fromSheet, sourceFrame, turnFrame, type Frame } from './frame'
 import { multiply, scaling, warpBilinear, type Pt } from './homography'
 import { paperEstimate } from './lighting'
@@ -278,15 +278,20 @@ function linesWords(families: LineFamily[]): string {
 
 /** Evened luma: the image divided by the paper's brightness, blended by strength (as lighting evening). */
 export function evenWithMap(grey: Uint8Array, paper: Uint8Array, strength: number): Uint8Array {
-  const out = new Uint8Array(grey.length)
+  // Every (grey, paper) pair's result once, in a 256 × 256 table: on a prepared grid of
+  // millions of pixels a look-up is several times quicker than the division.
+  const table = new Uint8Array(65536)
   const keep = 1 - strength
-  for (let i = 0; i < grey.length; i++) {
-    const g = grey[i]!
-    let e = (g * 255) / (paper[i]! || 1)
-    if (e > 255) e = 255
-    const v = keep * g + strength * e
-    out[i] = v >= 255 ? 255 : Math.round(v)
+  for (let p = 0; p < 256; p++) {
+    for (let g = 0; g < 256; g++) {
+      let e = (g * 255) / (p || 1)
+      if (e > 255) e = 255
+      const v = keep * g + strength * e
+      table[(p << 8) | g] = v >= 255 ? 255 : Math.round(v)
+    }
   }
+  const out = new Uint8Array(grey.length)
+  for (let i = 0; i < grey.length; i++) out[i] = table[(paper[i]! << 8) | grey[i]!]!
   return out
 }
 
@@ -663,7 +668,7 @@ export function finishAnalysis(r: SheetReading, input: Pick<AnalysisInput, 'sett
     // A first look at the drawing's extent with one level, for the adaptive window's size.
     const first = applyThreshold(grey, w, h, { mode: 'otsu' }, 1).bitmap
     if (s.swapInkAndPaper) for (let i = 0; i < n; i++) first[i] = 1 - first[i]!
-    const box = inkBox(findPieces(first, w, h).pieces, Math.max(2, 1e-5 * n))
+    const box = inkBox(piecesOf(first, w, h), Math.max(2, 1e-5 * n))
     pxPerMm = box ? (box.x1 - box.x0 + 1) / input.widthMm : w / input.widthMm
   }
   const { bitmap } = applyThreshold(grey, w, h, threshold.value, pxPerMm)
@@ -672,7 +677,7 @@ export function finishAnalysis(r: SheetReading, input: Pick<AnalysisInput, 'sett
   const t1 = performance.now()
   let inkPixels = 0
   for (let i = 0; i < n; i++) inkPixels += bitmap[i]!
-  const found = findPieces(bitmap, w, h)
+  const found = { pieces: piecesOf(bitmap, w, h) }
   let box: Box | null = null
   for (let round = 0; round < 2; round++) {
     const speck = Math.max(1, s.speckFilterMm2 * pxPerMm * pxPerMm)

@@ -20,7 +20,7 @@ import type { CleanUpChoice } from '../../shared/types/pipeline'
 import { preparedSize, type PreparedSize } from '../../shared/utils/units'
 import { ANALYSIS_SIDE, applyThreshold, evenWithMap, finishAnalysis, readingKey, readSheet, type Analysis, type SheetReading } from './analyse'
 import { densityGrey } from './colour'
-import { findPieces, inkBox } from './components'
+import { inkBox, piecesOf } from './components'
 import { NotADrawingError, PrepareError } from './errors'
 import { sourceBox } from './frame'
 import { multiply, scaleBilinear, scaling, translation, warpBilinear } from './homography'
@@ -171,7 +171,7 @@ function thickenToWidth(bitmap: Uint8Array, width: number, height: number, toMm:
   const speck = Math.max(1, speckFilterMm2 * pxPerMm * pxPerMm)
   let px = toMm * pxPerMm
   if (drawingWidthMm !== null) {
-    const box = inkBox(findPieces(bitmap, width, height).pieces, speck)
+    const box = inkBox(piecesOf(bitmap, width, height), speck)
     if (box) px = (toMm * (box.x1 - box.x0 + 2)) / Math.max(drawingWidthMm / 2, drawingWidthMm - toMm)
   }
   // One pixel more: the tracer's polygon lies within half a pixel of the bitmap's edges on each
@@ -334,7 +334,7 @@ async function prepare(
   const density = analysis.reading === 'density'
   if (frame.identity) {
     rgb = await source.rgb(region, workW, workH)
-    if (!density) grey = toGrey(rgb, workW, workH, 3, settings.luma)
+    if (!density) { grey = toGrey(rgb, workW, workH, 3, settings.luma); rgb = null }
   } else {
     const b = sourceBox(frame, region.left, region.top, region.left + region.width, region.top + region.height)
     const sx0 = Math.max(0, Math.floor(b.x0) - 2), sy0 = Math.max(0, Math.floor(b.y0) - 2)
@@ -364,11 +364,15 @@ async function prepare(
   }
   if (density) grey = densityGrey(rgb!, n, { paper: analysis.paper, paperLuma, dropped: analysis.dropped, strength: evening })
   else if (paperLuma) grey = evenWithMap(grey!, paperLuma, evening)
+  // Each full-size buffer is let go as soon as it is used: four 48 MP uploads at once must fit.
+  rgb = null
+  paperLuma = null
   const t4 = performance.now()
 
   const histogram = makeHistogram(grey!)
   const thresholded = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork)
   const level = thresholded.level
+  grey = new Uint8Array(0)
   let workBitmap = thresholded.bitmap
   if (settings.swapInkAndPaper) for (let i = 0; i < n; i++) workBitmap[i] = 1 - workBitmap[i]!
   if (analysis.removeLines) {
@@ -395,7 +399,7 @@ async function prepare(
   })
   if (widthOf === 'drawing') {
     const speck = Math.max(1, settings.speckFilterMm2 * pxPerMmWork * pxPerMmWork)
-    const box = inkBox(findPieces(workBitmap, workW, workH).pieces, speck)
+    const box = inkBox(piecesOf(workBitmap, workW, workH), speck)
     if (!box) {
       throw new NotADrawingError('blank', 'No drawing was found at this size: every piece of ink is smaller than the speck filter. Make the decal larger or lower the speck filter.')
     }
