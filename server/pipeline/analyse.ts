@@ -384,19 +384,38 @@ function pieceFacts(pieces: readonly Piece[], minArea: number, pxPerMm: number):
   return { pieces: count, small, smallInkShare: area ? smallArea / area : 0 }
 }
 
-function hueSpread(rgb: Uint8Array, bitmap: Uint8Array, paper: PaperColour, standard: PipelineSettings['luma']): number {
-  const k = LUMA[standard]
+/** Each pixel's bin of hueSpread's histogram (NO_HUE where too dark to have one), per image. */
+const hueBinsOf = new WeakMap<Uint8Array, { key: string, bins: Uint8Array }>()
+const NO_HUE = 255
+
+function hueBins(rgb: Uint8Array, paper: PaperColour, standard: PipelineSettings['luma']): Uint8Array {
   const [pr, pg, pb] = paper.ratio
-  const hist = new Uint32Array(200)
-  let n = 0
-  for (let i = 0, j = 0; i < bitmap.length; i++, j += 3) {
-    if (bitmap[i]) continue
+  const key = `${pr} ${pg} ${pb} ${standard}`
+  const kept = hueBinsOf.get(rgb)
+  if (kept?.key === key) return kept.bins
+  const k = LUMA[standard]
+  const bins = new Uint8Array(rgb.length / 3)
+  for (let i = 0, j = 0; i < bins.length; i++, j += 3) {
     const l = k.r * rgb[j]! + k.g * rgb[j + 1]! + k.b * rgb[j + 2]!
-    if (l < 16) continue
+    if (l < 16) { bins[i] = NO_HUE; continue }
     // (a square root of the sum rather than Math.hypot: the same distance, several times quicker)
     const dr = rgb[j]! / l - pr, dg = rgb[j + 1]! / l - pg, db = rgb[j + 2]! / l - pb
     const d = Math.sqrt(dr * dr + dg * dg + db * db)
-    hist[Math.min(199, Math.floor(d * 200))]!++
+    bins[i] = Math.min(199, Math.floor(d * 200))
+  }
+  // Kept with the image: previews of one sheet reading change only the bitmap.
+  hueBinsOf.set(rgb, { key, bins })
+  return bins
+}
+
+function hueSpread(rgb: Uint8Array, bitmap: Uint8Array, paper: PaperColour, standard: PipelineSettings['luma']): number {
+  const bins = hueBins(rgb, paper, standard)
+  const hist = new Uint32Array(200)
+  let n = 0
+  for (let i = 0; i < bitmap.length; i++) {
+    const b = bins[i]!
+    if (bitmap[i] || b === NO_HUE) continue
+    hist[b]!++
     n++
   }
   let acc = 0
