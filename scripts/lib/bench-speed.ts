@@ -167,7 +167,8 @@ async function memoryOf48(): Promise<number | null> {
 }
 
 export async function benchSpeed(runs: number): Promise<void> {
-  console.log('\nSpeed targets (scripts/lib/bench-speed.ts), ratios to floors measured in this run, medians:')
+  // The absolute targets (measurements, preview) move with the machine's load; the ratios less so.
+  console.log(`\nSpeed targets (scripts/lib/bench-speed.ts), ratios to floors measured in this run, medians; load average ${os.loadavg()[0]!.toFixed(1)} on ${os.availableParallelism()} cores:`)
   if (!existsSync(POTRACE)) {
     console.log('  Debian potrace is not installed (apt-get install potrace): the floors need it.')
     return
