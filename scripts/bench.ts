@@ -24,6 +24,7 @@ import { benchColour } from './lib/bench-colour'
 import { benchCleanup } from './lib/bench-cleanup'
 import { benchTrust } from './lib/bench-trust'
 import { benchQueue } from './lib/bench-queue'
+import { benchSpeed } from './lib/bench-speed'
 
 const RUNS = Number(process.env.BENCH_RUNS ?? 5)
 const WIDTH_MM = 150
@@ -181,6 +182,7 @@ async function main() {
   await benchCleanup(RUNS)
   await benchTrust()
   await benchQueue(RUNS)
+  await benchSpeed(RUNS)
 
   // The tuning bench, end to end in a real browser (skip with BENCH_BROWSER=0).
   if (process.env.BENCH_BROWSER !== '0') {

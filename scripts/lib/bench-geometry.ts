@@ -46,7 +46,7 @@ function timed(runs: number, f: () => void): number {
  * Ours and the floor, run in turn (so both meet the same load), `runs` times: the medians of
  * each and of their ratios.
  */
-function sideBySide(runs: number, ours: () => void, floor: () => void): { ours: number; floor: number; ratio: number } {
+export function sideBySide(runs: number, ours: () => void, floor: () => void): { ours: number; floor: number; ratio: number } {
   const a: number[] = [], b: number[] = [], r: number[] = []
   for (let i = 0; i < runs; i++) {
     const x = once(ours), y = once(floor)
@@ -73,7 +73,7 @@ function lcg(seed: number): () => number {
 }
 
 /** An A4 page of 3.5 mm text at 10 px/mm. */
-function textPage(): Promise<TraceInput> {
+export function textPage(): Promise<TraceInput> {
   let lines = ''
   for (let i = 0; i < 52; i++) {
     lines += `<text x="150" y="${200 + i * 52}" font-family="DejaVu Serif" font-size="38">Line ${i + 1}: a hand-lettered decal for the robot's left side panel, team number and name.</text>`
@@ -82,7 +82,7 @@ function textPage(): Promise<TraceInput> {
 }
 
 /** 2,000 dots of 0.8–2.4 mm on a 200 mm square at 10 px/mm. */
-function dots(): Promise<TraceInput> {
+export function dots(): Promise<TraceInput> {
   const rnd = lcg(11)
   let body = ''
   for (let i = 0; i < 2000; i++) body += `<circle cx="${(40 + rnd() * 1920).toFixed(1)}" cy="${(40 + rnd() * 1920).toFixed(1)}" r="${(4 + rnd() * 8).toFixed(1)}"/>`
@@ -123,7 +123,7 @@ function toPbm(b: TraceInput): Buffer {
  * Debian's potrace on the bitmap with our parameters, including process start and SVG output:
  * a function that runs it once, and one that removes its files.
  */
-function potraceRunner(b: TraceInput): { run: () => void; done: () => void } {
+export function potraceRunner(b: TraceInput): { run: () => void; done: () => void } {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'dw-bench-geometry-'))
   const pbm = path.join(dir, 'in.pbm')
   writeFileSync(pbm, toPbm(b))

@@ -216,13 +216,27 @@ export function scaleBilinear(src: Uint8Array, sw: number, sh: number, outToIn: 
   }
   const X = axis(dw, sx, tx, sw), Y = axis(dh, sy, ty, sh)
   const out = new Uint8Array(dw * dh)
-  for (let v = 0; v < dh; v++) {
-    const r0 = Y.i0[v]! * sw, r1 = Y.i1[v]! * sw, fy = Y.f[v]!
+  // Each source row interpolated across once, and kept while output rows still read it: an
+  // enlargement reads the same pair of rows for several output rows in turn.
+  let rowA = -1, rowB = -1
+  let bufA = new Float64Array(dw), bufB = new Float64Array(dw)
+  const across = (r: number, buf: Float64Array) => {
+    const base = r * sw
     for (let u = 0; u < dw; u++) {
-      const a = X.i0[u]!, c = X.i1[u]!, fx = X.f[u]!
-      const top = src[r0 + a]! + (src[r0 + c]! - src[r0 + a]!) * fx
-      const bottom = src[r1 + a]! + (src[r1 + c]! - src[r1 + a]!) * fx
-      out[v * dw + u] = Math.round(top + (bottom - top) * fy)
+      const a = src[base + X.i0[u]!]!
+      buf[u] = a + (src[base + X.i1[u]!]! - a) * X.f[u]!
+    }
+  }
+  for (let v = 0; v < dh; v++) {
+    const r0 = Y.i0[v]!, r1 = Y.i1[v]!, fy = Y.f[v]!
+    if (rowA !== r0) {
+      if (rowB === r0) { const t = bufA; bufA = bufB; bufB = t; rowB = rowA; rowA = r0 } else { across(r0, bufA); rowA = r0 }
+    }
+    if (rowB !== r1) { across(r1, bufB); rowB = r1 }
+    const o = v * dw
+    for (let u = 0; u < dw; u++) {
+      const top = bufA[u]!
+      out[o + u] = Math.round(top + (bufB[u]! - top) * fy)
     }
   }
   return out

@@ -20,13 +20,14 @@ import type { CleanUpChoice } from '../../shared/types/pipeline'
 import { preparedSize, type PreparedSize } from '../../shared/utils/units'
 import { ANALYSIS_SIDE, applyThreshold, evenWithMap, finishAnalysis, readingKey, readSheet, type Analysis, type SheetReading } from './analyse'
 import { densityGrey } from './colour'
-import { findPieces, inkBox } from './components'
+import { inkBox, piecesOf } from './components'
 import { NotADrawingError, PrepareError } from './errors'
 import { sourceBox } from './frame'
 import { multiply, scaleBilinear, scaling, translation, warpBilinear } from './homography'
 import { mapFamily, removeLines } from './lines'
 import { toGrey } from './luma'
 import { histogram as makeHistogram } from './otsu'
+import { bilevelPng } from './png'
 import { thickenStrokes } from './thicken'
 import { parseSettings, type PipelineSettings, type PipelineSettingsInput } from '../../shared/utils/settings'
 
@@ -102,13 +103,12 @@ function asU8(b: Buffer): Uint8Array {
   return new Uint8Array(b.buffer, b.byteOffset, b.length)
 }
 
-/** 1-bit ink/paper bitmap (1 = ink) as a black-on-white 2-colour PNG. */
+/**
+ * 1-bit ink/paper bitmap (1 = ink) as a black-on-white 2-colour PNG (png.ts). Previews ask for
+ * the fastest compression; stored bitmaps for a smaller file (a few milliseconds more).
+ */
 export async function bitmapToPng(bitmap: Uint8Array, width: number, height: number, fast = false): Promise<Buffer> {
-  const grey = new Uint8Array(bitmap.length)
-  for (let i = 0; i < bitmap.length; i++) grey[i] = bitmap[i] ? 0 : 255
-  const img = sharp(grey, { raw: { width, height, channels: 1 } }).toColourspace('b-w')
-  // Stored bitmaps: a 2-colour palette, packed small. Previews: plain grey, quick to write.
-  return (fast ? img.png({ compressionLevel: 1, adaptiveFiltering: false }) : img.png({ palette: true, colours: 2, dither: 0, compressionLevel: 9 })).toBuffer()
+  return bilevelPng(bitmap, width, height, fast ? 1 : 6)
 }
 
 interface Rect { left: number, top: number, width: number, height: number }
@@ -171,7 +171,7 @@ function thickenToWidth(bitmap: Uint8Array, width: number, height: number, toMm:
   const speck = Math.max(1, speckFilterMm2 * pxPerMm * pxPerMm)
   let px = toMm * pxPerMm
   if (drawingWidthMm !== null) {
-    const box = inkBox(findPieces(bitmap, width, height).pieces, speck)
+    const box = inkBox(piecesOf(bitmap, width, height), speck)
     if (box) px = (toMm * (box.x1 - box.x0 + 2)) / Math.max(drawingWidthMm / 2, drawingWidthMm - toMm)
   }
   // One pixel more: the tracer's polygon lies within half a pixel of the bitmap's edges on each
@@ -334,7 +334,7 @@ async function prepare(
   const density = analysis.reading === 'density'
   if (frame.identity) {
     rgb = await source.rgb(region, workW, workH)
-    if (!density) grey = toGrey(rgb, workW, workH, 3, settings.luma)
+    if (!density) { grey = toGrey(rgb, workW, workH, 3, settings.luma); rgb = null }
   } else {
     const b = sourceBox(frame, region.left, region.top, region.left + region.width, region.top + region.height)
     const sx0 = Math.max(0, Math.floor(b.x0) - 2), sy0 = Math.max(0, Math.floor(b.y0) - 2)
@@ -364,11 +364,15 @@ async function prepare(
   }
   if (density) grey = densityGrey(rgb!, n, { paper: analysis.paper, paperLuma, dropped: analysis.dropped, strength: evening })
   else if (paperLuma) grey = evenWithMap(grey!, paperLuma, evening)
+  // Each full-size buffer is let go as soon as it is used: four 48 MP uploads at once must fit.
+  rgb = null
+  paperLuma = null
   const t4 = performance.now()
 
   const histogram = makeHistogram(grey!)
   const thresholded = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork)
   const level = thresholded.level
+  grey = new Uint8Array(0)
   let workBitmap = thresholded.bitmap
   if (settings.swapInkAndPaper) for (let i = 0; i < n; i++) workBitmap[i] = 1 - workBitmap[i]!
   if (analysis.removeLines) {
@@ -395,7 +399,7 @@ async function prepare(
   })
   if (widthOf === 'drawing') {
     const speck = Math.max(1, settings.speckFilterMm2 * pxPerMmWork * pxPerMmWork)
-    const box = inkBox(findPieces(workBitmap, workW, workH).pieces, speck)
+    const box = inkBox(piecesOf(workBitmap, workW, workH), speck)
     if (!box) {
       throw new NotADrawingError('blank', 'No drawing was found at this size: every piece of ink is smaller than the speck filter. Make the decal larger or lower the speck filter.')
     }
