@@ -56,17 +56,17 @@ function unwrap<K extends ColourTask['kind']>(a: ColourAnswer, kind: K): TaskRes
   return a.result as TaskResults[K]
 }
 
-/**
- * A layered run through a runner of tasks: `run` hands a task to a worker (e.g. a piscina
- * pool's run) and resolves with its answer. The inks are outlined side by side.
- */
-export async function runColourLayersWith(run: (task: ColourTask) => Promise<ColourAnswer>, req: LayeredRunRequest): Promise<LayeredRunResult> {
-  const t0 = performance.now()
-  const sep = unwrap(await run({ kind: 'separate', req }), 'separate')
+type Run = (task: ColourTask) => Promise<ColourAnswer>
+type Layers = Extract<LayeredRunResult, { kind: 'layers' }>
+
+/** Step 1 through a runner of tasks. */
+export async function separateWith(run: Run, req: LayeredRunRequest): Promise<SeparatedSource> {
+  return unwrap(await run({ kind: 'separate', req }), 'separate')
+}
+
+/** Steps 2 and 3 through a runner of tasks, for a separation already made (two inks or more): the inks are outlined side by side. */
+export async function layersOfSeparation(run: Run, req: LayeredRunRequest, sep: SeparatedSource, t0 = performance.now()): Promise<Layers> {
   const { decodeMs, separateMs } = sep.timings
-  if (sep.inks.length <= 1) {
-    return { kind: 'single', separation: sep.separation, timings: { decodeMs, separateMs, traceMs: 0, cleanMs: 0, stackMs: 0, measureMs: 0, totalMs: performance.now() - t0 } }
-  }
   const outlined = await Promise.all(sep.inks.map(async (ink) => unwrap(await run({
     kind: 'outline', mask: ink.mask, width: sep.width, height: sep.height, pxPerMm: sep.pxPerMm, settings: req.settings, purpose: req.purpose,
   }), 'outline')))
@@ -84,6 +84,20 @@ export async function runColourLayersWith(run: (task: ColourTask) => Promise<Col
     timings: { decodeMs, separateMs, traceMs: sum('traceMs'), cleanMs: sum('cleanMs'), stackMs: assembled.stackMs, measureMs: sum('measureMs'), totalMs: performance.now() - t0 },
     engineVersions: { ...ENGINE_VERSIONS_BASE, sharp: sharp.versions.sharp ?? '', vips: sharp.versions.vips },
   }
+}
+
+/**
+ * A layered run through a runner of tasks: `run` hands a task to a worker (e.g. a piscina
+ * pool's run) and resolves with its answer. The inks are outlined side by side.
+ */
+export async function runColourLayersWith(run: Run, req: LayeredRunRequest): Promise<LayeredRunResult> {
+  const t0 = performance.now()
+  const sep = await separateWith(run, req)
+  const { decodeMs, separateMs } = sep.timings
+  if (sep.inks.length <= 1) {
+    return { kind: 'single', separation: sep.separation, timings: { decodeMs, separateMs, traceMs: 0, cleanMs: 0, stackMs: 0, measureMs: 0, totalMs: performance.now() - t0 } }
+  }
+  return layersOfSeparation(run, req, sep, t0)
 }
 
 /** The layered run in this thread (the inks' outlines still overlap sharp's threads). */
