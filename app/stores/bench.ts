@@ -291,7 +291,7 @@ export const useBenchStore = defineStore('bench', () => {
       if (artwork.value && artwork.value.artwork.id === rev.artworkId) {
         const summary: RevisionSummary = {
           id: rev.id, number: rev.number, status: rev.status, widthMm: rev.widthMm, heightMm: rev.heightMm, drawingWidthMm: rev.drawingWidthMm,
-          createdAt: rev.createdAt, author: rev.author, measurements: rev.measurements,
+          createdAt: rev.createdAt, author: rev.author, measurements: rev.measurements, layerCount: rev.layerCount, layers: rev.layers, colour: rev.colour,
         }
         const revisions = [summary, ...artwork.value.revisions.filter((r) => r.id !== rev.id)].sort((a, b) => b.number - a.number)
         artwork.value = {

@@ -69,14 +69,14 @@ export function layerObjects(result: Layers): { layers: LayerFiles[]; stacked: s
  * area; the size of the framed canvas every layer shares. The grey threshold is the one-colour
  * clean-up's (the starting point if the designer goes back to one colour).
  */
-export function totalMeasurements(layers: LayerResult[], threshold: number): Measurements {
+export function totalMeasurements(layers: LayerResult[], frame: { widthMm: number; heightMm: number }, threshold: number): Measurements {
   const m = layers.map((l) => l.measurements)
   const sum = (k: 'inkAreaMm2' | 'cutLengthMm' | 'pieces' | 'holes' | 'nodes' | 'smallPieces') => m.reduce((s, x) => s + x[k], 0)
   const narrow = m.map((x) => x.narrowestFeatureMm).filter((x): x is number => x !== null)
   const area = sum('inkAreaMm2')
   const round = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d
   return {
-    widthMm: m[0]!.widthMm, heightMm: m[0]!.heightMm,
+    widthMm: frame.widthMm, heightMm: frame.heightMm,
     inkAreaMm2: round(area, 2), cutLengthMm: round(sum('cutLengthMm'), 2),
     pieces: sum('pieces'), holes: sum('holes'), nodes: sum('nodes'),
     narrowestFeatureMm: narrow.length ? Math.min(...narrow) : null,

@@ -12,8 +12,9 @@ import { flags, type Actor, type TeamSubject } from '../policy'
 import { audit } from '../history/service'
 import { addWork, finishWork, reportPhase, type BegunWork } from '../work/items'
 import type { WorkResult } from '#shared/types/work'
+import type { RevisionColour, RevisionLayerInfo } from '#shared/types/layers'
 import { reviewHistory } from '../review/queries'
-import { artworkCount, artworkPage, findArtwork, findRevision, lastDecision, latestSource, placementsOfArtwork, revisionsOf, type ArtworkFilter, type ArtworkRow, type RevisionRow } from './queries'
+import { artworkCount, artworkPage, findArtwork, findRevision, lastDecision, latestSource, layersOf, placementsOfArtwork, revisionsOf, type ArtworkFilter, type ArtworkRow, type RevisionRow } from './queries'
 import { abandonClaim, claimAndStore, settleClaim, type ObjectToStore } from './objects'
 import { inspectSource } from './sources'
 import { insertLayers, layeredTimings, layerObjects, runRevisionWork, totalMeasurements, type LayerFiles, type MadeRevision } from './layers'
@@ -43,21 +44,36 @@ export async function listArtworks(db: Db, actor: Actor, o: ArtworkFilter & { cu
   return { items: shown.map(toListItem), total, nextCursor: more && last ? encodeCursor({ at: last.order_at, id: last.id }) : null }
 }
 
-function revisionSummary(r: { id: number; number: number; width_mm: number; height_mm: number; drawing_width_mm: number | null; created_at: Date; author_name: string; status: RevisionSummary['status']; measurements: RevisionSummary['measurements'] }): RevisionSummary {
+type LayerRows = Awaited<ReturnType<typeof layersOf>>
+
+/** A layered revision's layers as answered, with the addresses of their files. */
+function layerInfo(revisionId: number, rows: LayerRows): RevisionLayerInfo[] {
+  return rows.filter((l) => l.revision_id === revisionId).map((l) => {
+    const base = `/api/revisions/${revisionId}/layers/${l.position}`
+    return {
+      position: l.position, name: l.name, hex: l.hex, measurements: l.measurements,
+      files: { vector: `${base}/vector.svg`, prepared: l.prepared_key ? `${base}/prepared.png` : null, outline: l.outline_key ? `${base}/outline.svg` : null },
+    }
+  })
+}
+
+function revisionSummary(r: { id: number; number: number; width_mm: number; height_mm: number; drawing_width_mm: number | null; created_at: Date; author_name: string; status: RevisionSummary['status']; measurements: RevisionSummary['measurements']; layer_count: number; colour: RevisionColour | null }, layers: LayerRows): RevisionSummary {
   return {
     id: r.id, number: r.number, status: r.status, widthMm: r.width_mm, heightMm: r.height_mm,
     // Before the decal was trimmed to the drawing, the width asked for was the whole picture's.
     drawingWidthMm: r.drawing_width_mm ?? r.width_mm,
     createdAt: new Date(r.created_at).toISOString(), author: r.author_name, measurements: r.measurements,
+    layerCount: r.layer_count, layers: layerInfo(r.id, layers), colour: r.colour,
   }
 }
 
 /** The artwork's page. The caller has found it in the actor's scope. */
 export async function artworkDetail(db: Db, actor: Actor, row: ArtworkRow): Promise<ArtworkDetail> {
   const [revisions, placed, decision] = await Promise.all([revisionsOf(db, row.id), placementsOfArtwork(db, row.id), lastDecision(db, row.id)])
+  const layers = await layersOf(db, revisions.filter((r) => r.layer_count > 1).map((r) => r.id))
   return {
     artwork: { ...toListItem(row), createdAt: new Date(row.created_at).toISOString() },
-    revisions: revisions.map(revisionSummary),
+    revisions: revisions.map((r) => revisionSummary(r, layers)),
     placements: placed.map((p) => ({
       id: p.id, spot: p.spot, widthMm: p.width_mm, quantity: p.quantity, spares: p.spares, sparesOnHand: p.spares_on_hand, revisionNumber: p.number,
       robot: { id: p.robot_id, name: p.robot_name, season: p.season }, film: { id: p.film_id, name: p.film_name }, jobs: p.jobs,
@@ -71,9 +87,10 @@ export async function artworkDetail(db: Db, actor: Actor, row: ArtworkRow): Prom
 
 export async function revisionDetail(db: Db, row: RevisionRow): Promise<RevisionDetail> {
   const base = `/api/revisions/${row.id}`
+  const [reviews, layers] = await Promise.all([reviewHistory(db, row.id), row.layer_count > 1 ? layersOf(db, [row.id]) : []])
   return {
-    reviews: await reviewHistory(db, row.id),
-    ...revisionSummary(row),
+    reviews,
+    ...revisionSummary(row, layers),
     artworkId: row.artwork_id,
     settings: row.settings as unknown as Record<string, unknown>,
     choices: row.choices,
@@ -118,7 +135,7 @@ async function insertRevision(trx: Transaction<Database>, o: { artworkId: number
   const { next } = await trx.selectFrom('revision').select(sql<number>`coalesce(max(number), 0)::int + 1`.as('next'))
     .where('artwork_id', '=', o.artworkId).executeTakeFirstOrThrow()
   const { single, layered } = o.made
-  const m = layered ? totalMeasurements(layered.result.layers, single.measurements.threshold) : single.measurements
+  const m = layered ? totalMeasurements(layered.result.layers, layered.result.frame, single.measurements.threshold) : single.measurements
   const rev = await trx.insertInto('revision').values({
     artwork_id: o.artworkId, number: next, source_id: o.sourceId,
     settings: JSON.stringify(o.settings), width_mm: m.widthMm, height_mm: m.heightMm, drawing_width_mm: o.drawingWidthMm,

@@ -22,5 +22,23 @@ export interface RevisionColour {
   inks: { name: string; hex: string; share: number }[]
   stack: { mode: LayerStackMode; overlapMm: number }[]
   marks: boolean
+  /**
+   * Where the drawing sits: the canvas every layer shares (marks included), the drawing's own
+   * size and its shift into that canvas, and the marks' centres, all in mm.
+   */
+  frame?: { widthMm: number; heightMm: number; drawingWidthMm: number; drawingHeightMm: number; shift: { x: number; y: number }; marks: { x: number; y: number }[] }
+  /** The part of the upright source the drawing was cut from (fractions of its width and height); null when the designer cropped. */
+  trim?: { x: number; y: number; width: number; height: number } | null
   detail?: Record<string, unknown>
+}
+
+/** One layer of a layered revision as the API answers it, bottom first. */
+export interface RevisionLayerInfo {
+  /** 0 = bottom. */
+  position: number
+  name: string
+  hex: string
+  measurements: LayerMeasurements
+  /** The layer's clean vector as cut (with the registration marks), its prepared bitmap and raw outline (null for a generated layer). */
+  files: { vector: string; prepared: string | null; outline: string | null }
 }

@@ -18,6 +18,7 @@ import { measureCurves, narrowestFeatureMm, smallPieces } from '../geometry'
 import { round2 } from '../../cutsheet/path'
 import { bitmapToPng, type PrepareOptions } from '../prepare'
 import { DEFAULT_SMALL_PIECE_MM2, PREVIEW_OPTIONS } from '../run'
+import { ENGINE_VERSIONS_BASE } from '../versions'
 import { outlineToSvg, traceBitmap, type ClosedCurve, type Outline, type Point } from '../trace'
 import type { Lab } from './lab'
 import { DEFAULT_MARKS, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
@@ -307,6 +308,7 @@ export interface AssembledLayers {
   stackedSvg: string
   frame: RegistrationFrame
   stackMs: number
+  engineVersions: EngineVersions
 }
 
 /** Step 3: stack the outlined inks, frame them with the marks, and measure each layer as cut. */
@@ -337,5 +339,6 @@ export function assembleLayers(sep: SeparatedSource, outlined: OutlinedInk[], co
     }
   })
   const stackedSvg = stackedPreviewSvg(framed.map((f, i) => ({ svg: f.svg, hex: layers[i]!.hex })))
-  return { layers, stackedSvg, frame, stackMs: performance.now() - t0 }
+  const engineVersions = { ...ENGINE_VERSIONS_BASE, sharp: sharp.versions.sharp ?? '', vips: sharp.versions.vips }
+  return { layers, stackedSvg, frame, stackMs: performance.now() - t0, engineVersions }
 }

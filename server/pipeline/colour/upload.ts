@@ -9,10 +9,10 @@ import type { RevisionColour } from '../../../shared/types/layers'
 import { decideLayers, inkBox, type LayerDecision } from './decide'
 import { labToHex, type Lab } from './lab'
 import type { LayeredRunRequest, LayeredRunResult, SeparatedSource } from './run-layers'
-import { DEFAULT_MARKS } from './marks'
+import { DEFAULT_MARKS, DEFAULT_STACK, type StackSettings } from './defaults'
 import { distinctNames, separationSentence } from './separate'
-import { DEFAULT_STACK, type StackSettings } from './stack'
-import { layersOfSeparation, separateWith, type ColourAnswer, type ColourTask } from './tasks'
+import { layersOfSeparation, separateWith } from './runner'
+import type { ColourAnswer, ColourTask } from './tasks'
 
 type Layers = Extract<LayeredRunResult, { kind: 'layers' }>
 
@@ -76,11 +76,16 @@ function colourRecord(result: Layers, decision: LayerDecision, req: LayeredRunRe
     inks: result.layers.map((l) => ({ name: l.name, hex: l.hex, share: l.share })),
     stack: result.layers.map((_, i) => ({ mode: stackOf(i).mode, overlapMm: stackOf(i).overlapMm })),
     marks: (req.colour?.marks ?? DEFAULT_MARKS).enabled,
+    frame: {
+      widthMm: result.frame.widthMm, heightMm: result.frame.heightMm,
+      drawingWidthMm: result.layers[0]!.measurements.widthMm, drawingHeightMm: result.layers[0]!.measurements.heightMm,
+      shift: result.frame.shift, marks: result.frame.marks.map((m) => ({ x: m.x, y: m.y })),
+    },
+    trim: trim ?? null,
     detail: {
       found: result.separation.found.map((f) => ({ name: f.name, hex: f.hex })),
       paper: { hex: result.separation.paper.hex, tint: result.separation.paper.tint },
       why: decision.why,
-      ...(trim ? { trim } : {}),
     },
   }
 }
