@@ -9,7 +9,8 @@ import type { RevisionColour } from '#shared/types/layers'
 import type { Measurements, StageTimings } from '#shared/types/pipeline'
 import type { PipelineSettings } from '#shared/utils/settings'
 import type { LayerResult, LayeredRunResult } from '../pipeline/colour/run-layers'
-import { layeredUpload } from '../pipeline/colour/upload'
+import { layeredUpload, layersAsAsked } from '../pipeline/colour/upload'
+import type { ColourSettings } from '#shared/utils/colour-settings'
 import type { RunResult } from '../pipeline/run'
 import { contentHash } from '../platform/object-store'
 import { runColourInPool, runInPool } from '../platform/pipeline-pool'
@@ -28,9 +29,13 @@ export interface MadeRevision {
  * drawing, bad settings) is the answer, as before; a failure of the colour path only leaves the
  * drawing one colour (and is logged).
  */
-export async function runRevisionWork(req: { source: Uint8Array; settings: PipelineSettings; widthMm: number }): Promise<MadeRevision> {
-  const singleRun = runInPool({ ...req, purpose: 'revision' })
-  const layeredRun = layeredUpload(runColourInPool, { ...req, purpose: 'revision' }, singleRun.then((r) => r.choices))
+export async function runRevisionWork(req: { source: Uint8Array; settings: PipelineSettings; widthMm: number; colour?: ColourSettings }): Promise<MadeRevision> {
+  const { colour, ...common } = req
+  const singleRun = runInPool({ ...common, purpose: 'revision' })
+  // The designer's colour settings from the bench, when given; otherwise found and decided here.
+  const layeredRun = (colour
+    ? layersAsAsked(runColourInPool, { ...common, purpose: 'revision' }, colour)
+    : layeredUpload(runColourInPool, { ...common, purpose: 'revision' }, singleRun.then((r) => r.choices)))
     .catch((err: unknown) => ({ kind: 'failed' as const, err }))
   const single = await singleRun
   const layered = await layeredRun

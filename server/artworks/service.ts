@@ -12,6 +12,7 @@ import { flags, type Actor, type TeamSubject } from '../policy'
 import { audit } from '../history/service'
 import { addWork, finishWork, reportPhase, type BegunWork } from '../work/items'
 import type { WorkResult } from '#shared/types/work'
+import type { ColourSettings } from '#shared/utils/colour-settings'
 import type { RevisionColour, RevisionLayerInfo } from '#shared/types/layers'
 import { reviewHistory } from '../review/queries'
 import { artworkCount, artworkPage, findArtwork, findRevision, lastDecision, latestSource, layersOf, placementsOfArtwork, revisionsOf, type ArtworkFilter, type ArtworkRow, type RevisionRow } from './queries'
@@ -266,13 +267,13 @@ export function parseSettingsOr400(input: unknown): PipelineSettings {
   }
 }
 
-interface RevisionInput { artworkId: number; title: string; sourceId: number; sourceKey: string; settings: PipelineSettings; widthMm: number; author: WorkAuthor }
+interface RevisionInput { artworkId: number; title: string; sourceId: number; sourceKey: string; settings: PipelineSettings; widthMm: number; colour?: ColourSettings; author: WorkAuthor }
 
 /** Asks for a new revision from new settings and size; returns the work item's id. The caller has checked `artwork.revise` on the artwork. */
-export async function requestRevision(db: Db, actor: Actor, artwork: ArtworkRow, input: { settings: unknown; widthMm: number }): Promise<number> {
+export async function requestRevision(db: Db, actor: Actor, artwork: ArtworkRow, input: { settings: unknown; widthMm: number; colour?: ColourSettings }): Promise<number> {
   const settings = parseSettingsOr400(input.settings)
   const source = await latestSource(db, artwork.id)
-  const work: RevisionInput = { artworkId: artwork.id, title: artwork.title, sourceId: source.id, sourceKey: source.object_key, settings, widthMm: input.widthMm, author: authorOf(actor) }
+  const work: RevisionInput = { artworkId: artwork.id, title: artwork.title, sourceId: source.id, sourceKey: source.object_key, settings, widthMm: input.widthMm, ...(input.colour ? { colour: input.colour } : {}), author: authorOf(actor) }
   return inTransaction(db, (trx) => addWork(trx, { programId: actor.programId, kind: 'revise', askedBy: actor.id, input: { ...work } }))
 }
 
@@ -280,7 +281,7 @@ export async function requestRevision(db: Db, actor: Actor, artwork: ArtworkRow,
 async function makeLaterRevision(db: Db, item: BegunWork, input: RevisionInput): Promise<WorkResult> {
   const source = await getObject(input.sourceKey)
   await reportPhase(db, item.id, 'outlining')
-  const made = await runRevisionWork({ source, settings: input.settings, widthMm: input.widthMm })
+  const made = await runRevisionWork({ source, settings: input.settings, widthMm: input.widthMm, colour: input.colour })
   return saveRevision(db, item, made, async (trx) => {
     const r = await insertRevision(trx, { artworkId: input.artworkId, sourceId: input.sourceId, settings: input.settings, drawingWidthMm: input.widthMm, made, files: resultObjects(made).files, authorId: input.author.id })
     await audit(trx, { ...historyBy(input.author), action: 'revise', subject: 'artwork', subjectId: input.artworkId, detail: { title: input.title, revision: r.number } })

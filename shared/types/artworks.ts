@@ -137,6 +137,18 @@ export interface Preview {
   timings: StageTimings
   /** The clean-up's choices for these settings, and why (as a saved revision would record them). */
   choices: CleanUpChoice[]
+  /** Asked with colour settings: the inks the look found (what merges, drops and order refer to) and the layers they make; null when asked for none. */
+  colour?: PreviewColour | null
+}
+
+export interface PreviewColour {
+  /** The inks found, lightest first; tooSmall ones are left out unless merged into another. */
+  found: { name: string; hex: string; share: number; tooSmall: boolean }[]
+  /** The layers, bottom first, as a revision would make them; empty when the settings make one colour. */
+  layers: { name: string; hex: string }[]
+  /** Every layer in its colour, on the framed canvas (mm); null for one colour. */
+  stackedSvg: string | null
+  sentence: string
 }
 
 export interface ReviewQueueItem {

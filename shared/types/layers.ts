@@ -1,5 +1,6 @@
 // Colour layers (migration 0013): the shapes the database, the API and the pages share.
 import type { Measurements } from './pipeline'
+import type { ColourSettings } from '../utils/colour-settings'
 
 /** At most this many inks become layers of one decal. */
 export const MAX_LAYERS = 6
@@ -29,6 +30,8 @@ export interface RevisionColour {
   frame?: { widthMm: number; heightMm: number; drawingWidthMm: number; drawingHeightMm: number; shift: { x: number; y: number }; marks: { x: number; y: number }[] }
   /** The part of the upright source the drawing was cut from (fractions of its width and height); null when the designer cropped. */
   trim?: { x: number; y: number; width: number; height: number } | null
+  /** The designer's colour settings from the bench, when they set any (the bench starts from them). */
+  asked?: ColourSettings
   detail?: Record<string, unknown>
 }
 

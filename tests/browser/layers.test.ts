@@ -1,9 +1,10 @@
 // A coloured drawing in the browser: the upload page says which inks it found, with their
 // colours; the artwork page draws every layer stacked in its colour and one layer alone, with
-// the measurements of what is shown.
+// the measurements of what is shown; on the bench a designer drops an ink and saves, and the
+// new revision has the layers left.
 import { describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { screenshot, setupBrowser, signInThroughForm, tabletPage } from '../support/browser'
+import { screenshot, setupBrowser, signedInPage, signInThroughForm, tabletPage } from '../support/browser'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../support/demo'
 import { photograph, threeInkDrawing } from '../unit/pipeline/colour/drawing'
 
@@ -56,11 +57,8 @@ describe('a coloured drawing in the browser', () => {
 
   it('draws the layers stacked in their colours, one alone when chosen, with the measurements of each', async () => {
     expect(artworkPath).toMatch(/^\/artworks\/\d+$/)
-    const page = await tabletPage('')
+    const page = await signedInPage(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD, artworkPath)
     const errors = consoleErrors(page)
-    await signInThroughForm(page, DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
-    await page.waitForURL((u) => u.pathname !== '/sign-in')
-    await page.goto(url(page, artworkPath), { waitUntil: 'networkidle' })
     const view = page.locator('[data-test="revision-layers"]')
     await view.locator('[data-test="layers-drawn-stacked"]').waitFor()
     const fills = await drawnFills(page)
@@ -83,4 +81,44 @@ describe('a coloured drawing in the browser', () => {
     expect(errors).toEqual([])
     await page.close()
   }, 60_000)
+
+  it('on the bench, a designer drops the yellow ink and saves: the new revision is red and blue', async () => {
+    expect(artworkPath).toMatch(/^\/artworks\/\d+$/)
+    const page = await signedInPage(DEMO_ACCOUNTS.designer.email, DEMO_PASSWORD, `${artworkPath}/bench`)
+    const errors = consoleErrors(page)
+    const panel = page.locator('[data-test="bench-colours"]')
+    await panel.locator('[data-test="colour-start"]').click()
+    const found = panel.locator('[data-test="colour-found"] > li')
+    await expect.poll(() => found.count(), { timeout: 30_000 }).toBeGreaterThanOrEqual(3)
+    const names = await found.evaluateAll((lis) => lis.map((li) => li.querySelector('span:nth-child(2)')!.textContent!.trim()))
+    const yellow = names.indexOf('yellow')
+    expect(yellow).toBeGreaterThanOrEqual(0)
+    await expect.poll(() => panel.locator('[data-test="colour-layers"] > li').count(), { timeout: 30_000 }).toBe(3)
+    await panel.locator(`[data-test="drop-ink-${yellow}"]`).click()
+    await expect.poll(() => panel.locator('[data-test="colour-layers"] > li').count(), { timeout: 30_000 }).toBe(2)
+    expect(await panel.locator('[data-test="colour-sentence"]').innerText()).toMatch(/^2 inks found \(\d dropped\): red and blue/)
+    await panel.locator('[data-test="colour-preview"] svg').waitFor()
+    // A colour picked from the keyboard joins the list of picks.
+    await panel.locator('[data-test="colour-pick-area"]').focus()
+    await page.keyboard.press('ArrowLeft')
+    await page.keyboard.press('Enter')
+    await expect.poll(() => panel.locator('[data-test="colour-picks"] li').count()).toBe(1)
+    await panel.locator('[data-test="colour-picks"] button').click()
+    await screenshot(page, 'layers-bench-dropped')
+
+    await page.locator('[data-test="save"]').click()
+    await expect.poll(() => page.locator('[data-test="revision-item"][data-number="2"]').count(), { timeout: 60_000 }).toBe(1)
+    await page.goto(url(page, `${artworkPath}?r=2`), { waitUntil: 'networkidle' })
+    const view = page.locator('[data-test="revision-layers"]')
+    await view.locator('[data-test="layers-drawn-stacked"]').waitFor()
+    expect(await drawnFills(page)).toHaveLength(2)
+    expect(await view.locator('[data-test="layer-measurements"] tbody tr').count()).toBe(3)
+    await view.locator('label:has([data-test="layer-choice-0"])').click()
+    await view.locator('[data-test="layers-drawn-one"]').waitFor()
+    expect(await drawnFills(page)).toHaveLength(1)
+    expect(await view.locator('[data-test="layer-measurements-title"]').innerText()).toBe('The red layer alone')
+    await screenshot(page, 'layers-artwork-r2')
+    expect(errors).toEqual([])
+    await page.close()
+  }, 180_000)
 })
