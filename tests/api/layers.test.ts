@@ -155,17 +155,19 @@ describe('an upload of a three-ink drawing', () => {
 
   it('separates each ink as drawn: at most 2 % of each layer\'s ink pixels wrong against its mask', async () => {
     const truth = await trueMasks(drawing)
-    const trim = trimPixels(revision.colour!.trim!, drawing.width, drawing.height)
+    const trim = revision.colour!.trim!
     for (const [position, l] of revision.layers.entries()) {
-      // The layer's prepared bitmap (black ink on white) brought to the source's pixels of the drawing.
-      const { data, info } = await sharp(Buffer.from(await bytes(student, l.files.prepared!)))
-        .resize(trim.width, trim.height, { fit: 'fill', kernel: 'nearest' }).greyscale().raw().toBuffer({ resolveWithObject: true })
+      // Each pixel of the layer's prepared bitmap (black ink on white) against the drawing's
+      // pixel under its centre, through the part of the source the drawing was cut from.
+      const { data, info } = await sharp(Buffer.from(await bytes(student, l.files.prepared!))).greyscale().raw().toBuffer({ resolveWithObject: true })
       const mine = truth[INK_OF[l.name]!]!
       let wrong = 0, ink = 0
-      for (let y = 0; y < trim.height; y++) {
-        for (let x = 0; x < trim.width; x++) {
-          const t = (y + trim.y) * drawing.width + x + trim.x
-          const cut = data[(y * trim.width + x) * info.channels]! < 128 ? 1 : 0
+      for (let y = 0; y < info.height; y++) {
+        const sy = Math.floor((trim.y + ((y + 0.5) / info.height) * trim.height) * drawing.height)
+        for (let x = 0; x < info.width; x++) {
+          const sx = Math.floor((trim.x + ((x + 0.5) / info.width) * trim.width) * drawing.width)
+          const t = sy * drawing.width + sx
+          const cut = data[(y * info.width + x) * info.channels]! < 128 ? 1 : 0
           if (mine[t]) ink++
           if (cut !== mine[t]) wrong++
         }

@@ -131,7 +131,7 @@ export async function layeredUpload(run: (task: ColourTask) => Promise<ColourAns
   if (!first.layered) return { kind: 'single', why: first.why }
   // Trimmed to the inks (unless the designer cropped), so the width asked is the drawing's.
   const box = req.settings.crop ? null : trimOf(look, first.groups)
-  const full = await separateWith(run, box ? { ...req, trim: box.trim, widthMm: req.widthMm / box.inkShareOfWidth } : req)
+  const { sep: full, trim } = await separateTrimmed(run, req, box)
   // The inks found again at full resolution keep the first look's decision (a stray blend at
   // the edge of an ink joins that ink); one the look did not see is judged on its own.
   const fresh = decideLayers(full.inks, full.width, full.height, choices)
@@ -139,7 +139,7 @@ export async function layeredUpload(run: (task: ColourTask) => Promise<ColourAns
   const decision = { ...first, groups, layered: groups.length >= 2 }
   if (!decision.layered) return { kind: 'single', why: fresh.why }
   const result = await layersOfSeparation(run, req, groupInks(full, groups), t0)
-  return { kind: 'layers', result, colour: colourRecord(result, decision, req, box?.trim) }
+  return { kind: 'layers', result, colour: colourRecord(result, decision, req, trim) }
 }
 
 type Run = (task: ColourTask) => Promise<ColourAnswer>
@@ -188,17 +188,37 @@ export function mapGroups(full: SeparatedSource, look: SeparatedSource, groups: 
 }
 
 /** The look's masks cut to the box of its kept inks, the resolution set so that they span `widthMm`. */
+type Trim = NonNullable<LayeredRunRequest['trim']>
+
+/** A separation's masks cut to a box (fractions of its picture), at the resolution given; the box as cut, to whole pixels. */
+export function cropSeparation(sep: SeparatedSource, trim: Trim, pxPerMm: number): { sep: SeparatedSource, trim: Trim } {
+  const x0 = Math.round(trim.x * sep.width), y0 = Math.round(trim.y * sep.height)
+  const w = Math.min(sep.width - x0, Math.round(trim.width * sep.width)), h = Math.min(sep.height - y0, Math.round(trim.height * sep.height))
+  const inks = sep.inks.map((ink) => {
+    const mask = new Uint8Array(w * h)
+    for (let y = 0; y < h; y++) mask.set(ink.mask.subarray((y0 + y) * sep.width + x0, (y0 + y) * sep.width + x0 + w), y * w)
+    return { ...ink, mask }
+  })
+  return { sep: { ...sep, inks, width: w, height: h, pxPerMm }, trim: { x: x0 / sep.width, y: y0 / sep.height, width: w / sep.width, height: h / sep.height } }
+}
+
+/** The look trimmed to its kept inks, the resolution set so that they span `widthMm`. */
 function trimLook(look: SeparatedSource, groups: number[][], widthMm: number) {
   const box = trimOf(look, groups)
   if (!box) return { box: null, trimmed: look }
-  const x0 = Math.round(box.trim.x * look.width), y0 = Math.round(box.trim.y * look.height)
-  const w = Math.round(box.trim.width * look.width), h = Math.round(box.trim.height * look.height)
-  const inks = look.inks.map((ink) => {
-    const mask = new Uint8Array(w * h)
-    for (let y = 0; y < h; y++) mask.set(ink.mask.subarray((y0 + y) * look.width + x0, (y0 + y) * look.width + x0 + w), y * w)
-    return { ...ink, mask }
-  })
-  return { box, trimmed: { ...look, inks, width: w, height: h, pxPerMm: (w * box.inkShareOfWidth) / widthMm } }
+  const w = Math.round(box.trim.width * look.width)
+  return { box, trimmed: cropSeparation(look, box.trim, (w * box.inkShareOfWidth) / widthMm).sep }
+}
+
+/**
+ * The source separated at the prepared resolution of the drawing's width, the whole picture
+ * (the paper round the drawing is what tells the paper's shading from a large fill of ink),
+ * then cut to the box of the inks the look found.
+ */
+async function separateTrimmed(run: Run, req: LayeredRunRequest, box: ReturnType<typeof trimOf>): Promise<{ sep: SeparatedSource, trim: Trim | undefined }> {
+  if (!box) return { sep: await separateWith(run, req), trim: undefined }
+  const full = await separateWith(run, { ...req, trim: undefined, widthMm: req.widthMm / (box.inkShareOfWidth * box.trim.width) })
+  return cropSeparation(full, box.trim, full.pxPerMm)
 }
 
 /**
@@ -218,11 +238,13 @@ export async function layersAsAsked(run: Run, req: LayeredRunRequest, asked: Col
   if (groups.length < 2) return { kind: 'single', why: 'One ink left after the designer\'s choices: one colour.', found }
   const { box, trimmed } = req.settings.crop ? { box: null, trimmed: look } : trimLook(look, groups, req.widthMm)
   let sep: SeparatedSource
+  let trim = box?.trim
   if (req.purpose === 'preview') {
     sep = groupInks(trimmed, groups)
   } else {
-    const full = await separateWith(run, box ? { ...req, colour: runColour(asked, 0), trim: box.trim, widthMm: req.widthMm / box.inkShareOfWidth } : { ...req, colour: runColour(asked, 0) })
-    sep = groupInks(full, mapGroups(full, look, groups))
+    const cut = await separateTrimmed(run, { ...req, colour: runColour(asked, 0) }, box)
+    trim = cut.trim
+    sep = groupInks(cut.sep, mapGroups(cut.sep, look, groups))
   }
   if (sep.inks.length < 2) return { kind: 'single', why: 'One ink left after the designer\'s choices: one colour.', found }
   // Said as the designer sees it: merges and drops of the inks the bench listed.
@@ -231,5 +253,5 @@ export async function layersAsAsked(run: Run, req: LayeredRunRequest, asked: Col
   const ordered = reorderInks(sep, asked.order)
   const withStack = { ...req, colour: runColour(asked, ordered.inks.length) }
   const result = await layersOfSeparation(run, withStack, ordered, t0)
-  return { kind: 'layers', result, found, colour: { ...colourRecord(result, { why: 'As the designer set the colours on the bench.' }, withStack, box?.trim), asked } }
+  return { kind: 'layers', result, found, colour: { ...colourRecord(result, { why: 'As the designer set the colours on the bench.' }, withStack, trim), asked } }
 }
