@@ -1,5 +1,6 @@
 import { defineStore } from 'pinia'
 import type { ArtworkDetail, Preview, RevisionDetail, RevisionSummary } from '#shared/types/artworks'
+import type { ColourSettingsInput } from '#shared/utils/colour-settings'
 import type { Film } from '#shared/types/films'
 import type { CleanUpChoice, Measurements } from '#shared/types/pipeline'
 import { estimateCutSeconds } from '#shared/utils/cut-time'
@@ -122,11 +123,15 @@ export const useBenchStore = defineStore('bench', () => {
     })
   }
 
+  /** The colour layers as set on the bench's colour panel; null: found and decided automatically. */
+  const colour = ref<ColourSettingsInput | null>(null)
+
   function applyBase(detail: RevisionDetail) {
     quiet = true
     base.value = detail
     settings.value = normaliseSettings(detail.settings)
     widthMm.value = detail.drawingWidthMm
+    colour.value = detail.colour?.asked ?? null
     quiet = false
   }
 
@@ -189,7 +194,8 @@ export const useBenchStore = defineStore('bench', () => {
   }
 
   const nextNumber = computed(() => (artwork.value?.revisions[0]?.number ?? 0) + 1)
-  const dirty = computed(() => !!base.value && !sameSettings(settings.value, widthMm.value, normaliseSettings(base.value.settings), base.value.drawingWidthMm))
+  const dirty = computed(() => !!base.value && (!sameSettings(settings.value, widthMm.value, normaliseSettings(base.value.settings), base.value.drawingWidthMm)
+    || JSON.stringify(colour.value ?? null) !== JSON.stringify(base.value.colour?.asked ?? null)))
   const world = computed(() => base.value?.source ? { width: base.value.source.widthPx, height: base.value.source.heightPx } : null)
   /** The decal's own picture (prepared bitmap pixels) that the prepared and outline panels show. */
   const decalWorld = computed(() => {
@@ -284,14 +290,15 @@ export const useBenchStore = defineStore('bench', () => {
     try {
       const rev = await $fetch<RevisionDetail>(`/api/artworks/${s.artworkId}/revisions`, {
         method: 'POST',
-        body: { settings: s.settings, widthMm: s.widthMm },
+        // The colour panel's settings (BenchColours) go with the revision when set.
+        body: { settings: s.settings, widthMm: s.widthMm, ...(colour.value ? { colour: colour.value } : {}) },
         headers: saveKey.headers(),
       })
       saveKey.settled()
       if (artwork.value && artwork.value.artwork.id === rev.artworkId) {
         const summary: RevisionSummary = {
           id: rev.id, number: rev.number, status: rev.status, widthMm: rev.widthMm, heightMm: rev.heightMm, drawingWidthMm: rev.drawingWidthMm,
-          createdAt: rev.createdAt, author: rev.author, measurements: rev.measurements,
+          createdAt: rev.createdAt, author: rev.author, measurements: rev.measurements, layerCount: rev.layerCount, layers: rev.layers, colour: rev.colour,
         }
         const revisions = [summary, ...artwork.value.revisions.filter((r) => r.id !== rev.id)].sort((a, b) => b.number - a.number)
         artwork.value = {
@@ -317,7 +324,7 @@ export const useBenchStore = defineStore('bench', () => {
 
   return {
     artworkId, artwork, base, baseOutline, settings, widthMm, preview, previewOf, pending, error, loading, loadError,
-    saving, saveError, lastSaved, roundTrips, films, filmId,
+    saving, saveError, lastSaved, roundTrips, films, filmId, colour,
     nextNumber, dirty, world, decalWorld, decalSize, outline, choices, figures, warnings, stale, film, cutSeconds,
     open, startFrom, reset, commit, save, close, keep, override, setCorners, turn, applyFix,
   }

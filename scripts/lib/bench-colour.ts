@@ -15,6 +15,9 @@ import sharp from 'sharp'
 import type { LayeredTimings } from '../../server/pipeline/colour/run-layers'
 import { runColourLayers, runColourLayersWith, type ColourAnswer, type ColourTask } from '../../server/pipeline/colour/tasks'
 import { separateColours } from '../../server/pipeline/colour/separate'
+import { layeredUpload, layersAsAsked } from '../../server/pipeline/colour/upload'
+import type { WorkerAnswer } from '../../server/pipeline/worker'
+import { colourSettingsSchema } from '../../shared/utils/colour-settings'
 import { PREVIEW_SOURCE_SIDE } from '../../shared/utils/settings'
 
 const WIDTH_MM = 150
@@ -70,12 +73,12 @@ export async function threeColourPhoto(megapixels: number): Promise<Buffer> {
   return sharp(d, { raw: base.info }).jpeg({ quality: 88 }).toBuffer()
 }
 
-/** The colour worker bundled for piscina (sharp, potrace and svgo external, as the server has them). */
+/** The pipeline worker bundled for piscina, as the server has it: one-colour runs and the colour layers' tasks (sharp, potrace and svgo external). */
 async function buildColourWorker(): Promise<string> {
   const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..')
   const file = path.join(root, 'node_modules/.cache/decalwright-bench/colour-worker.mjs')
   await build({
-    entryPoints: [path.join(root, 'server/pipeline/colour/worker.ts')],
+    entryPoints: [path.join(root, 'server/pipeline/worker.ts')],
     outfile: file, bundle: true, platform: 'node', format: 'esm', target: 'node20', logLevel: 'warning',
     external: ['sharp', 'potrace', 'svgo'],
   })
@@ -117,5 +120,19 @@ export async function benchColour(runs: number): Promise<void> {
   console.log(`  through a pool of ${threads} worker threads (CPU: the whole process, its threads included):`)
   line('  JPEG → layered revision files (no storage)', await timed(runs, () => runColourLayersWith(run, { source: photo, settings: {}, widthMm: WIDTH_MM, purpose: 'revision' })), REVISION_TARGET_MS)
   line('  preview of the layered drawing, source loaded', await timed(runs * 2, () => runColourLayersWith(run, { source: previewSource, settings: {}, widthMm: WIDTH_MM, purpose: 'preview' })), PREVIEW_TARGET_MS)
+
+  // As the server runs them: an upload makes the one-colour revision and, beside it, the
+  // layered one (a first look decides, the source is trimmed to the inks and separated again);
+  // the bench's colour panel previews the designer's settings on the shrunk source.
+  const upload = await timed(runs, async () => {
+    const single = pool.run({ source: photo, settings: {}, widthMm: WIDTH_MM, purpose: 'revision' }) as Promise<WorkerAnswer>
+    const choices = single.then((a) => (a.ok ? a.result.choices : []))
+    const [layered] = await Promise.all([layeredUpload(run, { source: photo, settings: {}, widthMm: WIDTH_MM, purpose: 'revision' }, choices), single])
+    return layered
+  })
+  line('  upload → layered revision files, one colour beside it', upload, REVISION_TARGET_MS)
+  console.log(`    ${upload.last.kind === 'layers' ? `${upload.last.result.layers.length} layers: ${upload.last.colour.sentence}` : `one colour: ${upload.last.why}`}`)
+  const asked = colourSettingsSchema.parse({ drop: [0] })
+  line('  bench colour panel: preview with one ink dropped', await timed(runs * 2, () => layersAsAsked(run, { source: previewSource, settings: {}, widthMm: WIDTH_MM, purpose: 'preview' }, asked)), PREVIEW_TARGET_MS)
   await pool.destroy()
 }

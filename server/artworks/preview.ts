@@ -1,12 +1,15 @@
 import sharp from 'sharp'
 import { createError } from 'h3'
-import type { Preview } from '#shared/types/artworks'
+import type { Preview, PreviewColour } from '#shared/types/artworks'
 import type { CleanUpChoice } from '#shared/types/pipeline'
 import { PREVIEW_SOURCE_SIDE, scaleSourceGeometry, type PipelineSettings } from '#shared/utils/settings'
 import type { Db } from '../platform/db'
 import { getObject } from '../platform/object-store'
-import { runInPool } from '../platform/pipeline-pool'
 import { latestSource, type ArtworkRow } from './queries'
+import type { ColourSettings } from '#shared/utils/colour-settings'
+import type { LayeredRunRequest } from '../pipeline/colour/run-layers'
+import { layersAsAsked } from '../pipeline/colour/upload'
+import { runColourInPool, runInPool } from '../platform/pipeline-pool'
 import { parseSettingsOr400 } from './service'
 
 // The tuning bench asks for a preview each time a control settles. Decoding a 12 MP photo
@@ -74,7 +77,7 @@ function choicesOnSource(choices: CleanUpChoice[], settings: PipelineSettings, s
  * on and aborted it) leaves the queue instead of being computed for nobody; one already
  * running finishes, as a thread cannot be stopped half-way without losing it.
  */
-export async function previewArtwork(db: Db, artwork: ArtworkRow, input: { settings: unknown; widthMm: number }, signal?: AbortSignal): Promise<Preview> {
+export async function previewArtwork(db: Db, artwork: ArtworkRow, input: { settings: unknown; widthMm: number; colour?: ColourSettings }, signal?: AbortSignal): Promise<Preview> {
   const settings = parseSettingsOr400(input.settings)
   const source = await latestSource(db, artwork.id)
   const c = settings.crop
@@ -84,8 +87,10 @@ export async function previewArtwork(db: Db, artwork: ArtworkRow, input: { setti
   const small = await previewSource(source.object_key)
   // A copy crosses to the worker; the cached bytes stay here.
   const scaled = scaleSourceGeometry(settings, small.scale, small.width, small.height)
+  const colour = input.colour ? previewColour({ source: small.png.slice(), settings: scaled, widthMm: input.widthMm, purpose: 'preview' }, input.colour) : null
   const result = await runInPool({ source: small.png.slice(), settings: scaled, widthMm: input.widthMm, purpose: 'preview', sourceKey: `${source.content_hash} preview` }, signal)
   return {
+    colour: await colour,
     svg: result.cleanSvg,
     preparedPng: `data:image/png;base64,${Buffer.from(result.preparedPng).toString('base64')}`,
     histogram: result.histogram,
@@ -93,4 +98,12 @@ export async function previewArtwork(db: Db, artwork: ArtworkRow, input: { setti
     timings: result.timings,
     choices: choicesOnSource(result.choices, settings, small, source),
   }
+}
+
+/** The colour layers of the preview, beside its one-colour outline (the same shrunk source, in the same pool). */
+async function previewColour(req: LayeredRunRequest, asked: ColourSettings): Promise<PreviewColour> {
+  const made = await layersAsAsked(runColourInPool, req, asked)
+  const found = (made.found ?? []).map(({ name, hex, share, tooSmall }) => ({ name, hex, share, tooSmall }))
+  if (made.kind === 'single') return { found, layers: [], stackedSvg: null, sentence: made.why }
+  return { found, layers: made.result.layers.map((l) => ({ name: l.name, hex: l.hex })), stackedSvg: made.result.stackedSvg, sentence: made.colour.sentence }
 }

@@ -57,7 +57,7 @@ export function findArtwork(db: Db, actor: Actor, id: number): Promise<ArtworkRo
 export function revisionsOf(db: Db, artworkId: number) {
   return db.selectFrom('revision').innerJoin('users', 'users.id', 'revision.author_id')
     .innerJoin('revision_status', 'revision_status.revision_id', 'revision.id')
-    .select(['revision.id', 'revision.number', 'revision.width_mm', 'revision.height_mm', 'revision.drawing_width_mm', 'revision.created_at', 'revision.measurements', 'users.name as author_name', 'revision_status.status'])
+    .select(['revision.id', 'revision.number', 'revision.width_mm', 'revision.height_mm', 'revision.drawing_width_mm', 'revision.created_at', 'revision.measurements', 'revision.layer_count', 'revision.colour', 'users.name as author_name', 'revision_status.status'])
     .where('revision.artwork_id', '=', artworkId).orderBy('revision.number', 'desc').execute()
 }
 
@@ -78,6 +78,19 @@ export function findRevision(db: Db, actor: Actor, revisionId: number) {
 }
 
 export type RevisionRow = NonNullable<Awaited<ReturnType<typeof findRevision>>>
+
+/** The layers of the revisions given, bottom first. The caller has found the revisions in the actor's scope. */
+export function layersOf(db: Db, revisionIds: readonly number[]) {
+  if (!revisionIds.length) return Promise.resolve([])
+  return db.selectFrom('revision_layer').selectAll().where('revision_id', 'in', [...revisionIds]).orderBy('revision_id').orderBy('position').execute()
+}
+
+/** One layer of a revision the caller has found in the actor's scope. */
+export function findRevisionLayer(db: Db, revisionId: number, position: number) {
+  return db.selectFrom('revision_layer').selectAll().where('revision_id', '=', revisionId).where('position', '=', position).executeTakeFirst()
+}
+
+export type RevisionLayerRow = NonNullable<Awaited<ReturnType<typeof findRevisionLayer>>>
 
 /** The source the bench tunes; a generated plate has none (409). */
 export async function latestSource(db: Db, artworkId: number) {

@@ -3,6 +3,7 @@
 import sharp from 'sharp'
 import { runPipeline, type RunRequest, type RunResult } from './run'
 import { NotADrawingError, PrepareError, TooComplexError } from './errors'
+import { colourWork, type ColourAnswer, type ColourTask } from './colour/tasks'
 
 // Each worker thread is already one core's worth of work: libvips' own thread pool and its
 // operation cache would only add memory (peak memory with four revisions at once). Both
@@ -14,7 +15,14 @@ export type WorkerAnswer =
   | { ok: true; result: RunResult }
   | { ok: false; kind: 'prepare' | 'too-complex' | 'not-a-drawing' | 'settings' | 'internal'; message: string }
 
-export default async function work(req: RunRequest): Promise<WorkerAnswer> {
+/** A colour layer's task (colour/tasks.ts) carries its kind; a single-colour run has none. */
+function isColourTask(req: RunRequest | ColourTask): req is ColourTask {
+  return 'kind' in req
+}
+
+export default async function work(req: RunRequest | ColourTask): Promise<WorkerAnswer | ColourAnswer> {
+  // The same threads take the colour layers' tasks, so one pool serves both.
+  if (isColourTask(req)) return colourWork(req)
   try {
     return { ok: true, result: await runPipeline(req) }
   } catch (err) {

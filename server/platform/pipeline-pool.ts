@@ -5,6 +5,7 @@ import Piscina from 'piscina'
 import { createError } from 'h3'
 import type { RunRequest, RunResult } from '../pipeline/run'
 import type { WorkerAnswer } from '../pipeline/worker'
+import type { ColourAnswer, ColourTask } from '../pipeline/colour/tasks'
 
 const WORKER_FILE = 'pipeline-worker.mjs'
 let pool: Piscina | undefined
@@ -54,5 +55,17 @@ export async function runInPool(req: RunRequest, signal?: AbortSignal): Promise<
     case 'not-a-drawing': throw createError({ statusCode: 422, message: answer.message, data: { kind: 'not-a-drawing' } })
     case 'settings': throw createError({ statusCode: 400, message: answer.message })
     default: throw new Error(`pipeline failed: ${answer.message}`)
+  }
+}
+
+/** Runs one task of the colour layers (server/pipeline/colour/tasks.ts) in the same pool; its answer is the caller's to read. */
+export async function runColourInPool(task: ColourTask): Promise<ColourAnswer> {
+  try {
+    return await usePipelinePool().run(task)
+  } catch (err) {
+    if ((err as Error).message?.includes('Task queue is at limit')) {
+      throw createError({ statusCode: 503, message: 'The outline workers are busy. Try again in a moment.' })
+    }
+    throw err
   }
 }

@@ -24,7 +24,7 @@ export function inReview(db: Db, programId: number, after: { at: string; id: num
     .innerJoin('artwork', 'artwork.id', 'revision.artwork_id')
     .innerJoin('team', 'team.id', 'artwork.team_id')
     .innerJoin('users', 'users.id', 'revision.author_id')
-    .select(['revision.id', 'revision.number', 'revision.measurements', 'revision.width_mm', 'revision.height_mm', 'artwork.id as artwork_id', 'artwork.title',
+    .select(['revision.id', 'revision.number', 'revision.measurements', 'revision.width_mm', 'revision.height_mm', 'revision.layer_count', 'artwork.id as artwork_id', 'artwork.title',
       'team.id as team_id', 'team.name as team_name', 'team.colour as team_colour', 'users.name as author', 'revision_status.updated_at',
       sql<string>`revision_status.updated_at::text`.as('order_at'),
       // Revisions made after this one: the reviewer should know the team has moved on.

@@ -65,7 +65,7 @@ export async function reviewQueue(db: Db, actor: Actor, o: { cursor?: string; li
     revisionId: r.id, number: r.number, artworkId: r.artwork_id, title: r.title, author: r.author,
     team: { id: r.team_id, name: r.team_name, colour: r.team_colour },
     widthMm: r.width_mm, heightMm: r.height_mm, submittedAt: new Date(r.updated_at).toISOString(),
-    vectorUrl: `/api/revisions/${r.id}/vector.svg`, measurements: r.measurements,
+    vectorUrl: `/api/revisions/${r.id}/vector.svg`, measurements: r.measurements, layerCount: r.layer_count,
     newerRevisions: r.newer_count ?? 0, latestNumber: r.latest_number ?? r.number,
   }), (r) => ({ at: r.order_at, id: r.id }))
 }

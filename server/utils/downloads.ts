@@ -4,19 +4,21 @@ import { createError, getQuery, setResponseHeaders, type H3Event } from 'h3'
 import { extensionFor } from '#shared/constants/uploads'
 import { fileSlug } from '../platform/file-names'
 import { getObject } from '../platform/object-store'
-import type { RevisionRow } from '../artworks/queries'
+import type { RevisionLayerRow, RevisionRow } from '../artworks/queries'
 
 const SANDBOX = "default-src 'none'; style-src 'unsafe-inline'; sandbox"
 
 export type RevisionFile = 'vector' | 'prepared' | 'outline' | 'source'
 
 /** One stored file of a revision with its content type and a file name people can recognise. */
-export async function sendRevisionFile(event: H3Event, row: RevisionRow, kind: RevisionFile): Promise<Buffer> {
-  const base = `${fileSlug(row.title, 60, 'artwork')}-r${row.number}`
+export async function sendRevisionFile(event: H3Event, row: RevisionRow, kind: RevisionFile, layer?: RevisionLayerRow): Promise<Buffer> {
+  // One layer of a layered revision: its own files, named by position and ink.
+  const keys = layer ?? row
+  const base = `${fileSlug(row.title, 60, 'artwork')}-r${row.number}${layer ? `-layer${layer.position + 1}-${fileSlug(layer.name, 30, 'ink')}` : ''}`
   const file = {
-    vector: { key: row.vector_key, type: 'image/svg+xml', name: `${base}.svg` },
-    outline: { key: row.outline_key, type: 'image/svg+xml', name: `${base}-outline-px.svg` },
-    prepared: { key: row.prepared_key, type: 'image/png', name: `${base}-prepared.png` },
+    vector: { key: keys.vector_key, type: 'image/svg+xml', name: `${base}.svg` },
+    outline: { key: keys.outline_key, type: 'image/svg+xml', name: `${base}-outline-px.svg` },
+    prepared: { key: keys.prepared_key, type: 'image/png', name: `${base}-prepared.png` },
     source: { key: row.source_key, type: row.media_type ?? 'application/octet-stream', name: `${base}-source.${row.media_type ? extensionFor(row.media_type) : 'bin'}` },
   }[kind]
   if (!file.key) throw createError({ statusCode: 404, message: 'A generated plate has only its vector: no source, prepared bitmap or raw outline.' })

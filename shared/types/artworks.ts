@@ -2,6 +2,7 @@ import type { CleanUpChoice, EngineVersions, Measurements, StageTimings } from '
 import type { Can } from './policy'
 import type { PlateFacts, RevisionOrigin } from './plates'
 import type { JobKind, JobState } from './robots'
+import type { RevisionColour, RevisionLayerInfo } from './layers'
 
 export const ARTWORK_STATUSES = ['draft', 'in-review', 'approved', 'sent-back'] as const
 export type ArtworkStatus = (typeof ARTWORK_STATUSES)[number]
@@ -20,7 +21,14 @@ export interface RevisionSummary {
   drawingWidthMm: number
   createdAt: string
   author: string
+  /** For a layered revision, the totals of its layers (summed area, cut length, pieces…; the narrowest stroke of any; the framed canvas). */
   measurements: Measurements
+  /** 1 for one colour; 2–6 for a layered revision. */
+  layerCount: number
+  /** A layered revision's layers, bottom first; empty for one colour. */
+  layers: RevisionLayerInfo[]
+  /** What the separation found and how the layers stack; null for one colour. */
+  colour: RevisionColour | null
 }
 
 export interface ReviewEntry {
@@ -129,6 +137,18 @@ export interface Preview {
   timings: StageTimings
   /** The clean-up's choices for these settings, and why (as a saved revision would record them). */
   choices: CleanUpChoice[]
+  /** Asked with colour settings: the inks the look found (what merges, drops and order refer to) and the layers they make; null when asked for none. */
+  colour?: PreviewColour | null
+}
+
+export interface PreviewColour {
+  /** The inks found, lightest first; tooSmall ones are left out unless merged into another. */
+  found: { name: string; hex: string; share: number; tooSmall: boolean }[]
+  /** The layers, bottom first, as a revision would make them; empty when the settings make one colour. */
+  layers: { name: string; hex: string }[]
+  /** Every layer in its colour, on the framed canvas (mm); null for one colour. */
+  stackedSvg: string | null
+  sentence: string
 }
 
 export interface ReviewQueueItem {
@@ -143,6 +163,8 @@ export interface ReviewQueueItem {
   submittedAt: string
   vectorUrl: string
   measurements: Measurements
+  /** 1 for one colour; 2–6 for a layered revision (its layers are in the revision's answer). */
+  layerCount: number
   /** How many revisions of the artwork were made after this one, and the newest one's number. */
   newerRevisions: number
   latestNumber: number

@@ -1,5 +1,6 @@
 // Colour layers (migration 0013): the shapes the database, the API and the pages share.
 import type { Measurements } from './pipeline'
+import type { ColourSettings } from '../utils/colour-settings'
 
 /** At most this many inks become layers of one decal. */
 export const MAX_LAYERS = 6
@@ -22,5 +23,25 @@ export interface RevisionColour {
   inks: { name: string; hex: string; share: number }[]
   stack: { mode: LayerStackMode; overlapMm: number }[]
   marks: boolean
+  /**
+   * Where the drawing sits: the canvas every layer shares (marks included), the drawing's own
+   * size and its shift into that canvas, and the marks' centres, all in mm.
+   */
+  frame?: { widthMm: number; heightMm: number; drawingWidthMm: number; drawingHeightMm: number; shift: { x: number; y: number }; marks: { x: number; y: number }[] }
+  /** The part of the upright source the drawing was cut from (fractions of its width and height); null when the designer cropped. */
+  trim?: { x: number; y: number; width: number; height: number } | null
+  /** The designer's colour settings from the bench, when they set any (the bench starts from them). */
+  asked?: ColourSettings
   detail?: Record<string, unknown>
+}
+
+/** One layer of a layered revision as the API answers it, bottom first. */
+export interface RevisionLayerInfo {
+  /** 0 = bottom. */
+  position: number
+  name: string
+  hex: string
+  measurements: LayerMeasurements
+  /** The layer's clean vector as cut (with the registration marks), its prepared bitmap and raw outline (null for a generated layer). */
+  files: { vector: string; prepared: string | null; outline: string | null }
 }

@@ -1,5 +1,6 @@
 // Request bodies, validated by the server and reused by the forms.
 import { z } from 'zod'
+import { colourSettingsSchema } from './colour-settings'
 import { CUT_SHEET_LIMITS, WEEDING_LINE_LIMITS } from '../constants/cut-sheet'
 import { PLACEMENT_LIMITS } from '../constants/placements'
 import { MAX_LAYERS } from '../types/layers'
@@ -127,6 +128,8 @@ export const revisionRequestSchema = z.object({
   // Checked in full by the pipeline's own settings schema (shared/utils/settings.ts).
   settings: z.record(z.string(), z.unknown()).default({}),
   widthMm: widthMmSchema,
+  /** The colour layers as the designer set them on the bench; absent: found and decided automatically. */
+  colour: colourSettingsSchema.optional(),
 })
 
 export const reviewSchema = z.object({

@@ -230,6 +230,10 @@ const ROUTES: Record<string, RouteRule> = {
   'GET /api/revisions/[id]/outline.svg': { scope: 'artwork.view', ask: (w) => ({ path: `/api/revisions/${t().revision[w]}/outline.svg` }) },
   'GET /api/revisions/[id]/prepared.png': { scope: 'artwork.view', ask: (w) => ({ path: `/api/revisions/${t().revision[w]}/prepared.png` }) },
   'GET /api/revisions/[id]/source': { scope: 'artwork.view', ask: (w) => ({ path: `/api/revisions/${t().revision[w]}/source` }) },
+  // The matrix's revisions are one colour: layer 0 is missing for whoever gets past the scope (layers.test.ts reads real ones).
+  'GET /api/revisions/[id]/layers/[position]/vector.svg': { scope: 'artwork.view', missing: true, ask: (w) => ({ path: `/api/revisions/${t().revision[w]}/layers/0/vector.svg` }) },
+  'GET /api/revisions/[id]/layers/[position]/outline.svg': { scope: 'artwork.view', missing: true, ask: (w) => ({ path: `/api/revisions/${t().revision[w]}/layers/0/outline.svg` }) },
+  'GET /api/revisions/[id]/layers/[position]/prepared.png': { scope: 'artwork.view', missing: true, ask: (w) => ({ path: `/api/revisions/${t().revision[w]}/layers/0/prepared.png` }) },
   'POST /api/revisions/[id]/submit': { scope: 'artwork.view', action: 'revision.submit', ask: (w) => ({ path: `/api/revisions/${t().revision[w]}/submit` }) },
   'POST /api/revisions/[id]/review': { guard: 'revision.review', scope: 'artwork.view', ask: (w) => ({ path: `/api/revisions/${t().revision[w]}/review`, body: { decision: 'maybe' } }) },
 

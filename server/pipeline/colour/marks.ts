@@ -11,18 +11,9 @@
 import { flattenCurve, round2, type CutCurve } from '../../cutsheet/path'
 import type { ClosedCurve, Point, Segment } from '../trace'
 import { signedCurves, type Canvas } from './stack'
+import { DEFAULT_MARKS, MARK_LIMITS, type MarkSettings } from './defaults'
 
-export interface MarkSettings {
-  enabled: boolean
-  /** Gap between the design's box and a mark's outer edge, mm. */
-  clearanceMm: number
-  /** Outer diameter of the ring, mm. */
-  sizeMm: number
-}
-
-/** Our defaults: a 6 mm ring 4 mm clear of the design. */
-export const DEFAULT_MARKS: MarkSettings = Object.freeze({ enabled: true, clearanceMm: 4, sizeMm: 6 }) as MarkSettings
-export const MARK_LIMITS = { clearanceMm: { min: 1, max: 50 }, sizeMm: { min: 3, max: 30 } } as const
+export { DEFAULT_MARKS, MARK_LIMITS, type MarkSettings } from './defaults'
 /** The ring's band width as a fraction of its outer diameter. */
 const RING_BAND_FRACTION = 0.14
 /** The notch's width as a fraction of the outer diameter. */

@@ -18,6 +18,7 @@ import { measureCurves, narrowestFeatureMm, smallPieces } from '../geometry'
 import { round2 } from '../../cutsheet/path'
 import { bitmapToPng, type PrepareOptions } from '../prepare'
 import { DEFAULT_SMALL_PIECE_MM2, PREVIEW_OPTIONS } from '../run'
+import { ENGINE_VERSIONS_BASE } from '../versions'
 import { outlineToSvg, traceBitmap, type ClosedCurve, type Outline, type Point } from '../trace'
 import type { Lab } from './lab'
 import { DEFAULT_MARKS, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
@@ -58,6 +59,11 @@ export interface LayeredRunRequest {
   widthMm: number
   purpose: 'revision' | 'preview'
   smallPieceMm2?: number
+  /**
+   * Trim to the drawing: a rectangle as fractions of the upright source, used when the
+   * settings hold no crop of the designer's (an upload trims to the inks found on a first look).
+   */
+  trim?: { x: number, y: number, width: number, height: number }
 }
 
 /** A layer's measurements: the single-colour ones less the grey threshold. */
@@ -114,7 +120,7 @@ export type LayeredRunResult =
   }
 
 /** The source upright, cropped and resampled to the prepared size, as 8-bit sRGB. */
-export async function decodeColourSource(source: Uint8Array, settings: PipelineSettings, widthMm: number, options: PrepareOptions = {}) {
+export async function decodeColourSource(source: Uint8Array, settings: PipelineSettings, widthMm: number, options: PrepareOptions = {}, trim?: LayeredRunRequest['trim']) {
   const maxSourcePixels = options.maxSourcePixels ?? 100_000_000
   let meta: Metadata
   try {
@@ -127,7 +133,7 @@ export async function decodeColourSource(source: Uint8Array, settings: PipelineS
   if (!orientedWidth || !orientedHeight) throw new PrepareError('The image has no pixel size.')
   let img = sharp(source, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
   let srcW = orientedWidth, srcH = orientedHeight
-  const crop = settings.crop
+  const crop = settings.crop ?? (trim ? trimPixels(trim, orientedWidth, orientedHeight) : null)
   if (crop) {
     if (crop.x + crop.width > orientedWidth || crop.y + crop.height > orientedHeight) {
       throw new PrepareError(`The crop rectangle (${crop.x}, ${crop.y}, ${crop.width} × ${crop.height}) lies outside the upright source of ${orientedWidth} × ${orientedHeight} pixels.`)
@@ -158,6 +164,19 @@ export async function decodeColourSource(source: Uint8Array, settings: PipelineS
   } catch (e) {
     if (e instanceof PrepareError) throw e
     throw new PrepareError('The image could not be decoded.', { cause: e })
+  }
+}
+
+/** A trim rectangle (fractions) as whole pixels of the upright source, at least one pixel each way. */
+export function trimPixels(t: NonNullable<LayeredRunRequest['trim']>, width: number, height: number) {
+  if (![t.x, t.y, t.width, t.height].every((v) => v >= 0 && v <= 1) || t.width <= 0 || t.height <= 0) {
+    throw new RangeError('A trim is given as fractions (0–1) of the source\'s width and height.')
+  }
+  const x = Math.min(width - 1, Math.floor(t.x * width)), y = Math.min(height - 1, Math.floor(t.y * height))
+  return {
+    x, y,
+    width: Math.max(1, Math.min(width - x, Math.ceil((t.x + t.width) * width) - x)),
+    height: Math.max(1, Math.min(height - y, Math.ceil((t.y + t.height) * height) - y)),
   }
 }
 
@@ -231,7 +250,7 @@ export async function separateSource(req: LayeredRunRequest): Promise<SeparatedS
   const t0 = performance.now()
   const settings = parseSettings(req.settings)
   const { picks, ...rest } = req.colour?.choices ?? DEFAULT_COLOUR_SETTINGS.choices
-  const image = await decodeColourSource(req.source, settings, req.widthMm, req.purpose === 'preview' ? PREVIEW_OPTIONS : {})
+  const image = await decodeColourSource(req.source, settings, req.widthMm, req.purpose === 'preview' ? PREVIEW_OPTIONS : {}, req.trim)
   for (const p of picks ?? []) {
     if (!(p.x >= 0 && p.x <= 1 && p.y >= 0 && p.y <= 1) || (p.radius !== undefined && !(p.radius >= 0 && p.radius <= 1))) {
       throw new RangeError('A picked point is given as fractions (0–1) of the source\'s width and height.')
@@ -289,6 +308,7 @@ export interface AssembledLayers {
   stackedSvg: string
   frame: RegistrationFrame
   stackMs: number
+  engineVersions: EngineVersions
 }
 
 /** Step 3: stack the outlined inks, frame them with the marks, and measure each layer as cut. */
@@ -319,5 +339,6 @@ export function assembleLayers(sep: SeparatedSource, outlined: OutlinedInk[], co
     }
   })
   const stackedSvg = stackedPreviewSvg(framed.map((f, i) => ({ svg: f.svg, hex: layers[i]!.hex })))
-  return { layers, stackedSvg, frame, stackMs: performance.now() - t0 }
+  const engineVersions = { ...ENGINE_VERSIONS_BASE, sharp: sharp.versions.sharp ?? '', vips: sharp.versions.vips }
+  return { layers, stackedSvg, frame, stackMs: performance.now() - t0, engineVersions }
 }

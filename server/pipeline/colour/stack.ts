@@ -27,22 +27,11 @@ import { flattenCurve, type CutCurve } from '../../cutsheet/path'
 import { signByNesting } from '../../plates/outline'
 import { cleanVector } from '../clean'
 import type { ClosedCurve, Point, Segment } from '../trace'
+import { DEFAULT_STACK, MAX_OVERLAP_MM, type StackSettings } from './defaults'
 
 export const STACK_FLATTEN_TOLERANCE_MM = 0.005
 export const STACK_ARC_TOLERANCE_MM = 0.002
-/** Largest overlap accepted, mm. */
-export const MAX_OVERLAP_MM = 5
-
-export type StackMode = 'under' | 'knock-out'
-
-export interface StackSettings {
-  mode: StackMode
-  /** How far a lower layer runs on under the layers above it, mm. */
-  overlapMm: number
-}
-
-/** Our default: a lower layer runs 0.5 mm under the one above (hand-laid film slips about that much). */
-export const DEFAULT_STACK: StackSettings = Object.freeze({ mode: 'under', overlapMm: 0.5 }) as StackSettings
+export { DEFAULT_STACK, MAX_OVERLAP_MM, type StackMode, type StackSettings } from './defaults'
 
 export interface Canvas { widthMm: number, heightMm: number }
 

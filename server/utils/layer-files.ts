@@ -1,0 +1,24 @@
+// Route glue for a layered revision's layer files (the same route for each kind of file):
+// the revision found in the viewer's scope (another team's answers 404), then its layer.
+// Auto-imported into routes.
+import { createError, defineEventHandler, getRouterParam } from 'h3'
+import { MAX_LAYERS } from '#shared/types/layers'
+import { useDb } from '../platform/db'
+import { findRevision, findRevisionLayer } from '../artworks/queries'
+import { authorize, requireActor } from './actor'
+import { sendRevisionFile } from './downloads'
+import { idParam } from './request'
+
+/** GET one layer's clean vector, prepared bitmap or raw outline: /api/revisions/[id]/layers/[position]/… */
+export function revisionLayerFileHandler(kind: 'vector' | 'prepared' | 'outline') {
+  return defineEventHandler(async (event) => {
+    const actor = await requireActor(event)
+    const db = useDb()
+    const revision = authorize(actor, 'artwork.view', await findRevision(db, actor, idParam(event)), 'No such revision.')
+    const raw = getRouterParam(event, 'position') ?? ''
+    const position = /^[0-9]$/.test(raw) ? Number(raw) : -1
+    const layer = position >= 0 && position < MAX_LAYERS ? await findRevisionLayer(db, revision.id, position) : undefined
+    if (!layer) throw createError({ statusCode: 404, message: 'No such layer.' })
+    return sendRevisionFile(event, revision, kind, layer)
+  })
+}
