@@ -184,8 +184,10 @@ export function ownerJobs(db: Db, owner: SheetOwner) {
     .innerJoin('placement', 'placement.id', 'job.placement_id')
     .innerJoin('revision', 'revision.id', 'placement.revision_id')
     .innerJoin('film', 'film.id', 'job.film_id')
+    // A layer's job cuts that layer's vector, as the job's page lays it out (jobs/queries.ts).
+    .leftJoin('revision_layer as cut_layer', (j) => j.onRef('cut_layer.revision_id', '=', 'revision.id').onRef('cut_layer.position', '=', 'job.layer'))
     .select(['job.id as job_id', 'job.quantity as job_quantity', 'job.width_mm as job_width', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
-      'revision.vector_key', 'film.sheet_width_mm', 'film.sheet_height_mm', 'film.kerf_mm as film_kerf', 'film.cleared as film_cleared', 'job.state'])
+      sql<string>`coalesce(cut_layer.vector_key, revision.vector_key)`.as('vector_key'), 'film.sheet_width_mm', 'film.sheet_height_mm', 'film.kerf_mm as film_kerf', 'film.cleared as film_cleared', 'job.state'])
   return (owner.batchId !== undefined ? q.where('job.batch_id', '=', owner.batchId) : q.where('job.id', 'in', owner.jobIds.length ? owner.jobIds : [-1]))
     .orderBy('job.id').execute()
 }
