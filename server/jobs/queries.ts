@@ -39,6 +39,9 @@ function visibleJobs(db: Db, actor: Actor) {
       sql<Measurements>`coalesce(cut_layer.measurements, revision.measurements)`.as('measurements'),
       'artwork.id as artwork_id', 'artwork.title',
       'job.layer', 'job.order_id', 'revision.layer_count', 'cut_layer.name as layer_name', 'cut_layer.hex as layer_hex',
+      // Every layer of the revision, for the order in which they are laid on the robot.
+      jsonArrayFrom(eb.selectFrom('revision_layer as rl').select(['rl.position', 'rl.name', 'rl.hex'])
+        .whereRef('rl.revision_id', '=', 'revision.id').orderBy('rl.position')).as('revision_layers'),
       jsonArrayFrom(eb.selectFrom('job as sibling').innerJoin('film as sf', 'sf.id', 'sibling.film_id')
         .innerJoin('revision_layer as sl', (j) => j.onRef('sl.revision_id', '=', 'revision.id').onRef('sl.position', '=', 'sibling.layer'))
         .select(['sibling.id', 'sibling.layer', 'sl.name', 'sf.name as filmName', 'sibling.state'])

@@ -122,6 +122,7 @@ function toView(r: JobRow, film: Film, stock: JobStock | null): JobView {
     revision: { id: r.revision_id, number: r.revision_number, artworkId: r.artwork_id, title: r.title, vectorUrl: `/api/revisions/${r.revision_id}/vector.svg` },
     layer: r.layer === null || r.order_id === null ? null : {
       position: r.layer, count: r.layer_count, name: r.layer_name ?? '', hex: r.layer_hex ?? '#000000', orderId: r.order_id, order: r.order_jobs,
+      layers: r.revision_layers.map((l) => ({ ...l, vectorUrl: `/api/jobs/${r.job_id}/layers/${l.position}/vector.svg` })),
     },
     film,
     stock,

@@ -195,4 +195,6 @@ export interface JobLayer {
   hex: string
   orderId: number
   order: { id: number; layer: number; name: string; filmName: string; state: JobState }[]
+  /** Every layer of the decal, bottom first, with its clean vector as cut (marks included), for the order of application. */
+  layers: { position: number; name: string; hex: string; vectorUrl: string }[]
 }

@@ -257,6 +257,7 @@ const ROUTES: Record<string, RouteRule> = {
 
   'GET /api/jobs': { guard: 'queue.work', ask: () => ({ path: '/api/jobs' }) },
   'GET /api/jobs/[id]': { scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}` }) },
+  'GET /api/jobs/[id]/layers/[position]/vector.svg': { scope: 'job.view', missing: true, ask: (w) => ({ path: `/api/jobs/${t().job[w]}/layers/0/vector.svg` }) },
   'POST /api/jobs/[id]/state': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/state`, body: { state: 'lost' } }) },
   'POST /api/jobs/[id]/cancel': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/cancel`, body: { reason: '' } }) },
   'POST /api/jobs/[id]/failure': { guard: 'queue.work', scope: 'job.view', ask: (w) => ({ path: `/api/jobs/${t().job[w]}/failure`, body: { failure: 'exploded' } }) },

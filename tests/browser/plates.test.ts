@@ -113,8 +113,10 @@ describe('number plates in the browser', () => {
     await expect.poll(() => layers.count()).toBe(1)
     expect(await byTest(page, 'layer-film-0').innerText()).toMatch(/Layer 1 of 2:\s*blue background/)
     expect(await byTest(page, 'layer-film-1').innerText()).toMatch(/Layer 2 of 2:\s*white numerals/)
-    // White numerals: the white film is suggested first (CIEDE2000), so it starts chosen.
-    expect(await layers.locator('select[name="layerFilm1"]').inputValue()).toBe(String(films.white.id))
+    // White numerals: a white film is suggested first (CIEDE2000), so one starts chosen (other
+    // tests of the run may add whites of their own); this test then takes its own.
+    expect(await layers.locator('select[name="layerFilm1"] option:checked').innerText()).toMatch(/white/i)
+    await layers.locator('select[name="layerFilm1"]').selectOption(String(films.white.id))
     await layers.locator('select[name="layerFilm0"]').selectOption(String(films.red.id))
     await form.locator('select[name="side"]').selectOption('front')
     await form.locator('input[name="spot"]').fill('front panel')
@@ -135,6 +137,22 @@ describe('number plates in the browser', () => {
     expect(await results.locator('[data-rule="alliance-colours"]').innerText())
       .toMatch(/Not met\s+Alliance colours\. No red plate on the back; no blue plate placed: the rules ask for red and blue plates, each on two opposite sides\. \(R10\)/)
     await screenshot(page, 'plates-robot-check')
+
+    // The job of the numerals' layer says in which order the layers go on, each step drawn.
+    const robot = (await mentorApi.get(`/api/robots/${robotId}`)).body as { placements: { layers: unknown[]; jobs: { id: number; layer: number | null }[] }[] }
+    const numeralsJob = robot.placements.find((p) => p.layers.length === 2)!.jobs.find((j) => j.layer === 1)!.id
+    const jobPage = await as('mentor', `/lab/jobs/${numeralsJob}`)
+    const order = byTest(jobPage, 'job-application-order')
+    await expect.poll(() => order.count()).toBe(1)
+    expect(await byTest(jobPage, 'apply-step-0').innerText()).toMatch(/Step 1: layer 1, blue background[\s\S]*press it down first/)
+    expect(await byTest(jobPage, 'apply-step-1').innerText()).toMatch(/Step 2: layer 2, white numerals \(this job\)[\s\S]*registration marks/)
+    expect(await byTest(jobPage, 'apply-step-1').getAttribute('aria-current')).toBe('step')
+    expect(await byTest(jobPage, 'apply-step-1').locator('[role="img"] > div').count()).toBe(2)
+    const layerSvg = await jobPage.request.get(`/api/jobs/${numeralsJob}/layers/1/vector.svg`)
+    expect(layerSvg.status()).toBe(200)
+    expect(await layerSvg.text()).toMatch(/<svg[^>]*width="[\d.]+mm"/)
+    await screenshot(jobPage, 'job-application-order')
+    await jobPage.close()
 
     await byTest(page, 'event-kit').click()
     await expect.poll(() => byTest(page, 'notice').innerText(), { timeout: 10_000 }).toMatch(/The event kit is in the cut queue: \d+ reprint jobs?/)
