@@ -148,7 +148,7 @@ describe('number plates in the browser', () => {
     expect(await byTest(jobPage, 'apply-step-1').innerText()).toMatch(/Step 2: layer 2, white numerals \(this job\)[\s\S]*registration marks/)
     expect(await byTest(jobPage, 'apply-step-1').getAttribute('aria-current')).toBe('step')
     expect(await byTest(jobPage, 'apply-step-1').locator('[role="img"] > div').count()).toBe(2)
-    const layerSvg = await jobPage.request.get(`/api/jobs/${numeralsJob}/layers/1/vector.svg`)
+    const layerSvg = await jobPage.request.get(new URL(`/api/jobs/${numeralsJob}/layers/1/vector.svg`, jobPage.url()).href)
     expect(layerSvg.status()).toBe(200)
     expect(await layerSvg.text()).toMatch(/<svg[^>]*width="[\d.]+mm"/)
     await screenshot(jobPage, 'job-application-order')
