@@ -14,7 +14,7 @@ export type RevisionFile = 'vector' | 'prepared' | 'outline' | 'source'
 export async function sendRevisionFile(event: H3Event, row: RevisionRow, kind: RevisionFile, layer?: RevisionLayerRow): Promise<Buffer> {
   // One layer of a layered revision: its own files, named by position and ink.
   const keys = layer ?? row
-  const base = `${fileSlug(row.title, 60, 'artwork')}-r${row.number}${layer ? `-layer${layer.position + 1}-${fileSlug(layer.name, 30, 'ink')}` : ''}`
+  const base = layer ? layerFileBase(row.title, row.number, layer) : `${fileSlug(row.title, 60, 'artwork')}-r${row.number}`
   const file = {
     vector: { key: keys.vector_key, type: 'image/svg+xml', name: `${base}.svg` },
     outline: { key: keys.outline_key, type: 'image/svg+xml', name: `${base}-outline-px.svg` },
@@ -22,6 +22,16 @@ export async function sendRevisionFile(event: H3Event, row: RevisionRow, kind: R
     source: { key: row.source_key, type: row.media_type ?? 'application/octet-stream', name: `${base}-source.${row.media_type ? extensionFor(row.media_type) : 'bin'}` },
   }[kind]
   if (!file.key) throw createError({ statusCode: 404, message: 'A generated plate has only its vector: no source, prepared bitmap or raw outline.' })
+  return sendStoredFile(event, { ...file, key: file.key })
+}
+
+/** The name a layer's files carry: the artwork, the revision, the layer's place and ink. */
+export function layerFileBase(title: string, number: number, layer: Pick<RevisionLayerRow, 'position' | 'name'>): string {
+  return `${fileSlug(title, 60, 'artwork')}-r${number}-layer${layer.position + 1}-${fileSlug(layer.name, 30, 'ink')}`
+}
+
+/** A stored, content-addressed file, inline unless ?download is asked. */
+export async function sendStoredFile(event: H3Event, file: { key: string; type: string; name: string }): Promise<Buffer> {
   const bytes = await getObject(file.key)
   setResponseHeaders(event, {
     'content-type': file.type,

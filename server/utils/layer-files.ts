@@ -1,10 +1,10 @@
 // Route glue for a layered revision's layer files (the same route for each kind of file):
 // the revision found in the viewer's scope (another team's answers 404), then its layer.
 // Auto-imported into routes.
-import { createError, defineEventHandler, getRouterParam } from 'h3'
+import { createError, defineEventHandler, getRouterParam, type H3Event } from 'h3'
 import { MAX_LAYERS } from '#shared/types/layers'
-import { useDb } from '../platform/db'
-import { findRevision, findRevisionLayer } from '../artworks/queries'
+import { useDb, type Db } from '../platform/db'
+import { findRevision, findRevisionLayer, type RevisionLayerRow } from '../artworks/queries'
 import { authorize, requireActor } from './actor'
 import { sendRevisionFile } from './downloads'
 import { idParam } from './request'
@@ -15,10 +15,15 @@ export function revisionLayerFileHandler(kind: 'vector' | 'prepared' | 'outline'
     const actor = await requireActor(event)
     const db = useDb()
     const revision = authorize(actor, 'artwork.view', await findRevision(db, actor, idParam(event)), 'No such revision.')
-    const raw = getRouterParam(event, 'position') ?? ''
-    const position = /^[0-9]$/.test(raw) ? Number(raw) : -1
-    const layer = position >= 0 && position < MAX_LAYERS ? await findRevisionLayer(db, revision.id, position) : undefined
-    if (!layer) throw createError({ statusCode: 404, message: 'No such layer.' })
-    return sendRevisionFile(event, revision, kind, layer)
+    return sendRevisionFile(event, revision, kind, await layerOfRoute(event, db, revision.id))
   })
+}
+
+/** The revision's layer named by the route's [position], or 404. */
+export async function layerOfRoute(event: H3Event, db: Db, revisionId: number): Promise<RevisionLayerRow> {
+  const raw = getRouterParam(event, 'position') ?? ''
+  const position = /^[0-9]$/.test(raw) ? Number(raw) : -1
+  const layer = position >= 0 && position < MAX_LAYERS ? await findRevisionLayer(db, revisionId, position) : undefined
+  if (!layer) throw createError({ statusCode: 404, message: 'No such layer.' })
+  return layer
 }
