@@ -1,10 +1,29 @@
 import { spawn, type ChildProcess } from 'node:child_process'
+import { createServer } from 'node:net'
 import { SERVER_ENTRY } from './build'
 
 export interface AppProcess { child: ChildProcess; url: string; stop: () => Promise<void> }
 
-/** Starts the built server and waits until it answers its health check. */
-export async function startApp(o: { port: number; host: string; env: Record<string, string>; quiet?: boolean }): Promise<AppProcess> {
+/** Whether nothing listens on host:port now (tried by listening there for a moment). */
+export function portIsFree(host: string, port: number): Promise<boolean> {
+  return new Promise((resolve) => {
+    const probe = createServer()
+    probe.once('error', () => resolve(false))
+    probe.listen({ port, host, exclusive: true }, () => probe.close(() => resolve(true)))
+  })
+}
+
+/**
+ * Starts the built server and waits until it answers its health check. The port must be free
+ * first (a process that is still stopping gets a few seconds): otherwise the health check
+ * could be answered by another program, or by an earlier app with other settings.
+ */
+export async function startApp(o: { port: number; host: string; env: Record<string, string>; quiet?: boolean; portWaitMs?: number }): Promise<AppProcess> {
+  const freeBy = Date.now() + (o.portWaitMs ?? 15_000)
+  while (!(await portIsFree(o.host, o.port))) {
+    if (Date.now() > freeBy) throw new Error(`Port ${o.port} on ${o.host} is in use by another program: stop it, or choose another port.`)
+    await new Promise((r) => setTimeout(r, 250))
+  }
   const child = spawn(process.execPath, [SERVER_ENTRY], {
     env: { ...process.env, ...o.env, PORT: String(o.port), HOST: o.host, NITRO_PORT: String(o.port), NITRO_HOST: o.host },
     stdio: o.quiet ? ['ignore', 'pipe', 'pipe'] : 'inherit',

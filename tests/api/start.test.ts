@@ -50,7 +50,7 @@ function descendants(pid: number): { pid: number; command: string }[] {
 
 describe('npm start', () => {
   it('starts the app again after a crash, and stops everything on SIGTERM', async () => {
-    const ports = { app: sparePort(), pg: sparePort(), s3: sparePort(), smtp: sparePort() }
+    const ports = { app: await sparePort(), pg: await sparePort(), s3: await sparePort(), smtp: await sparePort() }
     const storage = path.resolve(`storage/test-start-${process.pid}`)
     rmSync(storage, { recursive: true, force: true })
     const env = Object.fromEntries(Object.entries(process.env).filter(([k]) => !k.startsWith('NUXT_')))

@@ -36,9 +36,9 @@ describe('stalled services', () => {
 
   beforeAll(async () => {
     const dbUrl = new URL(inject('databaseUrl'))
-    db = await pauseProxy({ host: '127.0.0.1', port: Number(dbUrl.port) }, sparePort())
+    db = await pauseProxy({ host: '127.0.0.1', port: Number(dbUrl.port) }, await sparePort())
     const s3Url = new URL(inject('s3').endpoint)
-    s3 = await pauseProxy({ host: '127.0.0.1', port: Number(s3Url.port) }, sparePort())
+    s3 = await pauseProxy({ host: '127.0.0.1', port: Number(s3Url.port) }, await sparePort())
     stops.push(db.close, s3.close)
     dbUrl.port = String(db.port)
     app = await startExtraApp({

@@ -63,7 +63,7 @@ describe('the mail view of the local fake', () => {
 
 describe('the outbox', () => {
   it('keeps mail while the SMTP server is down, shows the failure to mentors, and sends it when the server is back', async () => {
-    const smtpPort = sparePort()
+    const smtpPort = await sparePort()
     const app = await startExtraApp({
       NUXT_DATABASE_URL: await freshDatabase('outbox'),
       NUXT_SMTP_URL: `smtp://127.0.0.1:${smtpPort}`,
