@@ -1,10 +1,13 @@
 // Every page, for every role, at a desktop and a phone width, checked with axe-core against
 // WCAG 2.0, 2.1 and 2.2 levels A and AA (the rule tags axe-core documents for them): no
-// serious or critical finding. A screenshot of each page at each width is kept.
+// serious or critical finding; then, in the same visit, focus walked through every control
+// (target size and nothing focused under a sticky bar, tests/support/focus-walk.ts). A
+// screenshot of each page at each width is kept.
 import { describe } from 'vitest'
 import { AxeBuilder } from '@axe-core/playwright'
 import type { Page } from 'playwright-core'
 import { setupBrowser, screenshot } from '../support/browser'
+import { walkFocus } from '../support/focus-walk'
 import { checkEveryPage } from '../support/pages'
 
 await setupBrowser()
@@ -24,6 +27,9 @@ async function blockingFindings(page: Page) {
 describe('accessibility of every page', () => {
   checkEveryPage('Checked page', async (page, shot) => {
     await screenshot(page, shot)
-    return blockingFindings(page)
+    const axe = await blockingFindings(page)
+    // After axe-core: the walk moves focus and scrolls.
+    const focus = await walkFocus(page)
+    return [...axe, ...focus.map((problem) => ({ focusWalk: problem }))]
   })
 })

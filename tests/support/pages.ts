@@ -8,17 +8,28 @@ import { signInThroughForm } from './browser'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from './demo'
 import { drawing } from './images'
 import { approvedOnRobot, teamId } from './scenario'
+import { photograph, threeInkDrawing } from '../unit/pipeline/colour/drawing'
 import { uploadArtwork } from './upload'
 
 export const ROLES = ['mentor', 'designer', 'student', 'operator'] as const
 export const WIDTHS = [{ name: 'desktop', width: 1440, height: 900 }, { name: 'phone', width: 390, height: 844 }] as const
 const PUBLIC_PATHS = ['/sign-in', '/reset'] as const
 
-/** An artwork in review, an approved one on a robot with a queued job; the pages behind their ids. */
+/**
+ * An artwork in review, an approved one on a robot with a queued job, a layered one (three inks)
+ * on the same robot with its layer jobs; the pages behind their ids.
+ */
 async function arrangeDetailPaths(title: string): Promise<string[]> {
-  const { mentor, artworkId, robotId, revisionId, film } = await approvedOnRobot(title)
+  const { mentor, student: author, artworkId, robotId, revisionId, film, wrens } = await approvedOnRobot(title)
   const placed = await mentor.post('/api/placements', { robotId, revisionId, filmId: film.id, spot: 'front bumper', widthMm: 40, quantity: 1, spares: 1 })
   expect(placed.status, JSON.stringify(placed.body)).toBe(201)
+  const inks = await uploadArtwork(author, { file: (await photograph(threeInkDrawing())).jpeg, fileName: 'three-inks.jpg', title: `${title} in three inks ${Date.now()}`, teamId: wrens, widthMm: 120 })
+  expect(inks.status, JSON.stringify(inks.body)).toBe(201)
+  expect(inks.body.revision.layerCount).toBe(3)
+  expect((await author.post(`/api/revisions/${inks.body.revision.id}/submit`)).status).toBe(200)
+  expect((await mentor.post(`/api/revisions/${inks.body.revision.id}/review`, { decision: 'approve' })).status).toBe(200)
+  const layered = await mentor.post('/api/placements', { robotId, revisionId: inks.body.revision.id, layerFilmIds: [film.id, film.id, film.id], spot: 'side panel', widthMm: 120, quantity: 1 })
+  expect(layered.status, JSON.stringify(layered.body)).toBe(201)
   const student = await signedIn(DEMO_ACCOUNTS.student.email, DEMO_PASSWORD)
   const waiting = await uploadArtwork(student, { file: await drawing('png', 500, 300), title: `Waiting for a look ${Date.now()}`, teamId: await teamId(), widthMm: 70 })
   expect(waiting.status).toBe(201)
@@ -27,6 +38,7 @@ async function arrangeDetailPaths(title: string): Promise<string[]> {
   return [
     `/artworks/${artworkId}`, `/artworks/${artworkId}/bench`, `/artworks/${artworkId}/compare`,
     `/artworks/${waiting.body.artwork.id}`, '/artworks/new',
+    `/artworks/${inks.body.artwork.id}`, `/lab/jobs/${layered.body.jobs[1].id}`,
     `/robots/${robotId}`, `/films/${film.id}`, `/teams/${await teamId()}`, `/lab/jobs/${placed.body.jobs[0].id}`,
     ...(mail[0] ? [`/mail/${mail[0].id}`] : []),
   ]
