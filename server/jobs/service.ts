@@ -9,7 +9,8 @@ import type { Film } from '#shared/types/films'
 import type { JobDetail, JobKind, JobStock, JobView } from '#shared/types/robots'
 import { CUT_FAILURE_LABELS } from '#shared/types/robots'
 import type { jobFailureSchema, jobStateSchema } from '#shared/utils/schemas'
-import { estimateCutSeconds, formatDuration, MOVE_ALLOWANCE_S } from '#shared/utils/cut-time'
+import { cutPerCopy, estimateCutSeconds, formatDuration, MOVE_ALLOWANCE_S, type MarksCut } from '#shared/utils/cut-time'
+import { defaultMarksCut } from '../pipeline/colour/mark-shape'
 import { forecastSheets } from '#shared/films/stock'
 import { decodeCursor, pageOf } from '../platform/cursor'
 import { inTransaction, type Db } from '../platform/db'
@@ -207,14 +208,26 @@ export async function jobViews(db: Db, actor: Actor, rows: JobRow[]): Promise<Jo
   return rows.map((r) => toView(r, byId.get(r.film_id)!, stock.get(r.job_id) ?? null))
 }
 
-/** Cut length and time of every copy of these jobs, all in one film. */
+/**
+ * The registration marks a job cuts beside each copy: none for a one-colour decal; for a
+ * layer, as measured with it, or the default marks for a layer stored before they were.
+ */
+export function marksOfJob(r: Pick<JobRow, 'layer' | 'measurements' | 'stored_mark_count'>): MarksCut | null {
+  if (r.layer === null) return null
+  return r.measurements.marks ?? (r.stored_mark_count > 0 ? defaultMarksCut(r.stored_mark_count) : null)
+}
+
+/** Cut length and time of every copy of these jobs, all in one film: a layer's registration marks included. */
 export function cutEstimate(rows: JobRow[]) {
   const first = rows[0]!
-  let cutLengthMm = 0, outlines = 0
+  let cutLengthMm = 0, outlines = 0, marksMm = 0
   for (const r of rows) {
     const scale = r.job_width / r.revision_width
-    cutLengthMm += r.measurements.cutLengthMm * scale * r.job_quantity
-    outlines += (r.measurements.pieces + r.measurements.holes) * r.job_quantity
+    const marks = marksOfJob(r)
+    const copy = cutPerCopy(r.measurements, marks)
+    cutLengthMm += copy.cutLengthMm * scale * r.job_quantity
+    outlines += copy.outlines * r.job_quantity
+    marksMm += (marks?.cutLengthMm ?? 0) * scale * r.job_quantity
   }
   const { laser_speed_mm_s: speed, laser_passes: passes } = first
   const seconds = estimateCutSeconds({ cutLengthMm, pieces: outlines, speedMmS: speed, passes })
@@ -222,7 +235,7 @@ export function cutEstimate(rows: JobRow[]) {
     cutLengthMm,
     estimate: {
       seconds, text: formatDuration(seconds),
-      how: `Cut length ${Math.round(cutLengthMm)} mm × ${passes} pass${passes === 1 ? '' : 'es'} ÷ ${speed} mm/s, plus ${MOVE_ALLOWANCE_S} s per outline per pass for the moves between them.`,
+      how: `Cut length ${Math.round(cutLengthMm)} mm${marksMm > 0 ? ` (the registration marks' ${Math.round(marksMm)} mm included)` : ''} × ${passes} pass${passes === 1 ? '' : 'es'} ÷ ${speed} mm/s, plus ${MOVE_ALLOWANCE_S} s per outline per pass for the moves between them.`,
     },
   }
 }

@@ -1,12 +1,17 @@
 // Colour layers (migration 0013): the shapes the database, the API and the pages share.
 import type { Measurements } from './pipeline'
 import type { ColourSettings } from '../utils/colour-settings'
+import type { MarksCut } from '../utils/cut-time'
 
 /** At most this many inks become layers of one decal. */
 export const MAX_LAYERS = 6
 
-/** A layer's measurements: the single-colour ones less the grey threshold. */
-export type LayerMeasurements = Omit<Measurements, 'threshold'>
+/**
+ * A layer's measurements: the single-colour ones less the grey threshold (of the layer as cut,
+ * without the registration marks), and the marks cut on the layer's sheet beside it (left out
+ * of layers stored before they were measured; see marksOfLayer in server/jobs).
+ */
+export type LayerMeasurements = Omit<Measurements, 'threshold'> & { marks?: MarksCut }
 
 /** How a lower layer meets the ones above it: runs on under them, or is cut out where they sit. */
 export type LayerStackMode = 'under' | 'knock-out'

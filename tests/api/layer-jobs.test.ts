@@ -6,6 +6,7 @@ import { existsSync } from 'node:fs'
 import { svgPathProperties } from 'svg-path-properties'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { hashPassword } from '../../server/platform/passwords'
+import { MOVE_ALLOWANCE_S } from '../../shared/utils/cut-time'
 import type { ApiClient } from '../support/client'
 import { signedIn } from '../support/client'
 import { testDb } from '../support/db'
@@ -201,6 +202,42 @@ describe('placing a layered decal', () => {
     expect(text).toContain(`Layer 1 of 2 (bottom): red background, 2 copies in Layer Signal red ${stamp}`)
     expect(text).toContain(`Layer 2 of 2: white numerals, 2 copies in Layer Bright white ${stamp}`)
     for (const j of jobs) expect(text).toContain(`/lab/jobs/${j.id}`)
+  })
+
+  it('a layer job\'s cut length and time include its registration marks, as measured on the layer\'s own SVG', async () => {
+    const revision = (await mentor.get(`/api/revisions/${revisionId}`)).body
+    for (const j of jobs) {
+      const d = (await operator.get(`/api/jobs/${j.id}`)).body
+      const layer = d.layer.layers.find((l: { position: number }) => l.position === d.layer.position)
+      const svg = await file(operator, layer.vectorUrl)
+      expect(svg.status).toBe(200)
+      // Every outline of the layer's vector as cut, the marks included, measured by
+      // svg-path-properties (npm), a general-purpose SVG path-length library: the paths' length,
+      // and an outline wherever a part does not start where the last one ended.
+      const mmPerUnit = Number(/\bwidth="([\d.]+)mm"/.exec(svg.body)![1]) / Number(/\bviewBox="[\d.-]+ [\d.-]+ ([\d.]+)/.exec(svg.body)![1])
+      let lengthMm = 0, outlines = 0
+      for (const [, path] of svg.body.matchAll(/<path\b[^>]*\bd="([^"]+)"/g)) {
+        const props = new svgPathProperties(path!)
+        lengthMm += props.getTotalLength() * mmPerUnit
+        let last: { x: number; y: number } | null = null
+        for (const part of props.getParts()) {
+          if (!last || Math.hypot(part.start.x - last.x, part.start.y - last.y) > 1e-6) outlines++
+          last = part.end
+        }
+      }
+      const scale = d.placement.widthMm / revisionWidth
+      // The layer's own measurements leave the marks out; the job adds them: three rings 6 mm
+      // across with their dots, over 30 mm of cut each, far beyond the tolerance below.
+      const design = revision.layers[d.layer.position].measurements.cutLengthMm * scale
+      expect(d.cutLengthMm - design).toBeGreaterThan(90)
+      const { laserSpeedMmS: speed, laserPasses: passes } = d.film
+      // Per copy, within 0.1 % of the measured path (the SVG's coordinates are rounded to 0.01 mm).
+      expect(Math.abs(d.cutLengthMm - lengthMm * scale)).toBeLessThanOrEqual(0.001 * lengthMm * scale)
+      // The estimate as shared/utils/cut-time.ts states it, worked from the measured figures.
+      const expected = (lengthMm * scale * d.quantity * passes) / speed + outlines * d.quantity * passes * MOVE_ALLOWANCE_S
+      expect(Math.abs(d.estimate.seconds - expected)).toBeLessThanOrEqual(0.001 * expected)
+      expect(d.estimate.how).toMatch(/the registration marks' \d+ mm included/)
+    }
   })
 
   it('cuts each layer\'s own vector with the registration marks at the same place relative to the design\'s copy', async () => {

@@ -8,7 +8,8 @@
 // caller runs the ordinary single-colour pipeline (run.ts) on the same request, so a
 // one-colour drawing comes out exactly as it always has.
 import sharp, { type Metadata } from 'sharp'
-import type { EngineVersions, Measurements } from '../../../shared/types/pipeline'
+import type { EngineVersions } from '../../../shared/types/pipeline'
+import type { LayerMeasurements } from '../../../shared/types/layers'
 import { parseSettings, type PipelineSettings, type PipelineSettingsInput } from '../../../shared/utils/settings'
 import { preparedSize } from '../../../shared/utils/units'
 import { cleanVector } from '../clean'
@@ -21,7 +22,7 @@ import { DEFAULT_SMALL_PIECE_MM2, PREVIEW_OPTIONS } from '../run'
 import { ENGINE_VERSIONS_BASE } from '../versions'
 import { outlineToSvg, traceBitmap, type ClosedCurve, type Outline, type Point } from '../trace'
 import type { Lab } from './lab'
-import { DEFAULT_MARKS, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
+import { DEFAULT_MARKS, marksCut, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
 import { stackedPreviewSvg } from './preview'
 import { separateColours, type ColourPick, type FoundInk, type InkLayer, type PaperInfo, type Separation, type SeparationChoices } from './separate'
 import { DEFAULT_STACK, layerVector, stackLayers, type StackSettings } from './stack'
@@ -66,8 +67,7 @@ export interface LayeredRunRequest {
   trim?: { x: number, y: number, width: number, height: number }
 }
 
-/** A layer's measurements: the single-colour ones less the grey threshold. */
-export type LayerMeasurements = Omit<Measurements, 'threshold'>
+export type { LayerMeasurements }
 
 export interface LayerResult {
   name: string
@@ -321,6 +321,8 @@ export function assembleLayers(sep: SeparatedSource, outlined: OutlinedInk[], co
   const stacked = stackLayers(outlined.map((o) => ({ curves: o.curvesMm })), canvas, colour.stack, { seamMm: SEAM_PX / pxPerMm })
   const frame = registrationFrame(stacked, canvas, colour.marks)
   const framed = stacked.map((l) => layerVector(withRegistrationMarks(l.curves, frame), frame))
+  // The marks are cut beside every layer (none when they are off).
+  const marks = marksCut(frame)
   const layers: LayerResult[] = outlined.map((o, i) => {
     const ink = sep.inks[i]!
     const cut = stacked[i]!
@@ -335,6 +337,7 @@ export function assembleLayers(sep: SeparatedSource, outlined: OutlinedInk[], co
         narrowestFeatureMm: o.narrowestFeatureMm,
         smallPieces: smallPieces(cut.curves, 1, smallPieceMm2).length, smallPieceLimitMm2: smallPieceMm2,
         fidelity: o.fidelity, pxPerMm, preparedWidthPx: width, preparedHeightPx: height,
+        marks,
       },
     }
   })
