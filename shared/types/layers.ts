@@ -33,8 +33,14 @@ export interface RevisionColour {
    * size and its shift into that canvas, and the marks' centres, all in mm.
    */
   frame?: { widthMm: number; heightMm: number; drawingWidthMm: number; drawingHeightMm: number; shift: { x: number; y: number }; marks: { x: number; y: number }[] }
-  /** The part of the upright source the drawing was cut from (fractions of its width and height); null when the designer cropped. */
+  /**
+   * The part of the picture the drawing was cut from (fractions of its width and height): of
+   * the upright source, or of the straightened sheet when `straightened`; null when the
+   * designer cropped.
+   */
   trim?: { x: number; y: number; width: number; height: number } | null
+  /** The inks were separated on the sheet the clean-up straightened or turned (the same frame as the one-colour drawing's). */
+  straightened?: boolean
   /** The designer's colour settings from the bench, when they set any (the bench starts from them). */
   asked?: ColourSettings
   detail?: Record<string, unknown>

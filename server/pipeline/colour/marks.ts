@@ -18,6 +18,7 @@ import { markShape, type MarkPlacement } from './mark-shape'
 
 export { DEFAULT_MARKS, MARK_LIMITS, type MarkSettings } from './defaults'
 export { defaultMarksCut, markShape, type MarkPlacement } from './mark-shape'
+
 /** Paper left around the marks on the canvas, mm. */
 const CANVAS_MARGIN_MM = 1
 
