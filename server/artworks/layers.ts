@@ -33,9 +33,11 @@ export async function runRevisionWork(req: { source: Uint8Array; settings: Pipel
   const { colour, ...common } = req
   const singleRun = runInPool({ ...common, purpose: 'revision' })
   // The designer's colour settings from the bench, when given; otherwise found and decided here.
+  // Either way on the frame the one-colour clean-up chose (a photo it straightened, straightened alike).
+  const choices = singleRun.then((r) => r.choices)
   const layeredRun = (colour
-    ? layersAsAsked(runColourInPool, { ...common, purpose: 'revision' }, colour)
-    : layeredUpload(runColourInPool, { ...common, purpose: 'revision' }, singleRun.then((r) => r.choices)))
+    ? layersAsAsked(runColourInPool, { ...common, purpose: 'revision' }, colour, choices)
+    : layeredUpload(runColourInPool, { ...common, purpose: 'revision' }, choices))
     .catch((err: unknown) => ({ kind: 'failed' as const, err }))
   const single = await singleRun
   const layered = await layeredRun

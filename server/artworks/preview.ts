@@ -87,8 +87,11 @@ export async function previewArtwork(db: Db, artwork: ArtworkRow, input: { setti
   const small = await previewSource(source.object_key)
   // A copy crosses to the worker; the cached bytes stay here.
   const scaled = scaleSourceGeometry(settings, small.scale, small.width, small.height)
-  const colour = input.colour ? previewColour({ source: small.png.slice(), settings: scaled, widthMm: input.widthMm, purpose: 'preview' }, input.colour) : null
-  const result = await runInPool({ source: small.png.slice(), settings: scaled, widthMm: input.widthMm, purpose: 'preview', sourceKey: `${source.content_hash} preview` }, signal)
+  const single = runInPool({ source: small.png.slice(), settings: scaled, widthMm: input.widthMm, purpose: 'preview', sourceKey: `${source.content_hash} preview` }, signal)
+  // The layers on the frame the outline's clean-up chose (its corners are the preview source's, as these settings are).
+  const colour = input.colour ? previewColour({ source: small.png.slice(), settings: scaled, widthMm: input.widthMm, purpose: 'preview' }, input.colour, single.then((r) => r.choices)) : null
+  colour?.catch(() => undefined)
+  const result = await single
   return {
     colour: await colour,
     svg: result.cleanSvg,
@@ -101,8 +104,8 @@ export async function previewArtwork(db: Db, artwork: ArtworkRow, input: { setti
 }
 
 /** The colour layers of the preview, beside its one-colour outline (the same shrunk source, in the same pool). */
-async function previewColour(req: LayeredRunRequest, asked: ColourSettings): Promise<PreviewColour> {
-  const made = await layersAsAsked(runColourInPool, req, asked)
+async function previewColour(req: LayeredRunRequest, asked: ColourSettings, choices: Promise<CleanUpChoice[]>): Promise<PreviewColour> {
+  const made = await layersAsAsked(runColourInPool, req, asked, choices)
   const found = (made.found ?? []).map(({ name, hex, share, tooSmall }) => ({ name, hex, share, tooSmall }))
   if (made.kind === 'single') return { found, layers: [], stackedSvg: null, sentence: made.why }
   return { found, layers: made.result.layers.map((l) => ({ name: l.name, hex: l.hex })), stackedSvg: made.result.stackedSvg, sentence: made.colour.sentence }

@@ -2,6 +2,7 @@ import { sql } from 'kysely'
 import { jsonArrayFrom } from 'kysely/helpers/postgres'
 import type { JobState } from '#shared/types/robots'
 import type { Measurements } from '#shared/types/pipeline'
+import type { MarksCut } from '#shared/utils/cut-time'
 import type { Db } from '../platform/db'
 import { teamScope, type Actor } from '../policy'
 
@@ -36,7 +37,12 @@ function visibleJobs(db: Db, actor: Actor) {
       'team.id as teamId', 'team.program_id as programId', 'team.name as team_name', 'team.colour as team_colour',
       'revision.id as revision_id', 'revision.number as revision_number', 'revision.width_mm as revision_width', 'revision.height_mm as revision_height',
       sql<string>`coalesce(cut_layer.vector_key, revision.vector_key)`.as('vector_key'),
-      sql<Measurements>`coalesce(cut_layer.measurements, revision.measurements)`.as('measurements'),
+      sql<Measurements & { marks?: MarksCut }>`coalesce(cut_layer.measurements, revision.measurements)`.as('measurements'),
+      // How many registration marks a layer's sheet cuts beside it, for a layer stored before
+      // its marks were measured with it: the frame's, or the three of a plate framed with them.
+      sql<number>`case when job.layer is null then 0
+        when jsonb_typeof(revision.colour->'frame'->'marks') = 'array' then jsonb_array_length(revision.colour->'frame'->'marks')
+        when (revision.colour->>'marks')::boolean then 3 else 0 end`.as('stored_mark_count'),
       'artwork.id as artwork_id', 'artwork.title',
       'job.layer', 'job.order_id', 'revision.layer_count', 'cut_layer.name as layer_name', 'cut_layer.hex as layer_hex',
       // Every layer of the revision, for the order in which they are laid on the robot.

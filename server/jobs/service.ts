@@ -9,7 +9,8 @@ import type { Film } from '#shared/types/films'
 import type { JobDetail, JobKind, JobStock, JobView } from '#shared/types/robots'
 import { CUT_FAILURE_LABELS } from '#shared/types/robots'
 import type { jobFailureSchema, jobStateSchema } from '#shared/utils/schemas'
-import { estimateCutSeconds, formatDuration, MOVE_ALLOWANCE_S } from '#shared/utils/cut-time'
+import { cutPerCopy, estimateCutSeconds, formatDuration, MOVE_ALLOWANCE_S, type MarksCut } from '#shared/utils/cut-time'
+import { defaultMarksCut } from '../pipeline/colour/mark-shape'
 import { forecastSheets } from '#shared/films/stock'
 import { decodeCursor, pageOf } from '../platform/cursor'
 import { inTransaction, type Db } from '../platform/db'
@@ -18,7 +19,7 @@ import { fileSlug } from '../platform/file-names'
 import { fieldError } from '../platform/http'
 import { flags, type Actor } from '../policy'
 import { audit, by, historyOf } from '../history/service'
-import { newJobMail } from '../mail/templates'
+import { newJobMail, newJobsMail, type ListedJob } from '../mail/templates'
 import { notUsableBecause, takeSheets, toFilm } from '../films/service'
 import { filmOfProgram, filmsOfProgram } from '../films/queries'
 import { DEFAULT_SHEET, defaultSheetCount, keptOrQueued, sheetLayout, type SheetAnswer, type SheetOptions } from './sheets'
@@ -57,15 +58,42 @@ export function refusedFilm(err: unknown): never {
   throw err
 }
 
+/** A job just queued, with what the operators' mail says of it. */
+interface QueuedJob { id: number; title: string; film: string; layer: ListedJob['layer'] }
+
+/** One cut just queued: what was asked, and its jobs (one per layer of a layered decal). */
+interface QueuedCut { cut: NewJob; jobs: QueuedJob[] }
+
 /**
- * Queues a cut, writes its history line and mails the operators, all in the caller's
+ * Queues a cut, writes its history lines and mails the operators once, all in the caller's
  * transaction: every query here goes through `trx`, never a second pool connection. For a
  * layered decal the cut is one order of one job per layer (or of the one layer asked for),
  * each in its layer's film; the answer is the jobs' ids, bottom layer first.
  */
 export async function queueJobs(trx: Transaction<Database>, actor: Actor, o: NewJob): Promise<number[]> {
+  return (await queueCuts(trx, actor, [o]))[0]!
+}
+
+/**
+ * Several cuts queued by one change (the event kit's reprints), each as queueJobs queues it,
+ * with one mail to each team's operators listing every job: one message per change, however
+ * many layers and decals it queues. The answer is each cut's jobs' ids, in the order asked.
+ */
+export async function queueCuts(trx: Transaction<Database>, actor: Actor, cuts: NewJob[]): Promise<number[][]> {
+  const queued: QueuedCut[] = []
+  for (const o of cuts) queued.push(await insertCut(trx, actor, o))
+  for (const teamId of new Set(cuts.map((c) => c.teamId))) {
+    await mailOperators(trx, actor, teamId, queued.filter((q) => q.cut.teamId === teamId))
+  }
+  return queued.map((q) => q.jobs.map((j) => j.id))
+}
+
+async function insertCut(trx: Transaction<Database>, actor: Actor, o: NewJob): Promise<QueuedCut> {
   const layers = await layerFilmsOfPlacement(trx, o.placementId)
-  if (layers.length === 0) return [await insertJob(trx, actor, o, null)]
+  if (layers.length === 0) {
+    const film = await trx.selectFrom('film').select('name').where('id', '=', o.filmId).executeTakeFirst()
+    return { cut: o, jobs: [{ id: await insertJob(trx, actor, o, null), title: o.title, film: film?.name ?? '', layer: null }] }
+  }
   const cut = o.layer === undefined ? layers : layers.filter((l) => l.position === o.layer)
   if (cut.length === 0) throw fieldError(400, `This decal has ${layers.length} layers: choose one of them.`, 'layer')
   // The database refuses a film that is not cleared; a retired one is refused here, for every caller.
@@ -74,11 +102,13 @@ export async function queueJobs(trx: Transaction<Database>, actor: Actor, o: New
     throw createError({ statusCode: 422, message: `“${o.title}” has layer ${blocked.position + 1} (${blocked.name}) placed in ${blocked.film_name}, which may not be cut now: place it again in another film.` })
   }
   const orderId = o.orderId ?? (await trx.insertInto('job_order').values({ placement_id: o.placementId, created_by: actor.id }).returning('id').executeTakeFirstOrThrow()).id
-  const ids: number[] = []
+  const jobs: QueuedJob[] = []
   for (const l of cut) {
-    ids.push(await insertJob(trx, actor, { ...o, filmId: l.film_id }, { layer: l.position, orderId, words: `layer ${l.position + 1} of ${layers.length}: ${l.name}, in ${l.film_name}` }))
+    const title = `${o.title} (layer ${l.position + 1} of ${layers.length}: ${l.name}, in ${l.film_name})`
+    const id = await insertJob(trx, actor, { ...o, filmId: l.film_id }, { layer: l.position, orderId, title })
+    jobs.push({ id, title, film: l.film_name, layer: { position: l.position, count: layers.length, name: l.name } })
   }
-  return ids
+  return { cut: o, jobs }
 }
 
 /** One job of queueJobs: the first (a one-colour decal's only) job's id. */
@@ -86,19 +116,37 @@ export async function queueJob(trx: Transaction<Database>, actor: Actor, o: NewJ
   return (await queueJobs(trx, actor, o))[0]!
 }
 
-async function insertJob(trx: Transaction<Database>, actor: Actor, o: NewJob, layer: { layer: number; orderId: number; words: string } | null): Promise<number> {
+async function insertJob(trx: Transaction<Database>, actor: Actor, o: NewJob, layer: { layer: number; orderId: number; title: string } | null): Promise<number> {
   const job = await trx.insertInto('job').values({
     placement_id: o.placementId, kind: o.kind, quantity: o.quantity, reason: o.reason, film_id: o.filmId, width_mm: o.widthMm,
     recut_of: o.recutOf ?? null, created_by: actor.id, layer: layer?.layer ?? null, order_id: layer?.orderId ?? null,
   }).returning('id').executeTakeFirstOrThrow().catch(refusedFilm)
-  const title = layer ? `${o.title} (${layer.words})` : o.title
-  const ref = { title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason }
+  const ref = { title: layer?.title ?? o.title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason }
   const about = { robotId: o.robotId }
   if (o.kind === 'recut') await audit(trx, { ...by(actor), action: 'recut', subject: 'job', subjectId: job.id, detail: { ...ref, recutOf: o.recutOf! }, about })
   else await audit(trx, { ...by(actor), action: QUEUE_ACTION[o.kind], subject: 'job', subjectId: job.id, detail: ref, about })
-  const to = await operatorEmails(trx, actor.programId, o.teamId)
-  await queueMail(trx, actor.programId, newJobMail({ to, kind: o.kind, title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason, by: actor.name, url: absoluteUrl(`/lab/jobs/${job.id}`) }))
   return job.id
+}
+
+/**
+ * The mail to a team's operators for what one change queued: a single job as it always was;
+ * several (a layered decal's layers, an event kit) in one message listing each with its link.
+ */
+async function mailOperators(trx: Transaction<Database>, actor: Actor, teamId: number, queued: QueuedCut[]) {
+  const to = await operatorEmails(trx, actor.programId, teamId)
+  const url = (id: number) => absoluteUrl(`/lab/jobs/${id}`)
+  const jobs = queued.flatMap((q) => q.jobs.map((j) => ({ ...j, cut: q.cut })))
+  if (jobs.length === 0) return
+  if (jobs.length === 1) {
+    const { cut: o, ...j } = jobs[0]!
+    await queueMail(trx, actor.programId, newJobMail({ to, kind: o.kind, title: j.title, robot: o.robotName, spot: o.spot, quantity: o.quantity, reason: o.reason, by: actor.name, url: url(j.id) }))
+    return
+  }
+  const kinds = new Set(jobs.map((j) => j.cut.kind)), reasons = new Set(jobs.map((j) => j.cut.reason))
+  await queueMail(trx, actor.programId, newJobsMail({
+    to, kind: kinds.size === 1 ? jobs[0]!.cut.kind : 'initial', by: actor.name, reason: reasons.size === 1 ? jobs[0]!.cut.reason : '',
+    jobs: jobs.map((j) => ({ title: j.cut.title, robot: j.cut.robotName, spot: j.cut.spot, quantity: j.cut.quantity, film: j.film, layer: j.layer, url: url(j.id) })),
+  }))
 }
 
 const iso = (t: Date | string | null) => (t ? new Date(t).toISOString() : null)
@@ -160,14 +208,26 @@ export async function jobViews(db: Db, actor: Actor, rows: JobRow[]): Promise<Jo
   return rows.map((r) => toView(r, byId.get(r.film_id)!, stock.get(r.job_id) ?? null))
 }
 
-/** Cut length and time of every copy of these jobs, all in one film. */
+/**
+ * The registration marks a job cuts beside each copy: none for a one-colour decal; for a
+ * layer, as measured with it, or the default marks for a layer stored before they were.
+ */
+export function marksOfJob(r: Pick<JobRow, 'layer' | 'measurements' | 'stored_mark_count'>): MarksCut | null {
+  if (r.layer === null) return null
+  return r.measurements.marks ?? (r.stored_mark_count > 0 ? defaultMarksCut(r.stored_mark_count) : null)
+}
+
+/** Cut length and time of every copy of these jobs, all in one film: a layer's registration marks included. */
 export function cutEstimate(rows: JobRow[]) {
   const first = rows[0]!
-  let cutLengthMm = 0, outlines = 0
+  let cutLengthMm = 0, outlines = 0, marksMm = 0
   for (const r of rows) {
     const scale = r.job_width / r.revision_width
-    cutLengthMm += r.measurements.cutLengthMm * scale * r.job_quantity
-    outlines += (r.measurements.pieces + r.measurements.holes) * r.job_quantity
+    const marks = marksOfJob(r)
+    const copy = cutPerCopy(r.measurements, marks)
+    cutLengthMm += copy.cutLengthMm * scale * r.job_quantity
+    outlines += copy.outlines * r.job_quantity
+    marksMm += (marks?.cutLengthMm ?? 0) * scale * r.job_quantity
   }
   const { laser_speed_mm_s: speed, laser_passes: passes } = first
   const seconds = estimateCutSeconds({ cutLengthMm, pieces: outlines, speedMmS: speed, passes })
@@ -175,7 +235,7 @@ export function cutEstimate(rows: JobRow[]) {
     cutLengthMm,
     estimate: {
       seconds, text: formatDuration(seconds),
-      how: `Cut length ${Math.round(cutLengthMm)} mm × ${passes} pass${passes === 1 ? '' : 'es'} ÷ ${speed} mm/s, plus ${MOVE_ALLOWANCE_S} s per outline per pass for the moves between them.`,
+      how: `Cut length ${Math.round(cutLengthMm)} mm${marksMm > 0 ? ` (the registration marks' ${Math.round(marksMm)} mm included)` : ''} × ${passes} pass${passes === 1 ? '' : 'es'} ÷ ${speed} mm/s, plus ${MOVE_ALLOWANCE_S} s per outline per pass for the moves between them.`,
     },
   }
 }

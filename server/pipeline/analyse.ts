@@ -35,7 +35,7 @@ export const UNEVEN_PAPER = 0.12
 /** Below this ink contrast (darkest strokes against the paper), the drawing counts as faint. */
 export const FAINT_INK = 0.45
 /** Share of the sheet left out along its edges when straightened (the paper's own edge). */
-const SHEET_INSET = 0.008
+export const SHEET_INSET = 0.008
 
 export interface AnalysisInput {
   /** The upright (and cropped) source shrunk to the analysis copy: R′G′B′, 3 bytes a pixel. */

@@ -21,6 +21,7 @@ import { abandonClaim, claimAndStore, settleClaim } from '../artworks/objects'
 import { ENGINE_VERSIONS_BASE } from '../pipeline/versions'
 import { DEFAULT_PLATE_FONT_ID, PLATE_FONTS, loadPlateFont } from './font'
 import { PLATE_COLOUR_HEX, PlateRequestError, framePlate, generatePlate, type GeneratedPlate } from './generate'
+import { marksCut } from '../pipeline/colour/marks'
 import { measureLayer, type LayerMeasurements } from './measure'
 import { chosenProfile, findRuleProfile, resolveProfile, type RuleProfileRow } from './queries'
 import { plateFontChoices } from './service'
@@ -175,9 +176,11 @@ export async function createPlateArtworks(db: Db, actor: Actor, team: Team, inpu
         ...(framed ? { layer_count: stored.length, colour: JSON.stringify(colour) } : {}),
       }).returning('id').executeTakeFirstOrThrow()
       if (framed) {
+        // The marks are outside each layer's measured ink, yet cut on its sheet beside it.
+        const marks = marksCut(framed.frame)
         await trx.insertInto('revision_layer').values(stored.map((l, position) => {
           const { threshold: _, ...m } = asMeasurements(l.measured)
-          return { revision_id: rev.id, position, name: `${l.colour} ${l.role}`, hex: l.hex, prepared_key: null, outline_key: null, vector_key: l.key, measurements: JSON.stringify(m) }
+          return { revision_id: rev.id, position, name: `${l.colour} ${l.role}`, hex: l.hex, prepared_key: null, outline_key: null, vector_key: l.key, measurements: JSON.stringify({ ...m, marks }) }
         })).execute()
       }
       await audit(trx, {

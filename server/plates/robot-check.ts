@@ -8,7 +8,7 @@ import type { RobotSide } from '../../shared/plates/profiles'
 import type { EventKit, PlateFacts, RobotPlateCheck } from '../../shared/types/plates'
 import { inTransaction, type Db } from '../platform/db'
 import { flags, type Actor } from '../policy'
-import { queueJobs } from '../jobs/service'
+import { queueCuts } from '../jobs/service'
 import { createBatch } from '../batches/service'
 import type { RobotRow } from '../robots/queries'
 import { chosenProfile, resolveProfile } from './queries'
@@ -119,20 +119,21 @@ export async function queueEventKit(db: Db, actor: Actor, robot: RobotRow): Prom
     }
     const jobIds: number[] = []
     const films = new Map<number, { filmName: string; jobIds: number[]; copies: number }>()
-    for (const r of rows) {
-      const quantity = Math.max(r.spares, 1)
-      // A layered decal is one job per layer, each in its layer's film: each joins its film's batch.
-      const ids = await queueJobs(trx, actor, {
-        placementId: r.id, filmId: r.film_id, kind: 'reprint', quantity, widthMm: r.width_mm, reason: EVENT_KIT_REASON,
-        teamId: robot.teamId, robotId: robot.id, robotName: robot.name, title: r.title, spot: r.spot,
-      })
+    const quantityOf = (r: (typeof rows)[number]) => Math.max(r.spares, 1)
+    // A layered decal is one job per layer, each in its layer's film: each joins its film's
+    // batch. Queued together, so the operators get one mail for the whole kit.
+    const queuedIds = await queueCuts(trx, actor, rows.map((r) => ({
+      placementId: r.id, filmId: r.film_id, kind: 'reprint' as const, quantity: quantityOf(r), widthMm: r.width_mm, reason: EVENT_KIT_REASON,
+      teamId: robot.teamId, robotId: robot.id, robotName: robot.name, title: r.title, spot: r.spot,
+    })))
+    for (const [i, r] of rows.entries()) {
       const queued = await trx.selectFrom('job').innerJoin('film', 'film.id', 'job.film_id').select(['job.id', 'job.film_id', 'film.name'])
-        .where('job.id', 'in', ids).orderBy('job.id').execute()
+        .where('job.id', 'in', queuedIds[i]!).orderBy('job.id').execute()
       for (const j of queued) {
         const film = films.get(j.film_id) ?? { filmName: j.name, jobIds: [], copies: 0 }
         jobIds.push(j.id)
         film.jobIds.push(j.id)
-        film.copies += quantity
+        film.copies += quantityOf(r)
         films.set(j.film_id, film)
       }
     }

@@ -15,6 +15,18 @@ export interface CutTimeInput {
   passes: number
 }
 
+/** The registration marks cut with a layer on its sheet: their outlines' length and how many outlines they are. */
+export interface MarksCut { cutLengthMm: number; outlines: number }
+
+/**
+ * What one copy cuts: every outline of the design (pieces and holes) and, on a layer's sheet,
+ * the registration marks beside it. The marks are outside the layer's measurements (those
+ * describe the decal), yet the beam cuts them with every copy of every layer.
+ */
+export function cutPerCopy(m: { cutLengthMm: number; pieces: number; holes: number }, marks: MarksCut | null = null): { cutLengthMm: number; outlines: number } {
+  return { cutLengthMm: m.cutLengthMm + (marks?.cutLengthMm ?? 0), outlines: m.pieces + m.holes + (marks?.outlines ?? 0) }
+}
+
 export function estimateCutSeconds(i: CutTimeInput): number {
   if (!(i.speedMmS > 0)) throw new RangeError('The laser speed must be positive.')
   return (i.cutLengthMm * i.passes) / i.speedMmS + i.pieces * i.passes * MOVE_ALLOWANCE_S

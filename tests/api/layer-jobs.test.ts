@@ -6,10 +6,12 @@ import { existsSync } from 'node:fs'
 import { svgPathProperties } from 'svg-path-properties'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { hashPassword } from '../../server/platform/passwords'
+import { MOVE_ALLOWANCE_S } from '../../shared/utils/cut-time'
 import type { ApiClient } from '../support/client'
 import { signedIn } from '../support/client'
 import { testDb } from '../support/db'
 import { addRobot, buildProgram, type ProgramFixture } from '../support/fixtures'
+import { mailTo } from '../support/mail'
 
 const PYTHON = '/usr/bin/python3'
 const PASSWORD = 'fixture-password-123'
@@ -118,6 +120,20 @@ beforeAll(async () => {
   otherRobot = await addRobot(db, other.teams[0].id)
 })
 
+/**
+ * Every message the SMTP fake received for `email`, once the app's outbox holds none still
+ * waiting for that address (mail goes out after commit; the fake keeps each as it arrives).
+ */
+async function deliveredTo(email: string) {
+  const deadline = Date.now() + 20_000
+  for (;;) {
+    const waiting = await testDb().selectFrom('mail_outbox').select('id').where('to_email', '=', email).where('sent_at', 'is', null).execute()
+    if (waiting.length === 0) return mailTo(email)
+    if (Date.now() > deadline) throw new Error(`${waiting.length} messages to ${email} still waiting in the outbox`)
+    await new Promise((r) => setTimeout(r, 100))
+  }
+}
+
 const placementCount = async () => (await testDb().selectFrom('placement').select((eb) => eb.fn.countAll<number>().as('n'))
   .where('robot_id', '=', robotId).executeTakeFirstOrThrow()).n
 
@@ -175,6 +191,53 @@ describe('placing a layered decal', () => {
     expect(job.layer).toMatchObject({ position: 1, count: 2, name: 'white numerals' })
     expect(job.layer.order.map((j: { id: number }) => j.id)).toEqual(jobs.map((j) => j.id))
     expect(job.film.id).toBe(films.white)
+  })
+
+  it('mails the operators once for the order, listing every layer with its film, copies and a link to its job', async () => {
+    const email = program.emails.get(program.teams[0].operator)!
+    const robotName = `Layer bot ${stamp}`
+    const mails = (await deliveredTo(email)).filter((m) => /^New cut job/.test(m.subject ?? '') && (m.subject ?? '').includes(robotName))
+    expect(mails.map((m) => m.subject)).toEqual([expect.stringMatching(/^New cut job: 2 × Plate 3141: .* in 2 layers$/)])
+    const text = mails[0]!.text ?? ''
+    expect(text).toContain(`Layer 1 of 2 (bottom): red background, 2 copies in Layer Signal red ${stamp}`)
+    expect(text).toContain(`Layer 2 of 2: white numerals, 2 copies in Layer Bright white ${stamp}`)
+    for (const j of jobs) expect(text).toContain(`/lab/jobs/${j.id}`)
+  })
+
+  it('a layer job\'s cut length and time include its registration marks, as measured on the layer\'s own SVG', async () => {
+    const revision = (await mentor.get(`/api/revisions/${revisionId}`)).body
+    for (const j of jobs) {
+      const d = (await operator.get(`/api/jobs/${j.id}`)).body
+      const layer = d.layer.layers.find((l: { position: number }) => l.position === d.layer.position)
+      const svg = await file(operator, layer.vectorUrl)
+      expect(svg.status).toBe(200)
+      // Every outline of the layer's vector as cut, the marks included, measured by
+      // svg-path-properties (npm), a general-purpose SVG path-length library: the paths' length,
+      // and an outline wherever a part does not start where the last one ended.
+      const mmPerUnit = Number(/\bwidth="([\d.]+)mm"/.exec(svg.body)![1]) / Number(/\bviewBox="[\d.-]+ [\d.-]+ ([\d.]+)/.exec(svg.body)![1])
+      let lengthMm = 0, outlines = 0
+      for (const [, path] of svg.body.matchAll(/<path\b[^>]*\bd="([^"]+)"/g)) {
+        const props = new svgPathProperties(path!)
+        lengthMm += props.getTotalLength() * mmPerUnit
+        let last: { x: number; y: number } | null = null
+        for (const part of props.getParts()) {
+          if (!last || Math.hypot(part.start.x - last.x, part.start.y - last.y) > 1e-6) outlines++
+          last = part.end
+        }
+      }
+      const scale = d.placement.widthMm / revisionWidth
+      // The layer's own measurements leave the marks out; the job adds them: three rings 6 mm
+      // across with their dots, over 30 mm of cut each, far beyond the tolerance below.
+      const design = revision.layers[d.layer.position].measurements.cutLengthMm * scale
+      expect(d.cutLengthMm - design).toBeGreaterThan(90)
+      const { laserSpeedMmS: speed, laserPasses: passes } = d.film
+      // Per copy, within 0.1 % of the measured path (the SVG's coordinates are rounded to 0.01 mm).
+      expect(Math.abs(d.cutLengthMm - lengthMm * scale)).toBeLessThanOrEqual(0.001 * lengthMm * scale)
+      // The estimate as shared/utils/cut-time.ts states it, worked from the measured figures.
+      const expected = (lengthMm * scale * d.quantity * passes) / speed + outlines * d.quantity * passes * MOVE_ALLOWANCE_S
+      expect(Math.abs(d.estimate.seconds - expected)).toBeLessThanOrEqual(0.001 * expected)
+      expect(d.estimate.how).toMatch(/the registration marks' \d+ mm included/)
+    }
   })
 
   it('cuts each layer\'s own vector with the registration marks at the same place relative to the design\'s copy', async () => {
@@ -266,6 +329,26 @@ describe('placing a layered decal', () => {
     const made = await testDb().selectFrom('job').select(['layer', 'film_id', 'order_id', 'kind', 'quantity']).where('id', 'in', r.body.queuedJobIds).orderBy('layer').execute()
     expect(made.map((j) => [j.kind, j.layer, j.film_id, j.quantity])).toEqual([['extra', 0, films.red, 1], ['extra', 1, films.white, 1]])
     expect(made[0]!.order_id).toBe(made[1]!.order_id)
+  })
+
+  it('the event kit mails the operators once for every job it queues', async () => {
+    const kitRobot = (await mentor.post('/api/robots', { teamId: program.teams[0].id, name: `Kit bot ${stamp}`, season: '2025–26' })).body.id
+    for (const [side, spot] of [['front', 'front bumper'], ['back', 'back bumper']]) {
+      const p = await mentor.post('/api/placements', { robotId: kitRobot, revisionId, layerFilmIds: [films.red, films.white], spot, side, widthMm: revisionWidth, quantity: 1, spares: 1 })
+      expect(p.status, JSON.stringify(p.body)).toBe(201)
+    }
+    const kit = await student.post(`/api/robots/${kitRobot}/event-kit`)
+    expect(kit.status, JSON.stringify(kit.body)).toBe(201)
+    // Two plates of two layers each: four reprint jobs, in one request.
+    expect(kit.body.jobIds).toHaveLength(4)
+    const email = program.emails.get(program.teams[0].operator)!
+    const mine = (await deliveredTo(email)).filter((m) => (m.subject ?? '').includes(`Kit bot ${stamp}`))
+    expect(mine.filter((m) => /^New cut job/.test(m.subject ?? ''))).toHaveLength(2)
+    const kitMails = mine.filter((m) => /^Reprint/.test(m.subject ?? ''))
+    expect(kitMails.map((m) => m.subject)).toEqual([`Reprint: 4 jobs for Kit bot ${stamp}`])
+    const text = kitMails[0]!.text ?? ''
+    for (const id of kit.body.jobIds as number[]) expect(text).toContain(`/lab/jobs/${id}`)
+    expect(text).toContain('for the back bumper, layer 2 of 2: white numerals: 1 copy in Layer Bright white')
   })
 
   it('removing the placement cancels every layer\'s queued jobs', async () => {

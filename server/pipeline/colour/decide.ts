@@ -6,11 +6,9 @@
 //    line across the sheet (a margin line);
 //  - greys: black, grey and pencil shading are one ink (graphite pressed harder is not a second
 //    film), so every ink of low chroma joins the others of low chroma;
-//  - small inks: less than MIN_LAYER_SHARE of the drawing's ink (specks, a stray blend);
-//  - a photo taken at an angle (the clean-up straightened its sheet): the colour path does not
-//    straighten, so the drawing stays one colour there.
+//  - small inks: less than MIN_LAYER_SHARE of the drawing's ink (specks, a stray blend).
+// A photo taken at an angle is judged on the sheet the clean-up straightened (straighten.ts).
 // Pure: plain data in, plain data out.
-import type { CleanUpChoice } from '../../../shared/types/pipeline'
 import { findPaperLines, removeLines } from '../lines'
 import { lch, type Lab } from './lab'
 
@@ -83,12 +81,8 @@ export function paperLineShare(mask: Uint8Array, width: number, height: number):
 
 const neutral = (lab: Lab) => lch(lab).c < NEUTRAL_CHROMA
 
-/** Which inks become layers (see the top of this file). `choices` are the single-colour clean-up's, for the same source. */
-export function decideLayers(inks: InkToJudge[], width: number, height: number, choices: CleanUpChoice[] = []): LayerDecision {
-  const corners = choices.find((c) => c.setting === 'corners')
-  if (corners && corners.setting === 'corners' && corners.value.mode !== 'off') {
-    return { layered: false, groups: [], leftOut: [], why: 'The photo was straightened from its sheet\'s corners, which the colour layers do not do yet: one colour.' }
-  }
+/** Which inks become layers (see the top of this file). */
+export function decideLayers(inks: InkToJudge[], width: number, height: number): LayerDecision {
   const allInk = inks.reduce((s, i) => s + i.share, 0) || 1
   const leftOut: LayerDecision['leftOut'] = []
   const kept: number[] = []

@@ -1,35 +1,26 @@
 // Registration marks: the same small marks, at the same place, on every layer of a decal, so
 // the cut films can be laid on each other in register.
 //
-// Our mark: a notched ring with a dot at its centre. The ring (outer diameter sizeMm, band
+// Our mark (its shape in mark-shape.ts): a notched ring with a dot at its centre. The ring (outer diameter sizeMm, band
 // RING_BAND_FRACTION of it) has a straight notch cut through it on the side facing the
 // design's centre, so a layer turned or flipped shows at once; the dot marks the centre to
 // line up by eye or with a pin. Three marks sit at three corners of the design's box (top
 // left, top right, bottom left: an L, again so a turned sheet shows), each clearanceMm clear of
 // the box. Every layer of one decal gets the same frame: the same canvas, the same shift of its
 // drawing into that canvas, and the marks at the same coordinates.
+import type { MarksCut } from '../../../shared/utils/cut-time'
 import { flattenCurve, round2, type CutCurve } from '../../cutsheet/path'
-import type { ClosedCurve, Point, Segment } from '../trace'
+import { measureCurves } from '../geometry'
+import type { ClosedCurve, Point } from '../trace'
 import { signedCurves, type Canvas } from './stack'
 import { DEFAULT_MARKS, MARK_LIMITS, type MarkSettings } from './defaults'
+import { markShape, type MarkPlacement } from './mark-shape'
 
 export { DEFAULT_MARKS, MARK_LIMITS, type MarkSettings } from './defaults'
-/** The ring's band width as a fraction of its outer diameter. */
-const RING_BAND_FRACTION = 0.14
-/** The notch's width as a fraction of the outer diameter. */
-const NOTCH_FRACTION = 0.18
-/** The dot's radius as a fraction of the outer diameter. */
-const DOT_FRACTION = 0.11
+export { defaultMarksCut, markShape, type MarkPlacement } from './mark-shape'
+
 /** Paper left around the marks on the canvas, mm. */
 const CANVAS_MARGIN_MM = 1
-
-export interface MarkPlacement {
-  /** Centre of the ring, mm, in the framed canvas. */
-  x: number
-  y: number
-  /** Direction the notch opens towards (the design's centre), radians, y down. */
-  notchAngle: number
-}
 
 export interface RegistrationFrame {
   /** The canvas every layer is drawn on, marks included. */
@@ -100,57 +91,15 @@ export function registrationMarkPositions(frame: RegistrationFrame): Point[] {
   return frame.marks.map((m) => ({ x: m.x, y: m.y }))
 }
 
-// ---------------------------------------------------------------------------------------
-// The mark's shape, as exact lines and cubic arcs
-// ---------------------------------------------------------------------------------------
-
-const at = (cx: number, cy: number, r: number, t: number): Point => ({ x: cx + r * Math.cos(t), y: cy + r * Math.sin(t) })
-
-/**
- * A circular arc from angle t0 to t1 as cubics of at most 90° each, control points at
- * k = 4/3 · tan(Δ/4) of the radius along the tangents (handbook Bézier geometry).
- */
-function arc(cx: number, cy: number, r: number, t0: number, t1: number): Segment[] {
-  const pieces = Math.max(1, Math.ceil(Math.abs(t1 - t0) / (Math.PI / 2) - 1e-9))
-  const step = (t1 - t0) / pieces
-  const k = (4 / 3) * Math.tan(step / 4) * r
-  const out: Segment[] = []
-  for (let i = 0; i < pieces; i++) {
-    const a = t0 + i * step, b = a + step
-    const from = at(cx, cy, r, a), to = at(cx, cy, r, b)
-    out.push({
-      kind: 'cubic', from,
-      c1: { x: from.x - k * Math.sin(a), y: from.y + k * Math.cos(a) },
-      c2: { x: to.x + k * Math.sin(b), y: to.y - k * Math.cos(b) },
-      to,
-    })
-  }
-  return out
-}
-
-/** One mark: the notched ring and the dot, as closed curves in mm. */
-export function markShape(m: MarkPlacement, sizeMm: number): ClosedCurve[] {
-  const R = sizeMm / 2
-  const r = R - RING_BAND_FRACTION * sizeMm
-  const half = (NOTCH_FRACTION * sizeMm) / 2
-  // The notch's straight sides meet the outer circle at ±asin(half / R) from its axis, the inner at ±asin(half / r).
-  const ao = Math.asin(half / R), ai = Math.asin(half / r)
-  const t = m.notchAngle
-  const outer = arc(m.x, m.y, R, t + ao, t + 2 * Math.PI - ao)
-  const inner = arc(m.x, m.y, r, t + 2 * Math.PI - ai, t + ai)
-  const ring: Segment[] = [
-    ...outer,
-    { kind: 'line', from: outer[outer.length - 1]!.to, to: inner[0]!.from },
-    ...inner,
-    { kind: 'line', from: inner[inner.length - 1]!.to, to: outer[0]!.from },
-  ]
-  const dot = arc(m.x, m.y, DOT_FRACTION * sizeMm, 0, 2 * Math.PI)
-  return [{ sign: 1, segments: ring }, { sign: 1, segments: dot }]
-}
-
 /** Every mark of the frame as closed curves in mm (none when the marks are off). */
 export function markCurves(frame: RegistrationFrame): ClosedCurve[] {
   return frame.marks.flatMap((m) => markShape(m, frame.settings.sizeMm))
+}
+
+/** What the marks add to every layer's cut: their outlines' length (mm) and count, measured as a layer's are. */
+export function marksCut(frame: RegistrationFrame): MarksCut {
+  const m = measureCurves(markCurves(frame), 1)
+  return { cutLengthMm: round2(m.cutLengthMm), outlines: m.pieces + m.holes }
 }
 
 function shifted<C extends CutCurve>(c: C, d: Point): C {

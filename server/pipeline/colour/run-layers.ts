@@ -8,7 +8,8 @@
 // caller runs the ordinary single-colour pipeline (run.ts) on the same request, so a
 // one-colour drawing comes out exactly as it always has.
 import sharp, { type Metadata } from 'sharp'
-import type { EngineVersions, Measurements } from '../../../shared/types/pipeline'
+import type { EngineVersions } from '../../../shared/types/pipeline'
+import type { LayerMeasurements } from '../../../shared/types/layers'
 import { parseSettings, type PipelineSettings, type PipelineSettingsInput } from '../../../shared/utils/settings'
 import { preparedSize } from '../../../shared/utils/units'
 import { cleanVector } from '../clean'
@@ -21,8 +22,10 @@ import { DEFAULT_SMALL_PIECE_MM2, PREVIEW_OPTIONS } from '../run'
 import { ENGINE_VERSIONS_BASE } from '../versions'
 import { outlineToSvg, traceBitmap, type ClosedCurve, type Outline, type Point } from '../trace'
 import type { Lab } from './lab'
-import { DEFAULT_MARKS, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
+import { DEFAULT_MARKS, marksCut, registrationFrame, withRegistrationMarks, type MarkSettings, type RegistrationFrame } from './marks'
 import { stackedPreviewSvg } from './preview'
+import { colourFrame, readFrame, sourceToFrame } from './straighten'
+import type { Frame } from '../frame'
 import { separateColours, type ColourPick, type FoundInk, type InkLayer, type PaperInfo, type Separation, type SeparationChoices } from './separate'
 import { DEFAULT_STACK, layerVector, stackLayers, type StackSettings } from './stack'
 
@@ -66,8 +69,7 @@ export interface LayeredRunRequest {
   trim?: { x: number, y: number, width: number, height: number }
 }
 
-/** A layer's measurements: the single-colour ones less the grey threshold. */
-export type LayerMeasurements = Omit<Measurements, 'threshold'>
+export type { LayerMeasurements }
 
 export interface LayerResult {
   name: string
@@ -119,7 +121,12 @@ export type LayeredRunResult =
     engineVersions: EngineVersions
   }
 
-/** The source upright, cropped and resampled to the prepared size, as 8-bit sRGB. */
+/**
+ * The picture the inks are separated on, resampled to the prepared size, as 8-bit sRGB: the
+ * source upright and cropped, or, when the settings straighten or turn it (corners, quarter
+ * turns, a fine angle), the same frame the one-colour clean-up reads (straighten.ts). A trim
+ * is a rectangle of that picture, as fractions.
+ */
 export async function decodeColourSource(source: Uint8Array, settings: PipelineSettings, widthMm: number, options: PrepareOptions = {}, trim?: LayeredRunRequest['trim']) {
   const maxSourcePixels = options.maxSourcePixels ?? 100_000_000
   let meta: Metadata
@@ -131,6 +138,8 @@ export async function decodeColourSource(source: Uint8Array, settings: PipelineS
   const orientedWidth = meta.autoOrient?.width ?? meta.width
   const orientedHeight = meta.autoOrient?.height ?? meta.height
   if (!orientedWidth || !orientedHeight) throw new PrepareError('The image has no pixel size.')
+  const frame = colourFrame(settings, { width: orientedWidth, height: orientedHeight }, settings.crop ? { left: settings.crop.x, top: settings.crop.y, width: settings.crop.width, height: settings.crop.height } : null)
+  if (frame) return decodeFrame(source, settings, widthMm, options, trim, frame, { width: orientedWidth, height: orientedHeight })
   let img = sharp(source, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
   let srcW = orientedWidth, srcH = orientedHeight
   const crop = settings.crop ?? (trim ? trimPixels(trim, orientedWidth, orientedHeight) : null)
@@ -165,6 +174,33 @@ export async function decodeColourSource(source: Uint8Array, settings: PipelineS
     if (e instanceof PrepareError) throw e
     throw new PrepareError('The image could not be decoded.', { cause: e })
   }
+}
+
+/** decodeColourSource for a straightened or turned frame: the trim is a rectangle of the frame. */
+async function decodeFrame(source: Uint8Array, settings: PipelineSettings, widthMm: number, options: PrepareOptions, trim: LayeredRunRequest['trim'], frame: Frame, upright: { width: number, height: number }) {
+  const crop = settings.crop ? { left: settings.crop.x, top: settings.crop.y, width: settings.crop.width, height: settings.crop.height } : null
+  if (crop && (crop.left + crop.width > upright.width || crop.top + crop.height > upright.height)) {
+    throw new PrepareError(`The crop rectangle (${crop.left}, ${crop.top}, ${crop.width} × ${crop.height}) lies outside the upright source of ${upright.width} × ${upright.height} pixels.`)
+  }
+  const t = trim ? trimPixels(trim, frame.width, frame.height) : { x: 0, y: 0, width: frame.width, height: frame.height }
+  const region = { left: t.x, top: t.y, width: t.width, height: t.height }
+  const size = preparedSize({
+    sourceWidthPx: region.width, sourceHeightPx: region.height, targetWidthMm: widthMm,
+    minPxPerMm: options.minPxPerMm, maxPxPerMm: options.maxPxPerMm, maxUpscale: options.maxUpscale, maxPixels: options.maxPixels,
+  })
+  const data = await readFrame(source, { maxSourcePixels: options.maxSourcePixels ?? 100_000_000, crop, width: crop?.width ?? upright.width, height: crop?.height ?? upright.height }, frame, region, size.widthPx, size.heightPx)
+  const kx = size.widthPx / region.width, ky = size.heightPx / region.height
+  // Where a point of the upright source (fractions of its size) lands in the decoded frame.
+  const fromSource = (p: SourcePick): ColourPick => {
+    const f = sourceToFrame(frame, { x: p.x * upright.width, y: p.y * upright.height }, crop)
+    const edge = sourceToFrame(frame, { x: p.x * upright.width + (p.radius ?? 0) * upright.width, y: p.y * upright.height }, crop)
+    return {
+      x: Math.min(size.widthPx - 1, Math.max(0, (f.x - region.left) * kx)),
+      y: Math.min(size.heightPx - 1, Math.max(0, (f.y - region.top) * ky)),
+      radius: p.radius === undefined ? undefined : Math.hypot(edge.x - f.x, edge.y - f.y) * kx,
+    }
+  }
+  return { data, width: size.widthPx, height: size.heightPx, channels: 3 as const, size, fromSource }
 }
 
 /** A trim rectangle (fractions) as whole pixels of the upright source, at least one pixel each way. */
@@ -321,6 +357,8 @@ export function assembleLayers(sep: SeparatedSource, outlined: OutlinedInk[], co
   const stacked = stackLayers(outlined.map((o) => ({ curves: o.curvesMm })), canvas, colour.stack, { seamMm: SEAM_PX / pxPerMm })
   const frame = registrationFrame(stacked, canvas, colour.marks)
   const framed = stacked.map((l) => layerVector(withRegistrationMarks(l.curves, frame), frame))
+  // The marks are cut beside every layer (none when they are off).
+  const marks = marksCut(frame)
   const layers: LayerResult[] = outlined.map((o, i) => {
     const ink = sep.inks[i]!
     const cut = stacked[i]!
@@ -335,6 +373,7 @@ export function assembleLayers(sep: SeparatedSource, outlined: OutlinedInk[], co
         narrowestFeatureMm: o.narrowestFeatureMm,
         smallPieces: smallPieces(cut.curves, 1, smallPieceMm2).length, smallPieceLimitMm2: smallPieceMm2,
         fidelity: o.fidelity, pxPerMm, preparedWidthPx: width, preparedHeightPx: height,
+        marks,
       },
     }
   })

@@ -13,6 +13,8 @@ import type { ColourSettings as RunColourSettings, LayeredRunRequest, LayeredRun
 import { DEFAULT_MARKS, DEFAULT_STACK, type StackSettings } from './defaults'
 import { distinctNames, separationSentence } from './separate'
 import { layersOfSeparation, separateWith } from './runner'
+import { straightens, withCleanUpFrame } from './straighten'
+import { parseSettings } from '../../../shared/utils/settings'
 import type { ColourAnswer, ColourTask } from './tasks'
 
 type Layers = Extract<LayeredRunResult, { kind: 'layers' }>
@@ -111,6 +113,7 @@ function colourRecord(result: Layers, decision: Pick<LayerDecision, 'why'>, req:
       shift: result.frame.shift, marks: result.frame.marks.map((m) => ({ x: m.x, y: m.y })),
     },
     trim: trim ?? null,
+    straightened: straightens(parseSettings(req.settings)),
     detail: {
       found: result.separation.found.map((f) => ({ name: f.name, hex: f.hex })),
       paper: { hex: result.separation.paper.hex, tint: result.separation.paper.tint },
@@ -119,30 +122,49 @@ function colourRecord(result: Layers, decision: Pick<LayerDecision, 'why'>, req:
   }
 }
 
+type Run = (task: ColourTask) => Promise<ColourAnswer>
+
+/**
+ * The first look at the source (at screen resolution, untrimmed), and the request on the frame
+ * the one-colour clean-up chose: the look starts at once on the settings as given; when the
+ * clean-up straightened the photo from corners it found, the request pins those corners
+ * (straighten.ts) and the look is taken again on the straightened sheet, so every separation
+ * after it reads the same frame as the one-colour drawing.
+ */
+async function lookOnFrame(run: Run, req: LayeredRunRequest, cleanUp: CleanUpChoice[] | Promise<CleanUpChoice[]>, colour?: Partial<RunColourSettings>) {
+  const lookOf = (r: LayeredRunRequest) => separateWith(run, { ...r, ...(colour ? { colour } : {}), purpose: 'preview', trim: undefined })
+  const first = lookOf(req)
+  // Awaited below, or dropped when the frame changes: never an unhandled refusal.
+  first.catch(() => undefined)
+  const choices = await cleanUp
+  const settings = withCleanUpFrame(req.settings, choices)
+  if (settings === req.settings) return { look: await first, req }
+  const framed = { ...req, settings }
+  return { look: await lookOf(framed), req: framed }
+}
+
 /**
  * The layered path for a source whose single-colour clean-up chose `choices` (or will: the
  * first look runs meanwhile). `req` asks for the revision (purpose 'revision', no trim):
  * `req.widthMm` is the drawing's width.
  */
-export async function layeredUpload(run: (task: ColourTask) => Promise<ColourAnswer>, req: LayeredRunRequest, cleanUp: CleanUpChoice[] | Promise<CleanUpChoice[]>): Promise<LayeredUpload> {
+export async function layeredUpload(run: Run, asked: LayeredRunRequest, cleanUp: CleanUpChoice[] | Promise<CleanUpChoice[]>): Promise<LayeredUpload> {
   const t0 = performance.now()
-  const [look, choices] = await Promise.all([separateWith(run, { ...req, purpose: 'preview', trim: undefined }), cleanUp])
-  const first = decideLayers(look.inks, look.width, look.height, choices)
+  const { look, req } = await lookOnFrame(run, asked, cleanUp)
+  const first = decideLayers(look.inks, look.width, look.height)
   if (!first.layered) return { kind: 'single', why: first.why }
   // Trimmed to the inks (unless the designer cropped), so the width asked is the drawing's.
   const box = req.settings.crop ? null : trimOf(look, first.groups)
   const { sep: full, trim } = await separateTrimmed(run, req, box)
   // The inks found again at full resolution keep the first look's decision (a stray blend at
   // the edge of an ink joins that ink); one the look did not see is judged on its own.
-  const fresh = decideLayers(full.inks, full.width, full.height, choices)
+  const fresh = decideLayers(full.inks, full.width, full.height)
   const groups = followLook(full, look, first.groups, fresh.groups)
   const decision = { ...first, groups, layered: groups.length >= 2 }
   if (!decision.layered) return { kind: 'single', why: fresh.why }
   const result = await layersOfSeparation(run, req, groupInks(full, groups), t0)
   return { kind: 'layers', result, colour: colourRecord(result, decision, req, trim) }
 }
-
-type Run = (task: ColourTask) => Promise<ColourAnswer>
 
 /** The layers bottom first in the order asked (a permutation of their indices), or as separated. */
 export function reorderInks(sep: SeparatedSource, order: number[] | null): SeparatedSource {
@@ -226,12 +248,14 @@ async function separateTrimmed(run: Run, req: LayeredRunRequest, box: ReturnType
  * the inks (what the bench lists, and what the merges, drops and order refer to); a count of
  * 1, or one ink left, is one colour. A preview draws the look, trimmed to its inks; a revision
  * separates the source again at the prepared resolution, trimmed the same way, and gives each
- * ink it finds the fate of the look's ink nearest in colour.
+ * ink it finds the fate of the look's ink nearest in colour. `cleanUp` are the one-colour
+ * clean-up's choices for the same source and settings: a photo it straightened is separated on
+ * the straightened sheet.
  */
-export async function layersAsAsked(run: Run, req: LayeredRunRequest, asked: ColourSettings): Promise<LayeredUpload> {
+export async function layersAsAsked(run: Run, given: LayeredRunRequest, asked: ColourSettings, cleanUp: CleanUpChoice[] | Promise<CleanUpChoice[]> = []): Promise<LayeredUpload> {
   const t0 = performance.now()
   if (asked.count === 1) return { kind: 'single', why: 'One colour, as the designer asked.' }
-  const look = await separateWith(run, { ...req, colour: runColour(asked, 0), purpose: 'preview', trim: undefined })
+  const { look, req } = await lookOnFrame(run, given, cleanUp, runColour(asked, 0))
   const all = look.inks.reduce((s, i) => s + i.share, 0) || 1
   const found: FoundOnLook[] = look.inks.map((i) => ({ name: i.name, hex: i.hex, share: i.share, lab: i.lab, tooSmall: i.share / all < MIN_LAYER_SHARE }))
   const groups = lookGroups(look, asked)

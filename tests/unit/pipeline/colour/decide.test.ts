@@ -53,11 +53,4 @@ describe('which inks are layers', () => {
     expect(d.layered).toBe(false)
     expect(d.leftOut).toEqual([{ index: 1, reason: 'too small' }])
   })
-
-  it('a photo the clean-up straightened stays one colour', () => {
-    const inks = [ink('red', [216, 38, 46], disc), ink('blue', [29, 79, 184], square)]
-    expect(decideLayers(inks, W, H).layered).toBe(true)
-    const d = decideLayers(inks, W, H, [{ setting: 'corners', automatic: true, value: { mode: 'manual', points: [{ x: 1, y: 1 }, { x: 9, y: 1 }, { x: 9, y: 9 }, { x: 1, y: 9 }] }, reason: 'Straightened.' }])
-    expect(d.layered).toBe(false)
-  })
 })

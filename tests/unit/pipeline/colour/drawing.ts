@@ -3,6 +3,7 @@
 // a little lens blur, noise and JPEG.
 import sharp from 'sharp'
 import { gaussian, mulberry32 } from '../helpers'
+import { finish, light, photograph as shoot, renderSheet, type Camera } from '../hard-cases'
 
 export interface InkShape {
   /** The ink as drawn, sRGB hex. */
@@ -116,3 +117,43 @@ export function blackDrawing(width = 1000, height = 750): ColourDrawing {
 }
 
 export { gaussian, mulberry32 }
+
+/** Where a drawing sits on the sheet photographed at an angle: its pixels are mmPerPx wide, its top-left corner at offsetMm. */
+export interface OnSheet { widthMm: number, heightMm: number, offsetMm: [number, number], mmPerPx: number }
+
+/**
+ * The drawing on a sheet of paper photographed at an angle over a table: the sheet rendered
+ * flat, then taken by a pinhole camera through a known homography (hard-cases.ts), with light
+ * falling off, a little blur, noise and JPEG.
+ */
+export async function angledPhoto(d: ColourDrawing, camera: Camera): Promise<{ jpeg: Buffer, H: number[], sheet: OnSheet }> {
+  const sheet: OnSheet = { widthMm: 200, heightMm: 150, offsetMm: [10, 7.5], mmPerPx: 180 / d.width }
+  const inks = d.inks.map((ink) => `<g fill="${ink.hex}" stroke="${ink.hex}">${ink.body}</g>`).join('')
+  const drawn = `<g transform="translate(${sheet.offsetMm[0]} ${sheet.offsetMm[1]}) scale(${sheet.mmPerPx})">${inks}</g>`
+  const flat = await renderSheet({ widthMm: sheet.widthMm, heightMm: sheet.heightMm, paper: [244, 241, 232], drawing: drawn, ink: drawn }, 8)
+  const shot = shoot(flat, 8, sheet.widthMm, sheet.heightMm, camera, (x, y) => { const k = 0.9 + 0.1 * Math.sin(x * 0.021 + y * 0.017); return [74 * k, 66 * k, 58 * k] })
+  light(shot, (x, y) => 1 - 0.18 * x * y)
+  return { jpeg: await finish(shot, { blur: 0.6, noise: 3, seed: 23, quality: 90 }), H: shot.H, sheet }
+}
+
+/**
+ * Share of a layer's ink pixels wrong against the drawing's mask of its ink: each pixel of the
+ * layer's prepared bitmap (black ink on white) against the drawing's pixel under its centre,
+ * found through the straightened sheet: the bitmap is `trim` (fractions) of the sheet less its
+ * inset edge, and the sheet holds the drawing as `sheet` says.
+ */
+export function wrongOnSheet(bitmap: { data: Uint8Array, width: number, height: number, channels: number }, mask: Uint8Array, d: ColourDrawing, trim: { x: number, y: number, width: number, height: number }, sheet: OnSheet, inset: number): number {
+  let wrong = 0, ink = 0
+  const toDrawing = (f: number, sideMm: number, offsetMm: number) => ((inset + f * (1 - 2 * inset)) * sideMm - offsetMm) / sheet.mmPerPx
+  for (let y = 0; y < bitmap.height; y++) {
+    const dy = Math.floor(toDrawing(trim.y + ((y + 0.5) / bitmap.height) * trim.height, sheet.heightMm, sheet.offsetMm[1]))
+    for (let x = 0; x < bitmap.width; x++) {
+      const dx = Math.floor(toDrawing(trim.x + ((x + 0.5) / bitmap.width) * trim.width, sheet.widthMm, sheet.offsetMm[0]))
+      const truth = dx >= 0 && dy >= 0 && dx < d.width && dy < d.height ? mask[dy * d.width + dx]! : 0
+      const cut = bitmap.data[(y * bitmap.width + x) * bitmap.channels]! < 128 ? 1 : 0
+      if (truth) ink++
+      if (cut !== truth) wrong++
+    }
+  }
+  return wrong / Math.max(1, ink)
+}

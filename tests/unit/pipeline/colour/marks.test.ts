@@ -3,7 +3,8 @@
 import { describe, expect, it } from 'vitest'
 import { flattenCurve, readCleanVector, type Point } from '../../../../server/cutsheet/path'
 import { measureCurves } from '../../../../server/pipeline/geometry'
-import { DEFAULT_MARKS, markShape, registrationFrame, registrationMarkPositions, withRegistrationMarks } from '../../../../server/pipeline/colour/marks'
+import { DEFAULT_MARKS, defaultMarksCut, markCurves, marksCut, markShape, registrationFrame, registrationMarkPositions, withRegistrationMarks } from '../../../../server/pipeline/colour/marks'
+import { svgPathProperties } from 'svg-path-properties'
 import { layerVector, stackLayers } from '../../../../server/pipeline/colour/stack'
 import { discPathData, rectPathData, svgMm } from '../../cutsheet/shapes'
 import { shapely } from '../../cutsheet/reference'
@@ -118,5 +119,20 @@ print(json.dumps({"ring": ring.area, "dot": Point(0, 0).buffer(0.11 * size, 512)
   it('refuse sizes out of range', () => {
     expect(() => registrationFrame(layers(), CANVAS, { enabled: true, clearanceMm: 0, sizeMm: 6 })).toThrow(RangeError)
     expect(() => registrationFrame(layers(), CANVAS, { enabled: true, clearanceMm: 4, sizeMm: 100 })).toThrow(RangeError)
+  })
+
+  it('add their cut to every layer: the length svg-path-properties measures on their path, six outlines', () => {
+    const { frame } = framedSvgs()
+    const curves = markCurves(frame)
+    // The marks' path as SVG path data, measured by svg-path-properties (npm), a general-purpose path-length library.
+    const f = (p: Point) => `${p.x} ${p.y}`
+    const d = curves.map((c) => `M${f(c.segments[0]!.from)}${c.segments.map((s) => (s.kind === 'line' ? `L${f(s.to)}` : `C${f(s.c1)} ${f(s.c2)} ${f(s.to)}`)).join('')}Z`).join('')
+    const measured = new svgPathProperties(d).getTotalLength()
+    const cut = marksCut(frame)
+    expect(Math.abs(cut.cutLengthMm - measured)).toBeLessThanOrEqual(0.001 * measured)
+    expect(cut.outlines).toBe(6)
+    // A layer stored before its marks were measured gets the default marks' figures: the same.
+    expect(defaultMarksCut(frame.marks.length)).toEqual(cut)
+    expect(marksCut(framedSvgs({ ...DEFAULT_MARKS, enabled: false }).frame)).toEqual({ cutLengthMm: 0, outlines: 0 })
   })
 })
