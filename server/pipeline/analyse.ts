@@ -142,17 +142,21 @@ function regionName(cells: number[]): string {
  */
 function lightingChoice(luma: Uint8Array, map: Uint8Array, w: number, h: number, settings: PipelineSettings): { choice: LightingChoice, reason: string } {
   const G = 9
-  const hists = Array.from({ length: G * G }, () => new Uint32Array(256))
+  // One flat histogram per cell, and each column's and row's cell worked out once.
+  const hist = new Uint32Array(G * G * 256)
   const counts = new Uint32Array(G * G), totals = new Uint32Array(G * G)
+  const colCell = new Int32Array(w)
+  for (let x = 0; x < w; x++) colCell[x] = Math.min(G - 1, Math.floor((G * x) / w))
   for (let y = 0; y < h; y++) {
     const row = Math.min(G - 1, Math.floor((G * y) / h)) * G
-    for (let x = 0; x < w; x++) {
-      const c = row + Math.min(G - 1, Math.floor((G * x) / w))
-      const i = y * w + x
+    for (let x = 0, i = y * w; x < w; x++, i++) {
+      const c = row + colCell[x]!
+      const v = luma[i]!
       totals[c]!++
-      if (luma[i]! * 10 >= map[i]! * 9) { hists[c]![luma[i]!]!++; counts[c]!++ }
+      if (v * 10 >= map[i]! * 9) { hist[(c << 8) | v]!++; counts[c]!++ }
     }
   }
+  const hists = Array.from({ length: G * G }, (_, c) => hist.subarray(c << 8, (c + 1) << 8))
   const cells: (number | null)[] = hists.map((hist, c) => {
     if (!counts[c] || counts[c]! < 0.05 * totals[c]!) return null
     let acc = 0
