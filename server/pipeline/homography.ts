@@ -241,3 +241,62 @@ export function scaleBilinear(src: Uint8Array, sw: number, sh: number, outToIn: 
   }
   return out
 }
+
+/** Cubic convolution taps along one axis: for each output sample, 4 source indices and weights. */
+function cubicTaps(n: number, size: number): { at: Int32Array, w: Float64Array } {
+  const at = new Int32Array(4 * n), w = new Float64Array(4 * n)
+  const s = size / n
+  for (let u = 0; u < n; u++) {
+    // Where libvips samples when it enlarges, its fraction rounded to 1/64 of a pixel as it
+    // does (the outputs then match to within a level of rounding).
+    const x = s * u - 0.5
+    const i = Math.floor(x), t = Math.round((x - i) * 64) / 64
+    // the kernel at distances 1 + t, t, 1 − t and 2 − t
+    w[4 * u] = ((-0.5 * t + 1) * t - 0.5) * t
+    w[4 * u + 1] = (1.5 * t - 2.5) * t * t + 1
+    w[4 * u + 2] = ((-1.5 * t + 2) * t + 0.5) * t
+    w[4 * u + 3] = (0.5 * t - 0.5) * t * t
+    for (let k = 0; k < 4; k++) at[4 * u + k] = Math.min(size - 1, Math.max(0, i - 1 + k))
+  }
+  return { at, w }
+}
+
+/** Source row `row` interpolated across into rows[off … off + dw). */
+function cubicAcross(src: Uint8Array, base: number, at: Int32Array, w: Float64Array, rows: Float64Array, off: number, dw: number): void {
+  for (let u = 0, j = 0; u < dw; u++, j += 4) {
+    rows[off + u] = src[base + at[j]!]! * w[j]! + src[base + at[j + 1]!]! * w[j + 1]!
+      + src[base + at[j + 2]!]! * w[j + 2]! + src[base + at[j + 3]!]! * w[j + 3]!
+  }
+}
+
+/**
+ * A one-channel image enlarged to dw × dh (each at least the source's side) by cubic
+ * convolution with a = −½ (R. G. Keys, "Cubic convolution interpolation for digital image
+ * processing", IEEE Trans. ASSP 29 (1981) 1153–1160), as libvips enlarges: the same sample
+ * positions, edge pixels repeated, so the result is libvips' within a level of rounding; and
+ * for one channel several times quicker than libvips enlarging the colour image.
+ */
+export function enlargeCubic(src: Uint8Array, sw: number, sh: number, dw: number, dh: number): Uint8Array {
+  if (dw < sw || dh < sh) throw new RangeError('enlargeCubic only enlarges.')
+  const X = cubicTaps(dw, sw), Y = cubicTaps(dh, sh)
+  // Source rows interpolated across, kept in four slots (row number mod 4): an enlargement
+  // reads each source row for several output rows in turn, and the four rows an output row
+  // reads are never two apart by a multiple of four.
+  const rows = new Float64Array(4 * dw)
+  const slotRow = new Int32Array(4).fill(-1)
+  const out = new Uint8Array(dw * dh)
+  for (let v = 0, j = 0; v < dh; v++, j += 4) {
+    for (let k = 0; k < 4; k++) {
+      const r = Y.at[j + k]!
+      if (slotRow[r & 3] !== r) { slotRow[r & 3] = r; cubicAcross(src, r * sw, X.at, X.w, rows, (r & 3) * dw, dw) }
+    }
+    const o0 = (Y.at[j]! & 3) * dw, o1 = (Y.at[j + 1]! & 3) * dw, o2 = (Y.at[j + 2]! & 3) * dw, o3 = (Y.at[j + 3]! & 3) * dw
+    const w0 = Y.w[j]!, w1 = Y.w[j + 1]!, w2 = Y.w[j + 2]!, w3 = Y.w[j + 3]!
+    const o = v * dw
+    for (let u = 0; u < dw; u++) {
+      const s = rows[o0 + u]! * w0 + rows[o1 + u]! * w1 + rows[o2 + u]! * w2 + rows[o3 + u]! * w3
+      out[o + u] = s <= 0 ? 0 : s >= 255 ? 255 : Math.round(s)
+    }
+  }
+  return out
+}
