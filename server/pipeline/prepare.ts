@@ -18,12 +18,12 @@
 import sharp, { type Metadata, type OutputInfo } from 'sharp'
 import type { CleanUpChoice } from '../../shared/types/pipeline'
 import { preparedSize, type PreparedSize } from '../../shared/utils/units'
-import { ANALYSIS_SIDE, applyThreshold, evenWithMap, finishAnalysis, readingKey, readSheet, type Analysis, type SheetReading } from './analyse'
+import { ANALYSIS_SIDE, applyThreshold, eveningTable, finishAnalysis, readingKey, readSheet, type Analysis, type SheetReading } from './analyse'
 import { densityGrey } from './colour'
 import { inkBox, piecesOf } from './components'
 import { NotADrawingError, PrepareError } from './errors'
 import { sourceBox } from './frame'
-import { enlargeCubic, multiply, scaleBilinear, scaling, translation, warpBilinear } from './homography'
+import { enlargeCubic, multiply, scaleBilinear, scaleBilinearRows, scaling, translation, warpBilinear } from './homography'
 import { mapFamily, removeLines } from './lines'
 import { toGrey } from './luma'
 import { histogram as makeHistogram } from './otsu'
@@ -361,19 +361,32 @@ async function prepare(
   const n = workW * workH
   const evening = analysis.lighting.on ? analysis.lighting.strength : 0
   let paperLuma: Uint8Array | null = null
-  if (evening > 0) {
-    const toAnalysis = multiply(scaling(analysis.width / frame.width, analysis.height / frame.height), workToFrame)
-    paperLuma = scaleBilinear(analysis.paperMap, analysis.width, analysis.height, toAnalysis, workW, workH)
+  const toAnalysis = multiply(scaling(analysis.width / frame.width, analysis.height / frame.height), workToFrame)
+  let histogram: Uint32Array
+  if (density) {
+    if (evening > 0) paperLuma = scaleBilinear(analysis.paperMap, analysis.width, analysis.height, toAnalysis, workW, workH)
+    grey = densityGrey(rgb!, n, { paper: analysis.paper, paperLuma, dropped: analysis.dropped, strength: evening })
+    histogram = makeHistogram(grey)
+  } else if (evening > 0) {
+    // The paper's brightness enlarged a row at a time and used at once, the histogram taken on the way.
+    const g = grey!, table = eveningTable(evening)
+    histogram = new Uint32Array(256)
+    scaleBilinearRows(analysis.paperMap, analysis.width, analysis.height, toAnalysis, workW, workH, (v, paper) => {
+      for (let u = 0, i = v * workW; u < workW; u++, i++) {
+        const e = table[(paper[u]! << 8) | g[i]!]!
+        g[i] = e
+        histogram[e]!++
+      }
+    })
+  } else {
+    histogram = makeHistogram(grey!)
   }
-  if (density) grey = densityGrey(rgb!, n, { paper: analysis.paper, paperLuma, dropped: analysis.dropped, strength: evening })
-  else if (paperLuma) grey = evenWithMap(grey!, paperLuma, evening)
   // Each full-size buffer is let go as soon as it is used: four 48 MP uploads at once must fit.
   rgb = null
   paperLuma = null
   const t4 = performance.now()
 
-  const histogram = makeHistogram(grey!)
-  const thresholded = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork)
+  const thresholded = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork, histogram)
   const level = thresholded.level
   grey = new Uint8Array(0)
   let workBitmap = thresholded.bitmap
