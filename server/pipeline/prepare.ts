@@ -15,7 +15,7 @@
 // linear in R′G′B′, so this equals resampling the grey image, up to rounding). Where the sheet
 // is straightened or turned, the source is read near the working scale and the frame is taken
 // from it by bilinear interpolation through the homography.
-import sharp, { type Metadata, type OutputInfo } from 'sharp'
+import sharp, { type Metadata, type OutputInfo, type Sharp } from 'sharp'
 import type { CleanUpChoice } from '../../shared/types/pipeline'
 import { preparedSize, type PreparedSize } from '../../shared/utils/units'
 import { ANALYSIS_SIDE, applyThreshold, eveningTable, finishAnalysis, readingKey, readSheet, type Analysis, type SheetReading } from './analyse'
@@ -124,28 +124,53 @@ interface SourceReader {
   rgb(region: Rect | null, toW: number, toH: number): Promise<Uint8Array>
 }
 
-function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number): SourceReader {
+function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number, decodeOnce: boolean): SourceReader {
+  const open = () => sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
+  // A small source (one libvips would decode whole for either read) is decoded once and
+  // every read served from that copy: the same pixels for one decode instead of two.
+  let whole: Promise<Uint8Array> | null = null
+  const decoded = () => (whole ??= read((crop ? open().extract(crop) : open()).flatten({ background: '#ffffff' }), width, height))
   return {
     async rgb(region, toW, toH) {
       const r = region ?? { left: 0, top: 0, width, height }
-      let img = sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
-      if (crop || r.width !== width || r.height !== height) {
-        img = img.extract({ left: r.left + (crop?.left ?? 0), top: r.top + (crop?.top ?? 0), width: r.width, height: r.height })
+      const partial = r.width !== width || r.height !== height
+      const resized = toW !== r.width || toH !== r.height
+      const kernel = toW * toH < r.width * r.height ? 'lanczos3' : 'cubic'
+      if (decodeOnce) {
+        const all = await decoded()
+        if (!resized) return partial ? cropRgb(all, width, r) : all
+        let img = sharp(all, { raw: { width, height, channels: 3 } })
+        if (partial) img = img.extract(r)
+        return read(img.resize(toW, toH, { fit: 'fill', kernel }), toW, toH)
       }
+      let img = open()
+      if (crop || partial) img = img.extract({ left: r.left + (crop?.left ?? 0), top: r.top + (crop?.top ?? 0), width: r.width, height: r.height })
       img = img.flatten({ background: '#ffffff' })
-      if (toW !== r.width || toH !== r.height) img = img.resize(toW, toH, { fit: 'fill', kernel: toW * toH < r.width * r.height ? 'lanczos3' : 'cubic' })
-      let out: { data: Buffer, info: OutputInfo }
-      try {
-        out = await img.toColourspace('srgb').removeAlpha().raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
-      } catch (e) {
-        throw new PrepareError('The image could not be decoded.', { cause: e })
-      }
-      if (out.info.channels !== 3 || out.info.width !== toW || out.info.height !== toH) {
-        throw new PrepareError(`Expected a ${toW} × ${toH} colour image, got ${out.info.width} × ${out.info.height} × ${out.info.channels}.`)
-      }
-      return asU8(out.data)
+      if (resized) img = img.resize(toW, toH, { fit: 'fill', kernel })
+      return read(img, toW, toH)
     },
   }
+}
+
+/** R′G′B′ of a sharp pipeline, checked to be toW × toH × 3. */
+async function read(img: Sharp, toW: number, toH: number): Promise<Uint8Array> {
+  let out: { data: Buffer, info: OutputInfo }
+  try {
+    out = await img.toColourspace('srgb').removeAlpha().raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
+  } catch (e) {
+    throw new PrepareError('The image could not be decoded.', { cause: e })
+  }
+  if (out.info.channels !== 3 || out.info.width !== toW || out.info.height !== toH) {
+    throw new PrepareError(`Expected a ${toW} × ${toH} colour image, got ${out.info.width} × ${out.info.height} × ${out.info.channels}.`)
+  }
+  return asU8(out.data)
+}
+
+/** A region of an R′G′B′ image of the given width. */
+function cropRgb(rgb: Uint8Array, width: number, r: Rect): Uint8Array {
+  const out = new Uint8Array(r.width * r.height * 3)
+  for (let y = 0; y < r.height; y++) out.set(rgb.subarray(((r.top + y) * width + r.left) * 3, ((r.top + y) * width + r.left + r.width) * 3), y * r.width * 3)
+  return out
 }
 
 /** The bitmap cut to box (inclusive) with `margin` pixels of paper around it. */
@@ -272,7 +297,10 @@ async function prepare(
   if (widthOf === 'drawing' && (srcW < MIN_SIDE_PX || srcH < MIN_SIDE_PX)) {
     throw new NotADrawingError('too-small', `The image is only ${srcW} × ${srcH} pixels: too small to hold a drawing. Upload a scan or photo of the drawing itself.`)
   }
-  const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH)
+  // Decoded once when neither read could shrink it while decoding (the analysis copy's side is
+  // more than half the source's) and it is plain 8-bit R′G′B′, so both reads see the same pixels.
+  const decodeOnce = Math.max(srcW, srcH) < 2 * ANALYSIS_SIDE && meta.channels === 3 && meta.depth === 'uchar' && !meta.hasProfile && (meta.space === 'srgb' || meta.space === undefined)
+  const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH, decodeOnce)
 
   // The analysis, on a shrunk copy; the sheet's reading kept from an earlier run when it can be.
   const aScale = Math.min(1, ANALYSIS_SIDE / Math.max(srcW, srcH))
