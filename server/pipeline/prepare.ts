@@ -124,10 +124,8 @@ interface SourceReader {
   rgb(region: Rect | null, toW: number, toH: number): Promise<Uint8Array>
 }
 
-function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number, decodeOnce: boolean): SourceReader {
+function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number, keep: boolean): SourceReader {
   const open = () => sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
-  // A small source (one libvips would decode whole for either read) is decoded once and
-  // every read served from that copy: the same pixels for one decode instead of two.
   let whole: Promise<Uint8Array> | null = null
   const decoded = () => (whole ??= read((crop ? open().extract(crop) : open()).flatten({ background: '#ffffff' }), width, height))
   return {
@@ -136,7 +134,9 @@ function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop:
       const partial = r.width !== width || r.height !== height
       const resized = toW !== r.width || toH !== r.height
       const kernel = toW * toH < r.width * r.height ? 'lanczos3' : 'cubic'
-      if (decodeOnce) {
+      // The kept copy serves every read that libvips would not shrink while decoding (to half
+      // the size or less), so each read sees the very pixels it would see from the file.
+      if (keep && 2 * toW > r.width && 2 * toH > r.height) {
         const all = await decoded()
         if (!resized) return partial ? cropRgb(all, width, r) : all
         let img = sharp(all, { raw: { width, height, channels: 3 } })
@@ -260,6 +260,16 @@ export async function prepareDrawing(
   return prepare(input, settingsInput, drawingWidthMm, 'drawing', options)
 }
 
+/**
+ * Whether the source is decoded whole once and kept for the reads that would decode it whole
+ * anyway (see sourceReader): a source under twice the analysis copy's side, in plain 8-bit
+ * R′G′B′ (which a decode followed by the reads' own steps leaves unchanged).
+ */
+function keepDecoded(meta: Metadata, srcW: number, srcH: number): boolean {
+  return Math.max(srcW, srcH) < 2 * ANALYSIS_SIDE && meta.channels === 3 && meta.depth === 'uchar' && !meta.hasProfile
+    && (meta.space === undefined || meta.space === 'srgb')
+}
+
 async function prepare(
   input: Buffer | Uint8Array,
   settingsInput: PipelineSettingsInput | PipelineSettings,
@@ -297,10 +307,7 @@ async function prepare(
   if (widthOf === 'drawing' && (srcW < MIN_SIDE_PX || srcH < MIN_SIDE_PX)) {
     throw new NotADrawingError('too-small', `The image is only ${srcW} × ${srcH} pixels: too small to hold a drawing. Upload a scan or photo of the drawing itself.`)
   }
-  // Decoded once when neither read could shrink it while decoding (the analysis copy's side is
-  // more than half the source's) and it is plain 8-bit R′G′B′, so both reads see the same pixels.
-  const decodeOnce = Math.max(srcW, srcH) < 2 * ANALYSIS_SIDE && meta.channels === 3 && meta.depth === 'uchar' && !meta.hasProfile && (meta.space === 'srgb' || meta.space === undefined)
-  const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH, decodeOnce)
+  const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH, keepDecoded(meta, srcW, srcH))
 
   // The analysis, on a shrunk copy; the sheet's reading kept from an earlier run when it can be.
   const aScale = Math.min(1, ANALYSIS_SIDE / Math.max(srcW, srcH))
