@@ -48,65 +48,70 @@ export type PaperEstimateMethod =
   | 'blur'
 
 /**
- * Running maximum over windows of `size` (odd) centred on each pixel, along the rows
- * (vertical = false) or down the columns (vertical = true), clipped at the image's edges.
- * van Herk / Gil-Werman: split the line, padded by (size − 1) / 2 of zeros at each end, into
- * blocks of `size`, take prefix maxima forward and suffix maxima backward within each block;
- * every window then spans at most two blocks and its maximum is max(suffix[start],
- * prefix[end]). Down the columns, whole rows are taken at a time, so memory is read in order.
+ * Running maximum (or minimum) over windows of `size` (odd) centred on each sample of a line,
+ * clipped at the line's ends. van Herk / Gil-Werman: split the padded line into blocks of
+ * `size`, take prefix extrema forward and suffix extrema backward within each block; every
+ * window then spans at most two blocks and its extremum is max(suffix[start], prefix[end]).
  */
-function runningMax(src: Uint8Array, width: number, height: number, size: number, vertical: boolean): Uint8Array {
+function runningExtremum1D(
+  src: Uint8Array, n: number, size: number, isMax: boolean,
+  out: Uint8Array, pre: Uint8Array, suf: Uint8Array,
+): void {
   const r = (size - 1) >> 1
-  // A line is `count` samples `step` apart; `lanes` lines side by side, `stride` apart.
-  const count = vertical ? height : width, lanes = vertical ? width : height
-  const step = vertical ? width : 1, stride = vertical ? 1 : width
-  const m = count + 2 * r
-  // Padded sample p of lane l sits at p · lanes + l (lanes innermost, zeros in the padding).
-  const pre = new Uint8Array(m * lanes), suf = new Uint8Array(m * lanes)
-  for (let i = 0; i < count; i++) {
-    const o = (i + r) * lanes
-    for (let l = 0; l < lanes; l++) pre[o + l] = src[l * stride + i * step]!
-  }
-  suf.set(pre)
-  for (let start = 0; start < m; start += size) {
-    const end = Math.min(start + size, m)
-    for (let p = start + 1; p < end; p++) {
-      const o = p * lanes, q = o - lanes
-      for (let l = 0; l < lanes; l++) { const a = pre[q + l]!, b = pre[o + l]!; if (a > b) pre[o + l] = a }
+  const neutral = isMax ? 0 : 255
+  const m = n + 2 * r // padded length
+  // padded index p corresponds to source index p - r
+  for (let blockStart = 0; blockStart < m; blockStart += size) {
+    const blockEnd = Math.min(blockStart + size, m)
+    let acc = neutral
+    for (let p = blockStart; p < blockEnd; p++) {
+      const i = p - r
+      const v = i >= 0 && i < n ? src[i]! : neutral
+      acc = isMax ? (v > acc ? v : acc) : (v < acc ? v : acc)
+      pre[p] = acc
     }
-    for (let p = end - 2; p >= start; p--) {
-      const o = p * lanes, q = o + lanes
-      for (let l = 0; l < lanes; l++) { const a = suf[q + l]!, b = suf[o + l]!; if (a > b) suf[o + l] = a }
+    acc = neutral
+    for (let p = blockEnd - 1; p >= blockStart; p--) {
+      const i = p - r
+      const v = i >= 0 && i < n ? src[i]! : neutral
+      acc = isMax ? (v > acc ? v : acc) : (v < acc ? v : acc)
+      suf[p] = acc
     }
   }
-  const out = new Uint8Array(width * height)
-  for (let i = 0; i < count; i++) {
-    const s = i * lanes, e = (i + size - 1) * lanes
-    for (let l = 0; l < lanes; l++) {
-      const a = suf[s + l]!, b = pre[e + l]!
-      out[l * stride + i * step] = a > b ? a : b
-    }
+  for (let i = 0; i < n; i++) {
+    // window in padded coordinates: [i, i + size - 1]
+    const a = suf[i]!
+    const b = pre[i + size - 1]!
+    out[i] = isMax ? (a > b ? a : b) : (a < b ? a : b)
   }
-  return out
-}
-
-function invert(img: Uint8Array): Uint8Array {
-  for (let i = 0; i < img.length; i++) img[i] = 255 - img[i]!
-  return img
 }
 
 /**
  * Greyscale max-filter (isMax) or min-filter over a size × size square window (size odd),
- * windows clipped at the image border. Returns a new buffer. The min-filter is the max-filter
- * of the inverted image, inverted back.
+ * windows clipped at the image border. Returns a new buffer.
  */
 export function squareExtremumFilter(
   img: Uint8Array, width: number, height: number, size: number, isMax: boolean,
 ): Uint8Array {
   if (size < 1 || size % 2 !== 1) throw new RangeError('The window size must be an odd whole number.')
-  const input = isMax ? img : invert(img.slice())
-  const out = runningMax(runningMax(input, width, height, size, false), width, height, size, true)
-  return isMax ? out : invert(out)
+  const longest = Math.max(width, height)
+  const pad = longest + size
+  const pre = new Uint8Array(pad)
+  const suf = new Uint8Array(pad)
+  const line = new Uint8Array(longest)
+  const lineOut = new Uint8Array(longest)
+  const tmp = new Uint8Array(width * height)
+  for (let y = 0; y < height; y++) {
+    const row = img.subarray(y * width, (y + 1) * width)
+    runningExtremum1D(row, width, size, isMax, tmp.subarray(y * width, (y + 1) * width), pre, suf)
+  }
+  const out = new Uint8Array(width * height)
+  for (let x = 0; x < width; x++) {
+    for (let y = 0; y < height; y++) line[y] = tmp[y * width + x]!
+    runningExtremum1D(line, height, size, isMax, lineOut, pre, suf)
+    for (let y = 0; y < height; y++) out[y * width + x] = lineOut[y]!
+  }
+  return out
 }
 
 /** The image extended by `pad` pixels on every side, repeating its edge pixels. */
