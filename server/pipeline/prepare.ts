@@ -23,7 +23,7 @@ import { densityGrey } from './colour'
 import { inkBox, piecesOf } from './components'
 import { NotADrawingError, PrepareError } from './errors'
 import { sourceBox } from './frame'
-import { enlargeCubic, multiply, scaleBilinear, scaleBilinearRows, scaling, translation, warpBilinear } from './homography'
+import { enlargeCubic, multiply, scaleBilinear, scaleBilinearRows, scaling, translation, warpBilinear, type Mat3 } from './homography'
 import { mapFamily, removeLines } from './lines'
 import { toGrey } from './luma'
 import { histogram as makeHistogram } from './otsu'
@@ -261,6 +261,23 @@ export async function prepareDrawing(
 }
 
 /**
+ * Lighting evening of the working grid's grey, in place, with the paper's brightness (on the
+ * analysis frame) enlarged a row at a time and used at once; returns the evened grey's histogram.
+ */
+function evenInPlace(grey: Uint8Array, w: number, h: number, paperMap: Uint8Array, mw: number, mh: number, toMap: Mat3, strength: number): Uint32Array {
+  const table = eveningTable(strength)
+  const hist = new Uint32Array(256)
+  scaleBilinearRows(paperMap, mw, mh, toMap, w, h, (v, paper) => {
+    for (let u = 0, i = v * w; u < w; u++, i++) {
+      const e = table[(paper[u]! << 8) | grey[i]!]!
+      grey[i] = e
+      hist[e]!++
+    }
+  })
+  return hist
+}
+
+/**
  * Whether the source is decoded whole once and kept for the reads that would decode it whole
  * anyway (see sourceReader): a source under twice the analysis copy's side, in plain 8-bit
  * R′G′B′ (which a decode followed by the reads' own steps leaves unchanged).
@@ -403,16 +420,7 @@ async function prepare(
     grey = densityGrey(rgb!, n, { paper: analysis.paper, paperLuma, dropped: analysis.dropped, strength: evening })
     histogram = makeHistogram(grey)
   } else if (evening > 0) {
-    // The paper's brightness enlarged a row at a time and used at once, the histogram taken on the way.
-    const g = grey!, table = eveningTable(evening)
-    histogram = new Uint32Array(256)
-    scaleBilinearRows(analysis.paperMap, analysis.width, analysis.height, toAnalysis, workW, workH, (v, paper) => {
-      for (let u = 0, i = v * workW; u < workW; u++, i++) {
-        const e = table[(paper[u]! << 8) | g[i]!]!
-        g[i] = e
-        histogram[e]!++
-      }
-    })
+    histogram = evenInPlace(grey!, workW, workH, analysis.paperMap, analysis.width, analysis.height, toAnalysis, evening)
   } else {
     histogram = makeHistogram(grey!)
   }
