@@ -256,8 +256,8 @@ function cubicTaps(n: number, size: number): { at: Int32Array, w: Float64Array }
   const at = new Int32Array(4 * n), w = new Float64Array(4 * n)
   const s = size / n
   for (let u = 0; u < n; u++) {
-    // Where libvips samples when it enlarges (also along an axis kept at its size), its
-    // fraction rounded to 1/64 of a pixel as it does: the outputs match to within a level.
+    // Where libvips samples when it enlarges, its fraction rounded to 1/64 of a pixel as it
+    // does (the outputs then match to within a level of rounding).
     const x = s * u - 0.5
     const i = Math.floor(x), t = Math.round((x - i) * 64) / 64
     // the kernel at distances 1 + t, t, 1 − t and 2 − t
@@ -287,7 +287,6 @@ function cubicAcross(src: Uint8Array, base: number, at: Int32Array, w: Float64Ar
  */
 export function enlargeCubic(src: Uint8Array, sw: number, sh: number, dw: number, dh: number): Uint8Array {
   if (dw < sw || dh < sh) throw new RangeError('enlargeCubic only enlarges.')
-  if (dw === sw && dh === sh) return src.slice()
   const X = cubicTaps(dw, sw), Y = cubicTaps(dh, sh)
   // Source rows interpolated across, kept in four slots (row number mod 4): an enlargement
   // reads each source row for several output rows in turn, and the four rows an output row
