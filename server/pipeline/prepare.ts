@@ -25,7 +25,7 @@ import { densityGrey } from './colour'
 import { inkBox, piecesOf } from './components'
 import { NotADrawingError, PrepareError } from './errors'
 import { sourceBox } from './frame'
-import { enlargeCubic, multiply, scaleBilinear, scaleBilinearRows, scaling, translation, warpBilinear, type Mat3 } from './homography'
+import { multiply, scaleBilinear, scaleBilinearRows, scaling, translation, warpBilinear, type Mat3 } from './homography'
 import { mapFamily, removeLines } from './lines'
 import { toGrey } from './luma'
 import { histogram as makeHistogram } from './otsu'
@@ -386,10 +386,7 @@ async function prepare(
   let grey: Uint8Array
   let rgb: Uint8Array | null = null
   const density = analysis.reading === 'density'
-  if (frame.identity && !density && workW >= region.width && workH >= region.height) {
-    // Enlarged: grey at the source's own size, then enlarged (one channel instead of three).
-    grey = enlargeCubic(toGrey(await source.rgb(region, region.width, region.height), region.width, region.height, 3, settings.luma), region.width, region.height, workW, workH)
-  } else if (frame.identity) {
+  if (frame.identity) {
     rgb = await source.rgb(region, workW, workH)
     if (!density) { grey = toGrey(rgb, workW, workH, 3, settings.luma); rgb = null }
   } else {

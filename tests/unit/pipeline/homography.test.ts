@@ -1,6 +1,5 @@
-import sharp from 'sharp'
 import { describe, expect, it } from 'vitest'
-import { apply, enlargeCubic, homographyFromPoints, invert, multiply, rotation, warpBilinear, type Mat3, type Pt } from '../../../server/pipeline/homography'
+import { apply, homographyFromPoints, invert, multiply, rotation, warpBilinear, type Mat3, type Pt } from '../../../server/pipeline/homography'
 import { mulberry32 } from './helpers'
 import { python } from './python'
 
@@ -89,29 +88,5 @@ describe('bilinear warp', () => {
     // clockwise on screen: the top-left input pixel lands at the top-right
     expect(out[0 * h + (h - 1)]).toBe(img[0])
     expect(out[(w - 1) * h + (h - 1)]).toBe(img[w - 1])
-  })
-})
-
-describe('enlarging a grey image by cubic convolution', () => {
-  it('matches libvips (through sharp) enlarging the same image, to within a level', async () => {
-    // A noisy image with sharp edges: noise and edges show any shift of the sample positions.
-    const rnd = mulberry32(7)
-    const sw = 97, sh = 61
-    const src = new Uint8Array(sw * sh)
-    for (let y = 0; y < sh; y++) for (let x = 0; x < sw; x++) src[y * sw + x] = Math.round(((x >> 3) + (y >> 3)) % 2 ? 200 + 50 * rnd() : 30 + 50 * rnd())
-    for (const [dw, dh] of [[150, 100], [sw * 2, sh * 3], [sw, 90], [251, sh]] as const) {
-      const ours = enlargeCubic(src, sw, sh, dw, dh)
-      // Reference: libvips' own enlargement (sharp 'cubic', which enlarges by cubic convolution).
-      const ref = await sharp(src, { raw: { width: sw, height: sh, channels: 1 } }).resize(dw, dh, { fit: 'fill', kernel: 'cubic' }).toColourspace('b-w').raw().toBuffer()
-      let worst = 0, off = 0
-      for (let i = 0; i < ours.length; i++) {
-        const d = Math.abs(ours[i]! - ref[i]!)
-        worst = Math.max(worst, d)
-        if (d) off++
-      }
-      expect(worst).toBeLessThanOrEqual(1)
-      expect(off / ours.length).toBeLessThan(0.25)
-    }
-    expect(() => enlargeCubic(src, sw, sh, sw - 1, sh)).toThrow(/only enlarges/)
   })
 })
