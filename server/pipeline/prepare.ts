@@ -12,9 +12,8 @@
 // The source is read by libvips twice, each time straight at the size needed (shrink-on-load
 // for JPEG): once shrunk for the analysis, once at the working grid, so every per-pixel step
 // runs at the prepared resolution, never the photo's (a small source, which either read would
-// decode whole, is decoded once for both). When shrinking, colour is resampled before grey
-// (luma is linear in R′G′B′, so this equals resampling the grey image, up to rounding); when
-// enlarging, grey is taken at the source's size and enlarged, one channel instead of three.
+// decode whole, is decoded once for both). Colour is resampled before grey (luma is linear in
+// R′G′B′, so this equals resampling the grey image, up to rounding).
 // Where the sheet is straightened or turned, the source is read near the working scale and the
 // frame is taken from it by bilinear interpolation through the homography.
 import sharp, { type Metadata, type OutputInfo, type Sharp } from 'sharp'
