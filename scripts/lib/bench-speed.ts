@@ -11,7 +11,8 @@
 //  - peak memory (RSS) of four 48 MP uploads at 400 mm made together through the worker pool,
 //    as the server makes them, in a process of its own (target ≤ 1 GB);
 //  - the tuning bench's preview, the source loaded (target ≤ 150 ms median).
-// Run alone with `npx tsx --tsconfig tsconfig.tools.json scripts/lib/bench-speed.ts`.
+// Run alone with `npx tsx --tsconfig tsconfig.tools.json scripts/lib/bench-speed.ts`; the upload
+// figure alone with `… bench-speed.ts --upload` (about a minute with BENCH_RUNS=5).
 import { execFileSync, spawnSync } from 'node:child_process'
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import os from 'node:os'
@@ -219,6 +220,11 @@ export async function benchSpeed(runs: number): Promise<void> {
 
 if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
   const files = process.argv.slice(3)
-  const work = process.argv[2] === '--memory' ? memoryChild(files) : benchSpeed(Number(process.env.BENCH_RUNS ?? 5))
+  const runs = Number(process.env.BENCH_RUNS ?? 5)
+  const work = process.argv[2] === '--memory'
+    ? memoryChild(files)
+    : process.argv[2] === '--upload'
+      ? uploadAgainstFloor(runs).then(() => console.log(`  (load average ${os.loadavg()[0]!.toFixed(1)} on ${os.availableParallelism()} cores)`))
+      : benchSpeed(runs)
   work.catch((e) => { console.error(e); process.exit(1) })
 }

@@ -142,17 +142,21 @@ function regionName(cells: number[]): string {
  */
 function lightingChoice(luma: Uint8Array, map: Uint8Array, w: number, h: number, settings: PipelineSettings): { choice: LightingChoice, reason: string } {
   const G = 9
-  const hists = Array.from({ length: G * G }, () => new Uint32Array(256))
+  // One flat histogram per cell, and each column's and row's cell worked out once.
+  const hist = new Uint32Array(G * G * 256)
   const counts = new Uint32Array(G * G), totals = new Uint32Array(G * G)
+  const colCell = new Int32Array(w)
+  for (let x = 0; x < w; x++) colCell[x] = Math.min(G - 1, Math.floor((G * x) / w))
   for (let y = 0; y < h; y++) {
     const row = Math.min(G - 1, Math.floor((G * y) / h)) * G
-    for (let x = 0; x < w; x++) {
-      const c = row + Math.min(G - 1, Math.floor((G * x) / w))
-      const i = y * w + x
+    for (let x = 0, i = y * w; x < w; x++, i++) {
+      const c = row + colCell[x]!
+      const v = luma[i]!
       totals[c]!++
-      if (luma[i]! * 10 >= map[i]! * 9) { hists[c]![luma[i]!]!++; counts[c]!++ }
+      if (v * 10 >= map[i]! * 9) { hist[(c << 8) | v]!++; counts[c]!++ }
     }
   }
+  const hists = Array.from({ length: G * G }, (_, c) => hist.subarray(c << 8, (c + 1) << 8))
   const cells: (number | null)[] = hists.map((hist, c) => {
     if (!counts[c] || counts[c]! < 0.05 * totals[c]!) return null
     let acc = 0
@@ -276,10 +280,12 @@ function linesWords(families: LineFamily[]): string {
   return `${f.orientation === 'horizontal' ? 'ruled' : 'upright'} lines (${f.offsets.length})`
 }
 
-/** Evened luma: the image divided by the paper's brightness, blended by strength (as lighting evening). */
-export function evenWithMap(grey: Uint8Array, paper: Uint8Array, strength: number): Uint8Array {
-  // Every (grey, paper) pair's result once, in a 256 × 256 table: on a prepared grid of
-  // millions of pixels a look-up is several times quicker than the division.
+/**
+ * Lighting evening of one pixel, for every (paper, grey) pair: at (paper << 8) | grey, the grey
+ * divided by the paper's brightness, blended by strength. On a prepared grid of millions of
+ * pixels a look-up is several times quicker than the division.
+ */
+export function eveningTable(strength: number): Uint8Array {
   const table = new Uint8Array(65536)
   const keep = 1 - strength
   for (let p = 0; p < 256; p++) {
@@ -290,6 +296,12 @@ export function evenWithMap(grey: Uint8Array, paper: Uint8Array, strength: numbe
       table[(p << 8) | g] = v >= 255 ? 255 : Math.round(v)
     }
   }
+  return table
+}
+
+/** Evened luma: the image divided by the paper's brightness, blended by strength (as lighting evening). */
+export function evenWithMap(grey: Uint8Array, paper: Uint8Array, strength: number): Uint8Array {
+  const table = eveningTable(strength)
   const out = new Uint8Array(grey.length)
   for (let i = 0; i < grey.length; i++) out[i] = table[(paper[i]! << 8) | grey[i]!]!
   return out
@@ -362,11 +374,15 @@ function thresholdChoice(facts: ThresholdFacts, settings: PipelineSettings): { v
 }
 
 /** Threshold a grey image by a pinned threshold setting (ink = 1), at pxPerMm for the adaptive window. */
-export function applyThreshold(grey: Uint8Array, w: number, h: number, t: Analysis['threshold'], pxPerMm: number): { bitmap: Uint8Array, level: number } {
+export function applyThreshold(
+  grey: Uint8Array, w: number, h: number, t: Analysis['threshold'], pxPerMm: number, hist?: Uint32Array,
+): { bitmap: Uint8Array, level: number } {
+  // The grey's histogram (given when the caller has it already).
+  const otsu = () => otsuDetails(hist ?? histogram(grey)).threshold
   if (t.mode === 'adaptive') {
-    return { bitmap: sauvolaBitmap(grey, w, h, { window: windowPx(t.windowMm, pxPerMm), k: t.k, r: t.r }), level: otsuDetails(histogram(grey)).threshold }
+    return { bitmap: sauvolaBitmap(grey, w, h, { window: windowPx(t.windowMm, pxPerMm), k: t.k, r: t.r }), level: otsu() }
   }
-  const level = t.mode === 'manual' ? t.value : otsuDetails(histogram(grey)).threshold
+  const level = t.mode === 'manual' ? t.value : otsu()
   const bm = new Uint8Array(grey.length)
   for (let i = 0; i < bm.length; i++) bm[i] = grey[i]! <= level ? 1 : 0
   return { bitmap: bm, level }

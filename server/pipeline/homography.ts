@@ -201,6 +201,16 @@ export function warpBilinear(
  * per column and per row.
  */
 export function scaleBilinear(src: Uint8Array, sw: number, sh: number, outToIn: Mat3, dw: number, dh: number): Uint8Array {
+  const out = new Uint8Array(dw * dh)
+  scaleBilinearRows(src, sw, sh, outToIn, dw, dh, (v, row) => out.set(row, v * dw))
+  return out
+}
+
+/**
+ * scaleBilinear handing over one output row at a time (the same buffer each time, valid during
+ * the call), so a caller that only reads the scaled image once need not hold all of it.
+ */
+export function scaleBilinearRows(src: Uint8Array, sw: number, sh: number, outToIn: Mat3, dw: number, dh: number, take: (v: number, row: Uint8Array) => void): void {
   const [sx, b, tx, d, sy, ty, g, h] = outToIn
   if (b !== 0 || d !== 0 || g !== 0 || h !== 0) throw new RangeError('scaleBilinear takes a scale and a shift only.')
   const axis = (n: number, s: number, t: number, size: number) => {
@@ -215,7 +225,7 @@ export function scaleBilinear(src: Uint8Array, sw: number, sh: number, outToIn: 
     return { i0, i1, f }
   }
   const X = axis(dw, sx, tx, sw), Y = axis(dh, sy, ty, sh)
-  const out = new Uint8Array(dw * dh)
+  const row = new Uint8Array(dw)
   // Each source row interpolated across once, and kept while output rows still read it: an
   // enlargement reads the same pair of rows for several output rows in turn.
   let rowA = -1, rowB = -1
@@ -233,11 +243,10 @@ export function scaleBilinear(src: Uint8Array, sw: number, sh: number, outToIn: 
       if (rowB === r0) { const t = bufA; bufA = bufB; bufB = t; rowB = rowA; rowA = r0 } else { across(r0, bufA); rowA = r0 }
     }
     if (rowB !== r1) { across(r1, bufB); rowB = r1 }
-    const o = v * dw
     for (let u = 0; u < dw; u++) {
       const top = bufA[u]!
-      out[o + u] = Math.round(top + (bufB[u]! - top) * fy)
+      row[u] = Math.round(top + (bufB[u]! - top) * fy)
     }
+    take(v, row)
   }
-  return out
 }

@@ -64,44 +64,56 @@ function transpose(img: Uint8Array, width: number, height: number): Uint8Array {
   return out
 }
 
-/** Mean darkness along rows of the given slope; index r is the line through (0, r − pad). */
-function meanProfile(img: Uint8Array, width: number, height: number, slope: number): { profile: Float64Array, pad: number } {
+/** Each row's running sums: row y's pixels 0 … x − 1 add up to sums[y · (width + 1) + x]. */
+function rowSums(img: Uint8Array, width: number, height: number): Int32Array {
+  const sums = new Int32Array((width + 1) * height)
+  for (let y = 0; y < height; y++) {
+    const o = y * width, q = y * (width + 1)
+    let acc = 0
+    for (let x = 0; x < width; x++) { acc += img[o + x]!; sums[q + x + 1] = acc }
+  }
+  return sums
+}
+
+/**
+ * Sums and pixel counts along rows of the given slope; index r is the line through (0, r − pad).
+ * Along such a line the row changes only every 1 / |slope| pixels, so each stretch of one
+ * row is added at once from the row's running sums.
+ */
+function sumsAlong(sums: Int32Array, width: number, height: number, slope: number, sum: Int32Array | Float64Array, cnt: Int32Array | Float64Array): { len: number, pad: number } {
   const pad = Math.ceil(Math.abs(slope) * width) + 1
   const len = height + 2 * pad
-  const sum = new Float64Array(len)
-  const cnt = new Float64Array(len)
-  const shift = new Int32Array(width)
-  for (let x = 0; x < width; x++) shift[x] = pad - Math.round(slope * x)
-  for (let y = 0; y < height; y++) {
-    const o = y * width
-    for (let x = 0; x < width; x++) {
-      const r = y + shift[x]!
-      sum[r]! += img[o + x]!
-      cnt[r]!++
+  sum.fill(0, 0, len); cnt.fill(0, 0, len)
+  for (let xa = 0; xa < width;) {
+    const sh = pad - Math.round(slope * xa)
+    let xb = xa + 1
+    while (xb < width && pad - Math.round(slope * xb) === sh) xb++
+    const n = xb - xa
+    for (let y = 0, q = 0; y < height; y++, q += width + 1) {
+      sum[y + sh]! += sums[q + xb]! - sums[q + xa]!
+      cnt[y + sh]! += n
     }
+    xa = xb
   }
+  return { len, pad }
+}
+
+/** Mean darkness along rows of the given slope; index r is the line through (0, r − pad). */
+function meanProfile(img: Uint8Array, width: number, height: number, slope: number): { profile: Float64Array, pad: number } {
+  const maxLen = height + 2 * (Math.ceil(Math.abs(slope) * width) + 1)
+  const sum = new Float64Array(maxLen), cnt = new Float64Array(maxLen)
+  const { len, pad } = sumsAlong(rowSums(img, width, height), width, height, slope, sum, cnt)
   const profile = new Float64Array(len)
   for (let r = 0; r < len; r++) profile[r] = cnt[r]! > 0.5 * width ? sum[r]! / cnt[r]! : 0
   return { profile, pad }
 }
 
 /** Sum of squared steps of the mean profile along rows of the given slope (integer sums: fast). */
-function slopeScore(img: Uint8Array, width: number, height: number, slope: number, sum: Int32Array, cnt: Int32Array, shift: Int32Array): number {
-  const pad = Math.ceil(Math.abs(slope) * width) + 1
-  const len = height + 2 * pad
-  sum.fill(0, 0, len); cnt.fill(0, 0, len + 1)
-  for (let x = 0; x < width; x++) {
-    const sh = pad - Math.round(slope * x)
-    shift[x] = sh
-    cnt[sh]!++; cnt[sh + height]!-- // rows sh … sh + height − 1 get one more sample
-  }
-  for (let y = 0; y < height; y++) {
-    const o = y * width
-    for (let x = 0; x < width; x++) sum[y + shift[x]!]! += img[o + x]!
-  }
-  let score = 0, prev = -1, running = 0
+function slopeScore(sums: Int32Array, width: number, height: number, slope: number, sum: Int32Array, cnt: Int32Array): number {
+  const { len } = sumsAlong(sums, width, height, slope, sum, cnt)
+  let score = 0, prev = -1
   for (let r = 0; r < len; r++) {
-    running += cnt[r]!
+    const running = cnt[r]!
     if (running <= 0.5 * width) { prev = -1; continue }
     const v = sum[r]! / running
     if (prev >= 0) score += (v - prev) * (v - prev)
@@ -114,25 +126,25 @@ function bestSlope(img: Uint8Array, width: number, height: number): number {
   // Coarse on a quarter-size copy, fine on a half-size one.
   const half = halveGrey(img, width, height)
   const quarter = halveGrey(half.img, half.width, half.height)
+  const halfSums = rowSums(half.img, half.width, half.height), quarterSums = rowSums(quarter.img, quarter.width, quarter.height)
   const maxPad = Math.ceil(Math.tan((3.5 * Math.PI) / 180) * half.width) + 1
   const sum = new Int32Array(half.height + 2 * maxPad + 1)
   const cnt = new Int32Array(half.height + 2 * maxPad + 2)
-  const shift = new Int32Array(half.width)
   let best = 0, bestScore = -1
   // From the middle outwards; a neighbour must do clearly better to move away from it.
-  const search = (im: typeof half, centre: number, reach: number, step: number) => {
+  const search = (im: typeof half, sums: Int32Array, centre: number, reach: number, step: number) => {
     best = centre
-    bestScore = slopeScore(im.img, im.width, im.height, Math.tan((centre * Math.PI) / 180), sum, cnt, shift)
+    bestScore = slopeScore(sums, im.width, im.height, Math.tan((centre * Math.PI) / 180), sum, cnt)
     for (let k = 1; k * step <= reach + 1e-9; k++) {
       for (const deg of [centre - k * step, centre + k * step]) {
-        const score = slopeScore(im.img, im.width, im.height, Math.tan((deg * Math.PI) / 180), sum, cnt, shift)
+        const score = slopeScore(sums, im.width, im.height, Math.tan((deg * Math.PI) / 180), sum, cnt)
         if (score > 1.001 * bestScore) { bestScore = score; best = deg }
       }
     }
   }
-  search(quarter, 0, 3, 0.5)
-  search(half, best, 0.3, 0.1)
-  search(half, best, 0.05, 0.05)
+  search(quarter, quarterSums, 0, 3, 0.5)
+  search(half, halfSums, best, 0.3, 0.1)
+  search(half, halfSums, best, 0.05, 0.05)
   return Math.tan((best * Math.PI) / 180)
 }
 

@@ -11,19 +11,20 @@
 //
 // The source is read by libvips twice, each time straight at the size needed (shrink-on-load
 // for JPEG): once shrunk for the analysis, once at the working grid, so every per-pixel step
-// runs at the prepared resolution, never the photo's. Colour is resampled before grey (luma is
-// linear in R′G′B′, so this equals resampling the grey image, up to rounding). Where the sheet
-// is straightened or turned, the source is read near the working scale and the frame is taken
-// from it by bilinear interpolation through the homography.
-import sharp, { type Metadata, type OutputInfo } from 'sharp'
+// runs at the prepared resolution, never the photo's (a small source, which either read would
+// decode whole, is decoded once for both). Colour is resampled before grey (luma is linear in
+// R′G′B′, so this equals resampling the grey image, up to rounding).
+// Where the sheet is straightened or turned, the source is read near the working scale and the
+// frame is taken from it by bilinear interpolation through the homography.
+import sharp, { type Metadata, type OutputInfo, type Sharp } from 'sharp'
 import type { CleanUpChoice } from '../../shared/types/pipeline'
 import { preparedSize, type PreparedSize } from '../../shared/utils/units'
-import { ANALYSIS_SIDE, applyThreshold, evenWithMap, finishAnalysis, readingKey, readSheet, type Analysis, type SheetReading } from './analyse'
+import { ANALYSIS_SIDE, applyThreshold, eveningTable, finishAnalysis, readingKey, readSheet, type Analysis, type SheetReading } from './analyse'
 import { densityGrey } from './colour'
 import { inkBox, piecesOf } from './components'
 import { NotADrawingError, PrepareError } from './errors'
 import { sourceBox } from './frame'
-import { multiply, scaleBilinear, scaling, translation, warpBilinear } from './homography'
+import { multiply, scaleBilinear, scaleBilinearRows, scaling, translation, warpBilinear, type Mat3 } from './homography'
 import { mapFamily, removeLines } from './lines'
 import { toGrey } from './luma'
 import { histogram as makeHistogram } from './otsu'
@@ -124,28 +125,53 @@ interface SourceReader {
   rgb(region: Rect | null, toW: number, toH: number): Promise<Uint8Array>
 }
 
-function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number): SourceReader {
+function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number, keep: boolean): SourceReader {
+  const open = () => sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
+  let whole: Promise<Uint8Array> | null = null
+  const decoded = () => (whole ??= read((crop ? open().extract(crop) : open()).flatten({ background: '#ffffff' }), width, height))
   return {
     async rgb(region, toW, toH) {
       const r = region ?? { left: 0, top: 0, width, height }
-      let img = sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
-      if (crop || r.width !== width || r.height !== height) {
-        img = img.extract({ left: r.left + (crop?.left ?? 0), top: r.top + (crop?.top ?? 0), width: r.width, height: r.height })
+      const partial = r.width !== width || r.height !== height
+      const resized = toW !== r.width || toH !== r.height
+      const kernel = toW * toH < r.width * r.height ? 'lanczos3' : 'cubic'
+      // The kept copy serves every read that libvips would not shrink while decoding (to half
+      // the size or less), so each read sees the very pixels it would see from the file.
+      if (keep && 2 * toW > r.width && 2 * toH > r.height) {
+        const all = await decoded()
+        if (!resized) return partial ? cropRgb(all, width, r) : all
+        let img = sharp(all, { raw: { width, height, channels: 3 } })
+        if (partial) img = img.extract(r)
+        return read(img.resize(toW, toH, { fit: 'fill', kernel }), toW, toH)
       }
+      let img = open()
+      if (crop || partial) img = img.extract({ left: r.left + (crop?.left ?? 0), top: r.top + (crop?.top ?? 0), width: r.width, height: r.height })
       img = img.flatten({ background: '#ffffff' })
-      if (toW !== r.width || toH !== r.height) img = img.resize(toW, toH, { fit: 'fill', kernel: toW * toH < r.width * r.height ? 'lanczos3' : 'cubic' })
-      let out: { data: Buffer, info: OutputInfo }
-      try {
-        out = await img.toColourspace('srgb').removeAlpha().raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
-      } catch (e) {
-        throw new PrepareError('The image could not be decoded.', { cause: e })
-      }
-      if (out.info.channels !== 3 || out.info.width !== toW || out.info.height !== toH) {
-        throw new PrepareError(`Expected a ${toW} × ${toH} colour image, got ${out.info.width} × ${out.info.height} × ${out.info.channels}.`)
-      }
-      return asU8(out.data)
+      if (resized) img = img.resize(toW, toH, { fit: 'fill', kernel })
+      return read(img, toW, toH)
     },
   }
+}
+
+/** R′G′B′ of a sharp pipeline, checked to be toW × toH × 3. */
+async function read(img: Sharp, toW: number, toH: number): Promise<Uint8Array> {
+  let out: { data: Buffer, info: OutputInfo }
+  try {
+    out = await img.toColourspace('srgb').removeAlpha().raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
+  } catch (e) {
+    throw new PrepareError('The image could not be decoded.', { cause: e })
+  }
+  if (out.info.channels !== 3 || out.info.width !== toW || out.info.height !== toH) {
+    throw new PrepareError(`Expected a ${toW} × ${toH} colour image, got ${out.info.width} × ${out.info.height} × ${out.info.channels}.`)
+  }
+  return asU8(out.data)
+}
+
+/** A region of an R′G′B′ image of the given width. */
+function cropRgb(rgb: Uint8Array, width: number, r: Rect): Uint8Array {
+  const out = new Uint8Array(r.width * r.height * 3)
+  for (let y = 0; y < r.height; y++) out.set(rgb.subarray(((r.top + y) * width + r.left) * 3, ((r.top + y) * width + r.left + r.width) * 3), y * r.width * 3)
+  return out
 }
 
 /** The bitmap cut to box (inclusive) with `margin` pixels of paper around it. */
@@ -235,6 +261,33 @@ export async function prepareDrawing(
   return prepare(input, settingsInput, drawingWidthMm, 'drawing', options)
 }
 
+/**
+ * Lighting evening of the working grid's grey, in place, with the paper's brightness (on the
+ * analysis frame) enlarged a row at a time and used at once; returns the evened grey's histogram.
+ */
+function evenInPlace(grey: Uint8Array, w: number, h: number, paperMap: Uint8Array, mw: number, mh: number, toMap: Mat3, strength: number): Uint32Array {
+  const table = eveningTable(strength)
+  const hist = new Uint32Array(256)
+  scaleBilinearRows(paperMap, mw, mh, toMap, w, h, (v, paper) => {
+    for (let u = 0, i = v * w; u < w; u++, i++) {
+      const e = table[(paper[u]! << 8) | grey[i]!]!
+      grey[i] = e
+      hist[e]!++
+    }
+  })
+  return hist
+}
+
+/**
+ * Whether the source is decoded whole once and kept for the reads that would decode it whole
+ * anyway (see sourceReader): a source under twice the analysis copy's side, in plain 8-bit
+ * R′G′B′ (which a decode followed by the reads' own steps leaves unchanged).
+ */
+function keepDecoded(meta: Metadata, srcW: number, srcH: number): boolean {
+  return Math.max(srcW, srcH) < 2 * ANALYSIS_SIDE && meta.channels === 3 && meta.depth === 'uchar' && !meta.hasProfile
+    && (meta.space === undefined || meta.space === 'srgb')
+}
+
 async function prepare(
   input: Buffer | Uint8Array,
   settingsInput: PipelineSettingsInput | PipelineSettings,
@@ -272,7 +325,7 @@ async function prepare(
   if (widthOf === 'drawing' && (srcW < MIN_SIDE_PX || srcH < MIN_SIDE_PX)) {
     throw new NotADrawingError('too-small', `The image is only ${srcW} × ${srcH} pixels: too small to hold a drawing. Upload a scan or photo of the drawing itself.`)
   }
-  const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH)
+  const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH, keepDecoded(meta, srcW, srcH))
 
   // The analysis, on a shrunk copy; the sheet's reading kept from an earlier run when it can be.
   const aScale = Math.min(1, ANALYSIS_SIDE / Math.max(srcW, srcH))
@@ -358,19 +411,23 @@ async function prepare(
   const n = workW * workH
   const evening = analysis.lighting.on ? analysis.lighting.strength : 0
   let paperLuma: Uint8Array | null = null
-  if (evening > 0) {
-    const toAnalysis = multiply(scaling(analysis.width / frame.width, analysis.height / frame.height), workToFrame)
-    paperLuma = scaleBilinear(analysis.paperMap, analysis.width, analysis.height, toAnalysis, workW, workH)
+  const toAnalysis = multiply(scaling(analysis.width / frame.width, analysis.height / frame.height), workToFrame)
+  let histogram: Uint32Array
+  if (density) {
+    if (evening > 0) paperLuma = scaleBilinear(analysis.paperMap, analysis.width, analysis.height, toAnalysis, workW, workH)
+    grey = densityGrey(rgb!, n, { paper: analysis.paper, paperLuma, dropped: analysis.dropped, strength: evening })
+    histogram = makeHistogram(grey)
+  } else if (evening > 0) {
+    histogram = evenInPlace(grey!, workW, workH, analysis.paperMap, analysis.width, analysis.height, toAnalysis, evening)
+  } else {
+    histogram = makeHistogram(grey!)
   }
-  if (density) grey = densityGrey(rgb!, n, { paper: analysis.paper, paperLuma, dropped: analysis.dropped, strength: evening })
-  else if (paperLuma) grey = evenWithMap(grey!, paperLuma, evening)
   // Each full-size buffer is let go as soon as it is used: four 48 MP uploads at once must fit.
   rgb = null
   paperLuma = null
   const t4 = performance.now()
 
-  const histogram = makeHistogram(grey!)
-  const thresholded = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork)
+  const thresholded = applyThreshold(grey!, workW, workH, analysis.threshold, pxPerMmWork, histogram)
   const level = thresholded.level
   grey = new Uint8Array(0)
   let workBitmap = thresholded.bitmap
