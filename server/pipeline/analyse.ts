@@ -529,12 +529,21 @@ function paperLinesChoice(s: PipelineSettings, lines: LineFamily[], remove: bool
   }
 }
 
+/**
+ * The sheet squared from its corners (pixels of the source as cropped), for a camera whose
+ * principal point and photo's long side are given: the one straightening every path uses (the
+ * colour layers' too, colour/straighten.ts), so all read the same frame.
+ */
+export function squaredSheet(q: Quad, principal: { x: number, y: number }, photoLongSide: number): { width: number, height: number, toSource: Frame['toSource'] } {
+  return fromSheet(sheetFrame(q, principal.x, principal.y, photoLongSide, SHEET_INSET))
+}
+
 function frameFor(input: AnalysisInput, luma: Uint8Array): { frame: Frame, choice: CleanUpChoice } {
   const s = input.settings
   const c = s.corners
   let base: { width: number, height: number, toSource: Frame['toSource'] } = sourceFrame(input.sourceWidth, input.sourceHeight)
   let choice: CleanUpChoice
-  const straighten = (q: Quad) => fromSheet(sheetFrame(q, input.principal.x, input.principal.y, input.photoLongSide, SHEET_INSET))
+  const straighten = (q: Quad) => squaredSheet(q, input.principal, input.photoLongSide)
   const onWhole = (q: Quad) => q.map((p) => ({ x: p.x + input.cropOffset.x, y: p.y + input.cropOffset.y })) as Quad
   if (c.mode === 'manual') {
     const q = c.points.map((p) => ({ x: p.x - input.cropOffset.x, y: p.y - input.cropOffset.y })) as Quad

@@ -2,7 +2,7 @@
 // the upright (and cropped) source. It is the source itself, or the straightened sheet, then
 // turned by quarter turns and a fine angle (clockwise, about its centre, on a canvas that
 // holds the whole turned picture; corners the turn uncovers are paper).
-import { IDENTITY, apply, invert, isIdentity, multiply, rotation, translation, type Mat3, type Pt } from './homography'
+import { IDENTITY, apply, invert, isIdentity, multiply, rotation, scaling, translation, type Mat3, type Pt } from './homography'
 import type { SheetFrame } from './sheet'
 
 export interface Frame {
@@ -52,4 +52,28 @@ export function sourceBox(frame: Frame, x0: number, y0: number, x1: number, y1: 
     x0: Math.min(...pts.map((p) => p.x)), y0: Math.min(...pts.map((p) => p.y)),
     x1: Math.max(...pts.map((p) => p.x)), y1: Math.max(...pts.map((p) => p.y)),
   }
+}
+
+export interface Rect { left: number, top: number, width: number, height: number }
+
+/**
+ * How a region of the frame (frame pixels) is read onto a toW × toH grid from a source of
+ * srcW × srcH pixels: the source rectangle that covers it (two pixels spare for the filter),
+ * the size to resample that rectangle to first (libvips, close to the grid's scale, never
+ * enlarged), and the maps for warpBilinear from a grid pixel into that copy and into the base
+ * frame (what lies outside it is fill). Shared by the one-colour clean-up and the colour layers,
+ * so both read the same frame the same way.
+ */
+export function frameReadPlan(frame: Frame, region: Rect, toW: number, toH: number, srcW: number, srcH: number) {
+  const b = sourceBox(frame, region.left, region.top, region.left + region.width, region.top + region.height)
+  const sx0 = Math.max(0, Math.floor(b.x0) - 2), sy0 = Math.max(0, Math.floor(b.y0) - 2)
+  const sx1 = Math.min(srcW, Math.ceil(b.x1) + 2), sy1 = Math.min(srcH, Math.ceil(b.y1) + 2)
+  const source: Rect = { left: sx0, top: sy0, width: Math.max(1, sx1 - sx0), height: Math.max(1, sy1 - sy0) }
+  const si = Math.min(1, toW / region.width)
+  const nearW = Math.max(1, Math.round(source.width * si)), nearH = Math.max(1, Math.round(source.height * si))
+  // grid pixel → frame pixel → source pixel → pixel of the resampled copy
+  const gridToFrame = multiply(translation(region.left, region.top), scaling(region.width / toW, region.height / toH))
+  const outToIn = multiply(scaling(nearW / source.width, nearH / source.height), multiply(translation(-sx0, -sy0), multiply(frame.toSource, gridToFrame)))
+  const within = { map: multiply(frame.base.toBase, gridToFrame), width: frame.base.width, height: frame.base.height }
+  return { source, nearW, nearH, outToIn, within }
 }

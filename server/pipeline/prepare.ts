@@ -23,7 +23,7 @@ import { ANALYSIS_SIDE, applyThreshold, eveningTable, finishAnalysis, readingKey
 import { densityGrey } from './colour'
 import { inkBox, piecesOf } from './components'
 import { NotADrawingError, PrepareError } from './errors'
-import { sourceBox } from './frame'
+import { frameReadPlan, type Rect } from './frame'
 import { multiply, scaleBilinear, scaleBilinearRows, scaling, translation, warpBilinear, type Mat3 } from './homography'
 import { mapFamily, removeLines } from './lines'
 import { toGrey } from './luma'
@@ -111,8 +111,6 @@ function asU8(b: Buffer): Uint8Array {
 export async function bitmapToPng(bitmap: Uint8Array, width: number, height: number, fast = false): Promise<Buffer> {
   return bilevelPng(bitmap, width, height, fast ? 1 : 6)
 }
-
-interface Rect { left: number, top: number, width: number, height: number }
 
 /** Reads the upright source (cropped by the settings) through sharp, as often as needed. */
 interface SourceReader {
@@ -389,18 +387,11 @@ async function prepare(
     rgb = await source.rgb(region, workW, workH)
     if (!density) { grey = toGrey(rgb, workW, workH, 3, settings.luma); rgb = null }
   } else {
-    const b = sourceBox(frame, region.left, region.top, region.left + region.width, region.top + region.height)
-    const sx0 = Math.max(0, Math.floor(b.x0) - 2), sy0 = Math.max(0, Math.floor(b.y0) - 2)
-    const sx1 = Math.min(srcW, Math.ceil(b.x1) + 2), sy1 = Math.min(srcH, Math.ceil(b.y1) + 2)
-    const sRect: Rect = { left: sx0, top: sy0, width: Math.max(1, sx1 - sx0), height: Math.max(1, sy1 - sy0) }
     // Resample the source close to the working scale first (libvips, with a proper filter),
     // then read the frame from it bilinearly.
-    const si = Math.min(1, workW / region.width)
-    const iw = Math.max(1, Math.round(sRect.width * si)), ih = Math.max(1, Math.round(sRect.height * si))
+    const { source: sRect, nearW: iw, nearH: ih, outToIn, within } = frameReadPlan(frame, region, workW, workH, srcW, srcH)
     const near = await source.rgb(sRect, iw, ih)
-    const outToIn = multiply(scaling(iw / sRect.width, ih / sRect.height), multiply(translation(-sx0, -sy0), multiply(frame.toSource, workToFrame)))
     const fill = analysis.paper.rgb.map(Math.round)
-    const within = { map: multiply(frame.base.toBase, workToFrame), width: frame.base.width, height: frame.base.height }
     // Luma is linear in R′G′B′: take it first and straighten one channel instead of three.
     if (density) rgb = warpBilinear(near, iw, ih, 3, outToIn, workW, workH, fill, within)
     else grey = warpBilinear(toGrey(near, iw, ih, 3, settings.luma), iw, ih, 1, outToIn, workW, workH, [Math.round(analysis.paper.luma)], within)

@@ -9,7 +9,7 @@ export const MAX_LAYERS = 6
 /**
  * A layer's measurements: the single-colour ones less the grey threshold (of the layer as cut,
  * without the registration marks), and the marks cut on the layer's sheet beside it (left out
- * of layers stored before they were measured; see marksOfLayer in server/jobs).
+ * of layers stored before they were measured; see marksOfJob in server/jobs/service.ts).
  */
 export type LayerMeasurements = Omit<Measurements, 'threshold'> & { marks?: MarksCut }
 

@@ -6,13 +6,11 @@
 import sharp from 'sharp'
 import type { CleanUpChoice } from '../../../shared/types/pipeline'
 import type { CornersSetting, PipelineSettings } from '../../../shared/utils/settings'
-import { SHEET_INSET } from '../analyse'
+import { squaredSheet } from '../analyse'
 import { PrepareError } from '../errors'
-import { fromSheet, sourceBox, sourceFrame, turnFrame, type Frame } from '../frame'
-import { apply, invert, multiply, scaling, translation, warpBilinear, type Pt } from '../homography'
-import { sheetFrame, type Quad } from '../sheet'
-
-export interface Rect { left: number, top: number, width: number, height: number }
+import { frameReadPlan, sourceFrame, turnFrame, type Frame, type Rect } from '../frame'
+import { apply, invert, warpBilinear, type Pt } from '../homography'
+import type { Quad } from '../sheet'
 
 type FrameSettings = Pick<PipelineSettings, 'corners' | 'quarterTurns' | 'fineAngleDeg'>
 
@@ -42,7 +40,7 @@ export function colourFrame(settings: FrameSettings, upright: { width: number, h
   const c = settings.corners
   const ox = crop?.left ?? 0, oy = crop?.top ?? 0
   const base = c.mode === 'manual'
-    ? fromSheet(sheetFrame(c.points.map((p) => ({ x: p.x - ox, y: p.y - oy })) as Quad, upright.width / 2 - ox, upright.height / 2 - oy, Math.max(upright.width, upright.height), SHEET_INSET))
+    ? squaredSheet(c.points.map((p) => ({ x: p.x - ox, y: p.y - oy })) as Quad, { x: upright.width / 2 - ox, y: upright.height / 2 - oy }, Math.max(upright.width, upright.height))
     : sourceFrame(crop?.width ?? upright.width, crop?.height ?? upright.height)
   return turnFrame(base, settings.quarterTurns, settings.fineAngleDeg)
 }
@@ -77,12 +75,7 @@ function paperOf(rgba: Uint8Array, pixels: number): [number, number, number] {
  * middle colour of the rest.
  */
 export async function readFrame(input: Uint8Array, o: { maxSourcePixels: number, crop: Rect | null, width: number, height: number }, frame: Frame, region: Rect, toW: number, toH: number): Promise<Uint8Array> {
-  const b = sourceBox(frame, region.left, region.top, region.left + region.width, region.top + region.height)
-  const sx0 = Math.max(0, Math.floor(b.x0) - 2), sy0 = Math.max(0, Math.floor(b.y0) - 2)
-  const sx1 = Math.min(o.width, Math.ceil(b.x1) + 2), sy1 = Math.min(o.height, Math.ceil(b.y1) + 2)
-  const s: Rect = { left: sx0, top: sy0, width: Math.max(1, sx1 - sx0), height: Math.max(1, sy1 - sy0) }
-  const si = Math.min(1, toW / region.width)
-  const iw = Math.max(1, Math.round(s.width * si)), ih = Math.max(1, Math.round(s.height * si))
+  const { source: s, nearW: iw, nearH: ih, outToIn, within } = frameReadPlan(frame, region, toW, toH, o.width, o.height)
   let near: Buffer
   try {
     near = await sharp(input, { limitInputPixels: o.maxSourcePixels, failOn: 'error' }).autoOrient()
@@ -94,10 +87,6 @@ export async function readFrame(input: Uint8Array, o: { maxSourcePixels: number,
     throw new PrepareError('The image could not be decoded.', { cause: e })
   }
   if (near.length !== iw * ih * 4) throw new PrepareError(`Expected a ${iw} × ${ih} colour image, got ${near.length} bytes.`)
-  // grid pixel → frame pixel → source pixel → pixel of the resampled copy
-  const gridToFrame = multiply(translation(region.left, region.top), scaling(region.width / toW, region.height / toH))
-  const outToIn = multiply(scaling(iw / s.width, ih / s.height), multiply(translation(-sx0, -sy0), multiply(frame.toSource, gridToFrame)))
-  const within = { map: multiply(frame.base.toBase, gridToFrame), width: frame.base.width, height: frame.base.height }
   const rgba = warpBilinear(new Uint8Array(near.buffer, near.byteOffset, near.length), iw, ih, 4, outToIn, toW, toH, [0, 0, 0, 0], within)
   const n = toW * toH
   const paper = paperOf(rgba, n)
