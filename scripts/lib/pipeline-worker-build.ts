@@ -1,7 +1,8 @@
 // Bundles the worker threads' entries into one file each, which piscina loads in each thread:
 // server/pipeline/worker.ts (sharp, native, with potrace and svgo, stays external and resolves
 // from the server's node_modules) and server/cutsheet/worker.ts (piscina stays external: move()
-// marks answers with a symbol private to the copy of piscina that runs the thread); and
+// marks answers with a symbol private to the copy of piscina that runs the thread; the S3
+// client, which stores a kept set's files from the thread, resolves from node_modules); and
 // server/work/main.ts into the work queue's worker process (`npm run worker`).
 import path from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -11,9 +12,11 @@ export const PIPELINE_WORKER_FILE = 'pipeline-worker.mjs'
 export const CUTSHEET_WORKER_FILE = 'cutsheet-worker.mjs'
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..')
+/** Nuxt's aliases, for server modules that import shared ones. */
+const ALIASES = { '#shared': path.join(root, 'shared'), '#server': path.join(root, 'server') }
 
 function bundle(entry: string, outfile: string, external: string[]) {
-  return build({ entryPoints: [path.join(root, entry)], outfile, bundle: true, platform: 'node', format: 'esm', target: 'node20', external, logLevel: 'warning' })
+  return build({ entryPoints: [path.join(root, entry)], outfile, bundle: true, platform: 'node', format: 'esm', target: 'node20', external, alias: ALIASES, logLevel: 'warning' })
 }
 
 export const WORK_RUNNER_FILE = 'work-runner.mjs'
@@ -25,7 +28,7 @@ export async function buildPipelineWorker(outDir: string): Promise<void> {
 /** The cut sheets' worker; returns its path. */
 export async function buildCutSheetWorker(outDir: string): Promise<string> {
   const file = path.join(outDir, CUTSHEET_WORKER_FILE)
-  await bundle('server/cutsheet/worker.ts', file, ['piscina'])
+  await bundle('server/cutsheet/worker.ts', file, ['piscina', '@aws-sdk/*'])
   return file
 }
 
@@ -42,7 +45,7 @@ export async function buildWorkRunner(outDir: string): Promise<void> {
     platform: 'node',
     format: 'esm',
     target: 'node20',
-    alias: { '#shared': path.join(root, 'shared'), '#server': path.join(root, 'server') },
+    alias: ALIASES,
     external: ['sharp', 'potrace', 'svgo', 'pg', 'graphile-worker', 'nodemailer', 'piscina', '@aws-sdk/*'],
     // Bundled CommonJS code may call require() and read __dirname; give it both.
     banner: {

@@ -13,7 +13,8 @@ import type { cutSheetQuerySchema } from '#shared/utils/schemas'
 import { CUT_SHEET_LIMITS, WEEDING_LINE_LIMITS } from '#shared/constants/cut-sheet'
 import type { PackInput } from '../cutsheet/pack'
 import type { BatchSheetInput } from '../cutsheet/sheet'
-import { buildSheetsFromVectorsInPool, packInPool } from '../platform/cutsheet-pool'
+import { keepSheetsFromVectorsInPool, packInPool } from '../platform/cutsheet-pool'
+import { keptSheetKey } from '../cutsheet/worker'
 import { sql } from 'kysely'
 import type { SheetWorkResult, WorkPhase } from '#shared/types/work'
 import { inTransaction, type Db } from '../platform/db'
@@ -96,7 +97,8 @@ export type SheetOwner = { batchId: number; jobIds?: undefined } | { batchId?: u
 /** What is kept beside the files; written last, so a half-kept set is never read. */
 interface SheetManifest { sheets: number; engine: string; owner?: SheetOwner; options?: SheetOptions; builtAt?: string }
 
-const fileKey = (key: string, n: number, format: 'svg' | 'dxf') => `${PREFIX}${key}/sheet-${n}.${format}`
+const setPrefix = (key: string) => `${PREFIX}${key}/`
+const fileKey = (key: string, n: number, format: 'svg' | 'dxf') => keptSheetKey(setPrefix(key), n, format)
 const countKey = (key: string) => `${PREFIX}${key}/sheets.json`
 
 async function readManifest(key: string): Promise<SheetManifest | null> {
@@ -110,12 +112,9 @@ async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string, owne
   // The stored vectors go to the thread as they are: it reads and scales them, not this one.
   const vectors = await Promise.all(jobs.map((j) => getObject(j.vector_key)))
   await report('outlining')
-  const built = await buildSheetsFromVectorsInPool({ ...base, designs: base.designs.map(({ heightMm: _h, ...d }, i) => ({ ...d, vector: vectors[i]! })) })
+  // The thread builds and stores the files; their bytes never come to this thread.
+  const built = await keepSheetsFromVectorsInPool({ ...base, designs: base.designs.map(({ heightMm: _h, ...d }, i) => ({ ...d, vector: vectors[i]! })) }, setPrefix(key))
   await report('storing')
-  await Promise.all(built.sheets.flatMap((s, i) => [
-    putObject(fileKey(key, i + 1, 'svg'), s.svg!, 'image/svg+xml'),
-    putObject(fileKey(key, i + 1, 'dxf'), s.dxf!, 'application/dxf'),
-  ]))
   const manifest: SheetManifest = { sheets: built.sheets.length, engine: CUT_SHEET_ENGINE, owner, options: o, builtAt: new Date().toISOString() }
   await putObject(countKey(key), Buffer.from(JSON.stringify(manifest)), 'application/json')
   return built.sheets.length

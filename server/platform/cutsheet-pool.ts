@@ -3,7 +3,9 @@
 import Piscina from 'piscina'
 import { createError } from 'h3'
 import { packCurves } from '../cutsheet/curve-buffer'
-import type { CutSheetAnswer, CutSheetRequest } from '../cutsheet/worker'
+import type { CutSheetAnswer, CutSheetRequest, VectorBatchInput } from '../cutsheet/worker'
+import { platformConfig } from './config'
+import { ServiceUnavailable } from './faults'
 import { workerPath } from './pipeline-pool'
 
 const WORKER_FILE = 'cutsheet-worker.mjs'
@@ -40,6 +42,7 @@ async function inPool<R extends CutSheetRequest>(req: R, options?: RunOptions): 
   }
   if (answer.ok && answer.kind === req.kind) return answer.result as Answer<R['kind']>
   if (!answer.ok && answer.kind === 'settings') throw createError({ statusCode: 422, message: answer.message })
+  if (!answer.ok && answer.kind === 'store') throw new ServiceUnavailable('file store', new Error(answer.message))
   throw new Error(`cut sheet failed: ${answer.ok ? 'unexpected answer' : answer.message}`)
 }
 
@@ -56,11 +59,25 @@ export function buildSheetsInPool(input: Extract<CutSheetRequest, { kind: 'batch
  * Builds a batch's sheets from the designs' stored clean vectors: the bytes cross into the
  * thread unread (a stored file's bytes are in shared memory), and the thread reads the curves.
  */
-export function buildSheetsFromVectorsInPool(input: Extract<CutSheetRequest, { kind: 'batch-vectors' }>['input']) {
-  // Only a buffer the view owns whole is handed over: a small Buffer may share Node's pool slab.
+export function buildSheetsFromVectorsInPool(input: VectorBatchInput) {
+  return inPool({ kind: 'batch-vectors', input }, handingVectors(input))
+}
+
+/**
+ * Builds a batch's sheets from the designs' stored clean vectors and has the thread store
+ * every sheet's SVG and DXF under `prefix` (see keptSheetKey); answers the sheets' figures.
+ * The files' bytes never reach this thread.
+ */
+export function keepSheetsFromVectorsInPool(input: VectorBatchInput, prefix: string) {
+  const { s3, s3TimeoutMs } = platformConfig()
+  return inPool({ kind: 'keep-vectors', input, keep: { prefix, store: { s3, s3TimeoutMs } } }, handingVectors(input))
+}
+
+// Only a buffer the view owns whole is handed over: a small Buffer may share Node's pool slab.
+function handingVectors(input: VectorBatchInput): RunOptions | undefined {
   const handed = input.designs.map((d) => d.vector)
     .filter((v) => v.buffer instanceof ArrayBuffer && v.byteOffset === 0 && v.byteLength === v.buffer.byteLength).map((v) => v.buffer as ArrayBuffer)
-  return inPool({ kind: 'batch-vectors', input }, handed.length ? transferring(handed) : undefined)
+  return handed.length ? transferring(handed) : undefined
 }
 
 /** Where the copies go, without the files. */

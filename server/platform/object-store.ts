@@ -31,6 +31,12 @@ function useObjectStore(): { s3: S3Client; bucket: string } {
   return { s3: client, bucket: config.bucket }
 }
 
+/** Drops the client, so the next exchange makes one from the configuration as it is then (a worker thread told of another store). */
+export function forgetObjectStoreClient(): void {
+  client?.destroy()
+  client = undefined
+}
+
 /** Runs one exchange with the store; a store that is unavailable throws ServiceUnavailable. */
 async function withStore<T>(work: (s3: S3Client, bucket: string) => Promise<T>): Promise<T> {
   const { s3, bucket } = useObjectStore()

@@ -1,10 +1,14 @@
 // The worker thread's entry, run in this thread: plain data in, plain data and bytes out.
-import { describe, expect, it } from 'vitest'
+import { mkdtempSync, rmSync } from 'node:fs'
+import os from 'node:os'
+import path from 'node:path'
+import { GetObjectCommand, S3Client } from '@aws-sdk/client-s3'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { packBatch } from '../../../server/cutsheet/pack'
 import { readCleanVector } from '../../../server/cutsheet/path'
 import { buildCutSheets, type BatchSheetInput } from '../../../server/cutsheet/sheet'
 import { testGrid } from '../../../server/cutsheet/test-grid'
-import { runCutSheetRequest } from '../../../server/cutsheet/worker'
+import { keepCutSheets, keptSheetKey, runCutSheetRequest } from '../../../server/cutsheet/worker'
 import { packCurves } from '../../../server/cutsheet/curve-buffer'
 import { L_BOX, L_PATH, svgMm } from './shapes'
 
@@ -31,7 +35,7 @@ describe('runCutSheetRequest', () => {
     const text = new TextDecoder()
     const files = (r: ReturnType<typeof runCutSheetRequest>) => {
       const a = r.answer
-      if (!a.ok || a.kind === 'pack' || a.kind === 'test-grid') throw new Error(`expected sheets, got ${JSON.stringify(a)}`)
+      if (!a.ok || a.kind === 'pack' || a.kind === 'test-grid' || a.kind === 'keep-vectors') throw new Error(`expected sheets, got ${JSON.stringify(a)}`)
       return a.result.sheets.map((s) => [text.decode(s.svg), text.decode(s.dxf)])
     }
     const objects = files(runCutSheetRequest({ kind: 'batch', input: structuredClone(input) }))
@@ -61,5 +65,57 @@ describe('runCutSheetRequest', () => {
     expect(answer.result).toEqual(packBatch(pack))
     expect(answer.result.copies).toHaveLength(9)
     expect(bytes).toHaveLength(0)
+  })
+})
+
+// A kept set is stored by the thread itself (its tens of megabytes never reach the server's
+// thread), into a real S3 API: s3rver, the project's local object store, in this process.
+describe('keepCutSheets', () => {
+  const store = { endpoint: '', region: 'us-east-1', bucket: 'keep-test', accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER', forcePathStyle: true }
+  const stored = new TextEncoder().encode(svgMm(L_BOX.width, L_BOX.height, [L_PATH]))
+  const vectors = { ...input, designs: input.designs.map(({ curves: _c, heightMm: _h, ...d }) => ({ ...d, vector: stored })) }
+  let server: { close: (cb: () => void) => void } | undefined
+  let dir = ''
+
+  beforeAll(async () => {
+    dir = mkdtempSync(path.join(os.tmpdir(), 'decalwright-keep-'))
+    const { default: S3rver } = await import('s3rver')
+    const s = new S3rver({ port: 0, address: '127.0.0.1', directory: dir, silent: true, configureBuckets: [{ name: store.bucket, configs: [] }] } as never)
+    const at = await s.run() as { port: number }
+    store.endpoint = `http://127.0.0.1:${at.port}`
+    server = s
+  })
+  afterAll(async () => {
+    await new Promise<void>((resolve) => server ? server.close(() => resolve()) : resolve())
+    rmSync(dir, { recursive: true, force: true })
+  })
+
+  it('stores each sheet\'s SVG and DXF under the prefix, byte for byte the files asked for as bytes, and answers only their figures', async () => {
+    const answer = await keepCutSheets(vectors, { prefix: 'cut-sheets/k1/', store: { s3: store, s3TimeoutMs: 5000 } })
+    if (!answer.ok || answer.kind !== 'keep-vectors') throw new Error(`expected a kept set, got ${JSON.stringify(answer)}`)
+    const { answer: asBytes } = runCutSheetRequest({ kind: 'batch-vectors', input: vectors })
+    if (!asBytes.ok || asBytes.kind !== 'batch-vectors') throw new Error('expected sheets')
+    expect(answer.result.sheets.length).toBe(asBytes.result.sheets.length)
+    const s3 = new S3Client({ endpoint: store.endpoint, region: store.region, forcePathStyle: true, credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' } })
+    for (const [i, sheet] of asBytes.result.sheets.entries()) {
+      for (const format of ['svg', 'dxf'] as const) {
+        const r = await s3.send(new GetObjectCommand({ Bucket: store.bucket, Key: keptSheetKey('cut-sheets/k1/', i + 1, format) }))
+        const body = await r.Body!.transformToByteArray()
+        expect(Buffer.from(body).equals(Buffer.from(sheet[format]!)), `sheet ${i + 1} ${format}`).toBe(true)
+        expect(answer.result.sheets[i]![format === 'svg' ? 'svgBytes' : 'dxfBytes']).toBe(body.byteLength)
+      }
+      const { svg: _s, dxf: _d, ...figures } = sheet
+      expect(answer.result.sheets[i]).toMatchObject(figures)
+    }
+    s3.destroy()
+    // Nothing but figures crosses back: the answer is a few kilobytes whatever the files weigh.
+    expect(JSON.stringify(answer).length).toBeLessThan(20_000)
+  })
+
+  it('answers a store that does not answer as a store fault, and refuses a set without both files', async () => {
+    const down = await keepCutSheets(vectors, { prefix: 'cut-sheets/k2/', store: { s3: { ...store, endpoint: 'http://127.0.0.1:9' }, s3TimeoutMs: 1000 } })
+    expect(down).toMatchObject({ ok: false, kind: 'store' })
+    const half = await keepCutSheets({ ...vectors, formats: { svg: true, dxf: false } }, { prefix: 'cut-sheets/k3/', store: { s3: store, s3TimeoutMs: 5000 } })
+    expect(half).toMatchObject({ ok: false, kind: 'settings' })
   })
 })
