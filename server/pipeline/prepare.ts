@@ -26,7 +26,7 @@ import { NotADrawingError, PrepareError } from './errors'
 import { frameReadPlan, type Rect } from './frame'
 import { multiply, scaleBilinear, scaleBilinearRows, scaling, translation, warpBilinear, type Mat3 } from './homography'
 import { mapFamily, removeLines } from './lines'
-import { toGrey } from './luma'
+import { toGrey, type LumaStandard } from './luma'
 import { histogram as makeHistogram } from './otsu'
 import { bilevelPng } from './png'
 import { thickenStrokes } from './thicken'
@@ -121,6 +121,12 @@ interface SourceReader {
    * no full-size copy of a large photo is ever held.
    */
   rgb(region: Rect | null, toW: number, toH: number): Promise<Uint8Array>
+  /**
+   * Luma of the same region at toW × toH. Enlarged, it is taken at the source's size and
+   * enlarged in one channel (luma is linear in R′G′B′, as is cubic resampling: a third of the
+   * work of enlarging three channels, within a level of it); shrunk, it is taken after.
+   */
+  grey(region: Rect | null, toW: number, toH: number, standard: LumaStandard): Promise<Uint8Array>
 }
 
 function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number, keep: boolean): SourceReader {
@@ -147,6 +153,23 @@ function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop:
       img = img.flatten({ background: '#ffffff' })
       if (resized) img = img.resize(toW, toH, { fit: 'fill', kernel })
       return read(img, toW, toH)
+    },
+    async grey(region, toW, toH, standard) {
+      const r = region ?? { left: 0, top: 0, width, height }
+      if (toW < r.width || toH < r.height || (toW === r.width && toH === r.height)) return toGrey(await this.rgb(region, toW, toH), toW, toH, 3, standard)
+      const y = toGrey(await this.rgb(region, r.width, r.height), r.width, r.height, 3, standard)
+      let out: { data: Buffer, info: OutputInfo }
+      try {
+        // b-w keeps one channel: sharp would otherwise answer a grey image as three.
+        out = await sharp(y, { raw: { width: r.width, height: r.height, channels: 1 } }).resize(toW, toH, { fit: 'fill', kernel: 'cubic' })
+          .toColourspace('b-w').raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
+      } catch (e) {
+        throw new PrepareError('The image could not be enlarged.', { cause: e })
+      }
+      if (out.info.channels !== 1 || out.info.width !== toW || out.info.height !== toH) {
+        throw new PrepareError(`Expected a ${toW} × ${toH} grey image, got ${out.info.width} × ${out.info.height} × ${out.info.channels}.`)
+      }
+      return asU8(out.data)
     },
   }
 }
@@ -384,8 +407,8 @@ async function prepare(
   let rgb: Uint8Array | null = null
   const density = analysis.reading === 'density'
   if (frame.identity) {
-    rgb = await source.rgb(region, workW, workH)
-    if (!density) { grey = toGrey(rgb, workW, workH, 3, settings.luma); rgb = null }
+    if (density) rgb = await source.rgb(region, workW, workH)
+    else grey = await source.grey(region, workW, workH, settings.luma)
   } else {
     // Resample the source close to the working scale first (libvips, with a proper filter),
     // then read the frame from it bilinearly.
