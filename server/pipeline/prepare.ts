@@ -133,6 +133,8 @@ function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop:
   const open = () => sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
   let whole: Promise<Uint8Array> | null = null
   const decoded = () => (whole ??= read((crop ? open().extract(crop) : open()).flatten({ background: '#ffffff' }), width, height))
+  // Begun at once, so libvips decodes beside the analysis; a failure surfaces at the read that awaits it.
+  if (keep) decoded().catch(() => {})
   return {
     async rgb(region, toW, toH) {
       const r = region ?? { left: 0, top: 0, width, height }
@@ -299,14 +301,20 @@ function evenInPlace(grey: Uint8Array, w: number, h: number, paperMap: Uint8Arra
   return hist
 }
 
+/** Sources up to this many pixels are decoded whole while the analysis runs (36 MB at 12 MP). */
+export const DECODE_BESIDE_MAX_PIXELS = 16_000_000
+
 /**
  * Whether the source is decoded whole once and kept for the reads that would decode it whole
- * anyway (see sourceReader): a source under twice the analysis copy's side, in plain 8-bit
- * R′G′B′ (which a decode followed by the reads' own steps leaves unchanged).
+ * anyway (see sourceReader), in plain 8-bit R′G′B′ (which a decode followed by the reads' own
+ * steps leaves unchanged): a source under twice the analysis copy's side, whose analysis copy
+ * is read from it; or one of up to DECODE_BESIDE_MAX_PIXELS, decoded on libvips' thread while
+ * this one analyses the shrunk copy, for the working grid's read. Larger ones are not kept:
+ * four 48 MP uploads at once must fit in memory.
  */
 function keepDecoded(meta: Metadata, srcW: number, srcH: number): boolean {
-  return Math.max(srcW, srcH) < 2 * ANALYSIS_SIDE && meta.channels === 3 && meta.depth === 'uchar' && !meta.hasProfile
-    && (meta.space === undefined || meta.space === 'srgb')
+  return (Math.max(srcW, srcH) < 2 * ANALYSIS_SIDE || srcW * srcH <= DECODE_BESIDE_MAX_PIXELS)
+    && meta.channels === 3 && meta.depth === 'uchar' && !meta.hasProfile && (meta.space === undefined || meta.space === 'srgb')
 }
 
 async function prepare(
