@@ -86,6 +86,46 @@ function runningExtremum1D(
   }
 }
 
+/** Each value of `into` becomes the larger (isMax) or smaller of itself and `from`'s, index by index. */
+function combineInto(into: Uint8Array, from: Uint8Array, isMax: boolean): void {
+  const n = into.length
+  if (isMax) for (let i = 0; i < n; i++) { const a = into[i]!, b = from[i]!; if (b > a) into[i] = b }
+  else for (let i = 0; i < n; i++) { const a = into[i]!, b = from[i]!; if (b < a) into[i] = b }
+}
+
+/**
+ * The columns' running extremum, as runningExtremum1D on every column at once: the blocks'
+ * prefix and suffix extrema are kept a whole row at a time, so memory is read row by row
+ * instead of down each column.
+ */
+function columnsExtremum(src: Uint8Array, width: number, height: number, size: number, isMax: boolean): Uint8Array {
+  const r = (size - 1) >> 1
+  const neutral = isMax ? 0 : 255
+  const m = height + 2 * r // padded rows; padded row p is source row p - r
+  const pre = new Uint8Array(m * width)
+  const suf = new Uint8Array(m * width)
+  const row = (p: number) => { const i = p - r; return i >= 0 && i < height ? src.subarray(i * width, (i + 1) * width) : null }
+  for (let blockStart = 0; blockStart < m; blockStart += size) {
+    const blockEnd = Math.min(blockStart + size, m)
+    for (let p = blockStart; p < blockEnd; p++) {
+      const here = pre.subarray(p * width, (p + 1) * width), v = row(p)
+      if (p > blockStart) here.set(pre.subarray((p - 1) * width, p * width))
+      else here.fill(neutral)
+      if (v) combineInto(here, v, isMax)
+    }
+    for (let p = blockEnd - 1; p >= blockStart; p--) {
+      const here = suf.subarray(p * width, (p + 1) * width), v = row(p)
+      if (p < blockEnd - 1) here.set(suf.subarray((p + 1) * width, (p + 2) * width))
+      else here.fill(neutral)
+      if (v) combineInto(here, v, isMax)
+    }
+  }
+  // window of source row y in padded rows: [y, y + size - 1]
+  const out = suf.slice(0, width * height)
+  combineInto(out, pre.subarray((size - 1) * width, (size - 1 + height) * width), isMax)
+  return out
+}
+
 /**
  * Greyscale max-filter (isMax) or min-filter over a size × size square window (size odd),
  * windows clipped at the image border. Returns a new buffer.
@@ -94,24 +134,14 @@ export function squareExtremumFilter(
   img: Uint8Array, width: number, height: number, size: number, isMax: boolean,
 ): Uint8Array {
   if (size < 1 || size % 2 !== 1) throw new RangeError('The window size must be an odd whole number.')
-  const longest = Math.max(width, height)
-  const pad = longest + size
-  const pre = new Uint8Array(pad)
-  const suf = new Uint8Array(pad)
-  const line = new Uint8Array(longest)
-  const lineOut = new Uint8Array(longest)
+  const pre = new Uint8Array(width + size)
+  const suf = new Uint8Array(width + size)
   const tmp = new Uint8Array(width * height)
   for (let y = 0; y < height; y++) {
     const row = img.subarray(y * width, (y + 1) * width)
     runningExtremum1D(row, width, size, isMax, tmp.subarray(y * width, (y + 1) * width), pre, suf)
   }
-  const out = new Uint8Array(width * height)
-  for (let x = 0; x < width; x++) {
-    for (let y = 0; y < height; y++) line[y] = tmp[y * width + x]!
-    runningExtremum1D(line, height, size, isMax, lineOut, pre, suf)
-    for (let y = 0; y < height; y++) out[y * width + x] = lineOut[y]!
-  }
-  return out
+  return columnsExtremum(tmp, width, height, size, isMax)
 }
 
 /** The image extended by `pad` pixels on every side, repeating its edge pixels. */
