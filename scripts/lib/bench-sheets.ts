@@ -33,8 +33,14 @@ async function storeElsewhere(bucket: string): Promise<{ endpoint: string; stop:
     const s = new S3rver({ port: 0, address: '127.0.0.1', directory: ${JSON.stringify(dir)}, silent: true, configureBuckets: [{ name: ${JSON.stringify(bucket)}, configs: [] }] });
     const a = await s.run(); console.log(a.port)`
   const child = spawn(process.execPath, ['--input-type=module', '-e', code], { cwd: process.cwd(), stdio: ['ignore', 'pipe', 'inherit'] })
+  // Never left running: stopped with this process whatever happens to the bench.
+  const kill = () => child.kill()
+  process.once('exit', kill)
   const [line] = await once(child.stdout!, 'data') as [Buffer]
-  return { endpoint: `http://127.0.0.1:${Number(line.toString().trim())}`, stop: () => { child.kill(); rmSync(dir, { recursive: true, force: true }) } }
+  return {
+    endpoint: `http://127.0.0.1:${Number(line.toString().trim())}`,
+    stop: () => { process.off('exit', kill); child.kill(); rmSync(dir, { recursive: true, force: true }) },
+  }
 }
 
 const COPIES = 200
@@ -121,9 +127,14 @@ export async function benchSheets(runs: number): Promise<void> {
   configurePlatform({ databaseUrl: '', smtpUrl: '', mailFrom: '', mailOutboxDir: '', baseUrl: '', s3: { endpoint: store.endpoint, region: 'us-east-1', bucket: 'bench', accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER', forcePathStyle: true } })
   const { keepSheetsFromVectorsInPool } = await import('../../server/platform/cutsheet-pool')
   const keep = (i: number) => keepSheetsFromVectorsInPool({ ...fromVectors, designs: fromVectors.designs.map((d) => ({ ...d, vector: Uint8Array.from(d.vector) })) }, `cut-sheets/bench-${i}/`)
-  await keep(-1)
-  const { walls: keptWalls, pause: kept } = await pausesWhile(runs, keep)
-  store.stop()
+  let measured: Awaited<ReturnType<typeof pausesWhile>>
+  try {
+    await keep(-1)
+    measured = await pausesWhile(runs, keep)
+  } finally {
+    store.stop()
+  }
+  const { walls: keptWalls, pause: kept } = measured
 
   // On the request thread: the content key of a download (all a kept sheet costs besides
   // reading it back), and the job or batch page's layout (boxes only).
