@@ -117,8 +117,8 @@ interface SourceReader {
   /**
    * R′G′B′ (alpha flattened onto white) of a region of the upright, cropped source (whole
    * when null), resampled to toW × toH: Lanczos-3 when shrinking, cubic when enlarging. JPEG
-   * sources are decoded at a reduced size when that is enough (libvips' shrink-on-load), so
-   * no full-size copy of a large photo is ever held.
+   * sources are decoded at a reduced size when that is enough (libvips' shrink-on-load); a
+   * full-size copy is held only of a source of up to DECODE_BESIDE_MAX_PIXELS (keepDecoded).
    */
   rgb(region: Rect | null, toW: number, toH: number): Promise<Uint8Array>
   /**
