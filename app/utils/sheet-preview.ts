@@ -40,7 +40,7 @@ export function screenSheetSvg(svg: string): string {
 export function sheetWorkWords(w: Pick<WorkItemView, 'state' | 'phase' | 'percent'>): { words: string; percent: number } {
   const words = w.state === 'queued' || w.phase === 'waiting' ? 'Waiting for a free worker…'
     : w.phase === 'reading' ? 'Reading the drawings…'
-      : w.phase === 'outlining' ? 'Laying out the copies and writing the files…'
+      : w.phase === 'outlining' ? 'Laying out the copies, writing and keeping the files…'
         : w.phase === 'storing' ? 'Keeping the files…'
           : 'Finishing…'
   return { words, percent: w.percent }

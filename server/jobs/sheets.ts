@@ -114,6 +114,7 @@ async function buildAndKeep(jobs: SheetJob[], o: SheetOptions, key: string, owne
   await report('outlining')
   // The thread builds and stores the files; their bytes never come to this thread.
   const built = await keepSheetsFromVectorsInPool({ ...base, designs: base.designs.map(({ heightMm: _h, ...d }, i) => ({ ...d, vector: vectors[i]! })) }, setPrefix(key))
+  // The files are kept by now; what is left is the manifest that makes the set readable.
   await report('storing')
   const manifest: SheetManifest = { sheets: built.sheets.length, engine: CUT_SHEET_ENGINE, owner, options: o, builtAt: new Date().toISOString() }
   await putObject(countKey(key), Buffer.from(JSON.stringify(manifest)), 'application/json')
