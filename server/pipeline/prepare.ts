@@ -1,7 +1,9 @@
 // The prepared bitmap: from an uploaded source to a 1-bit ink/paper bitmap at the resolution
 // the decal's target width asks for.
 //
-// Order: decode (first frame of an animation) → turn upright by the orientation tag → crop →
+// Order: decode (first frame of an animation; transparency flattened onto white, except that a
+// light drawing on a see-through background is read from its transparency) → turn upright by
+// the orientation tag → crop →
 // analysis of a shrunk copy (analyse.ts: straighten, lighting, lines, ink colour, dropout,
 // threshold method; the drawing's extent) → the working grid: the frame (the source, or the
 // straightened and turned sheet) at the prepared resolution → grey reading (luma, or density
@@ -26,7 +28,7 @@ import { NotADrawingError, PrepareError } from './errors'
 import { frameReadPlan, type Rect } from './frame'
 import { multiply, scaleBilinear, scaleBilinearRows, scaling, translation, warpBilinear, type Mat3 } from './homography'
 import { mapFamily, removeLines } from './lines'
-import { toGrey, type LumaStandard } from './luma'
+import { luma, toGrey, type LumaStandard } from './luma'
 import { histogram as makeHistogram } from './otsu'
 import { bilevelPng } from './png'
 import { thickenStrokes } from './thicken'
@@ -129,8 +131,13 @@ interface SourceReader {
   grey(region: Rect | null, toW: number, toH: number, standard: LumaStandard): Promise<Uint8Array>
 }
 
-function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number, keep: boolean): SourceReader {
-  const open = () => sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
+/** The upright source's transparency as a grey picture: opaque is ink (black), see-through is paper (white). */
+interface ClearSource { grey: Buffer, width: number, height: number }
+
+function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop: Rect | null, width: number, height: number, keep: boolean, clear: ClearSource | null): SourceReader {
+  const open = () => clear
+    ? sharp(clear.grey, { raw: { width: clear.width, height: clear.height, channels: 1 } })
+    : sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
   let whole: Promise<Uint8Array> | null = null
   const decoded = () => (whole ??= read((crop ? open().extract(crop) : open()).flatten({ background: '#ffffff' }), width, height))
   // Begun at once, so libvips decodes beside the analysis; a failure surfaces at the read that awaits it.
@@ -173,6 +180,48 @@ function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop:
       }
       return asU8(out.data)
     },
+  }
+}
+
+/** A see-through background: at least this share of the picture is more than half transparent. */
+export const CLEAR_SHARE = 0.05
+/** Light ink: half the opaque pixels are at least this luma, within an eighth of white (our rule of thumb). */
+export const LIGHT_LUMA = 224
+
+/**
+ * Whether the source is a drawing in a light colour on a see-through background (a tablet
+ * drawing exported for a dark page, say). Flattened onto white, as every other source is, it
+ * would read as blank paper; its shapes are in its transparency instead. Read on a copy of at
+ * most 256 pixels a side.
+ */
+async function lightOnClear(input: Buffer | Uint8Array, meta: Metadata, maxSourcePixels: number, standard: LumaStandard): Promise<ClearSource | null> {
+  let out: { data: Buffer, info: OutputInfo }
+  try {
+    out = await sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).resize(256, 256, { fit: 'inside', withoutEnlargement: true })
+      .toColourspace('srgb').ensureAlpha().raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
+  } catch (e) {
+    throw new PrepareError('The image could not be decoded.', { cause: e })
+  }
+  const { data, info } = out
+  if (info.channels !== 4 || !meta.channels) return null
+  const n = info.width * info.height
+  const hist = new Uint32Array(256)
+  let opaque = 0
+  for (let i = 0; i < data.length; i += 4) {
+    if (data[i + 3]! < 128) continue
+    hist[Math.round(luma(data[i]!, data[i + 1]!, data[i + 2]!, standard))]!++
+    opaque++
+  }
+  if (n - opaque < CLEAR_SHARE * n || opaque === 0) return null
+  let median = 0
+  for (let acc = 0; median < 255; median++) if (2 * (acc += hist[median]!) >= opaque) break
+  if (median < LIGHT_LUMA) return null
+  try {
+    const { data: grey, info: g } = await sharp(input, { limitInputPixels: maxSourcePixels, failOn: 'error' }).autoOrient()
+      .extractChannel((meta.channels - 1) as 1 | 3).negate().raw({ depth: 'uchar' }).toBuffer({ resolveWithObject: true })
+    return g.channels === 1 ? { grey, width: g.width, height: g.height } : null
+  } catch (e) {
+    throw new PrepareError('The image could not be decoded.', { cause: e })
   }
 }
 
@@ -354,7 +403,10 @@ async function prepare(
   if (widthOf === 'drawing' && (srcW < MIN_SIDE_PX || srcH < MIN_SIDE_PX)) {
     throw new NotADrawingError('too-small', `The image is only ${srcW} × ${srcH} pixels: too small to hold a drawing. Upload a scan or photo of the drawing itself.`)
   }
-  const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH, keepDecoded(meta, srcW, srcH))
+  const clear = meta.hasAlpha ? await lightOnClear(input, meta, maxSourcePixels, settings.luma) : null
+  const fromAlpha = clear !== null
+  const source = sourceReader(input, maxSourcePixels, crop ? { left: crop.x, top: crop.y, width: crop.width, height: crop.height } : null, srcW, srcH,
+    !fromAlpha && keepDecoded(meta, srcW, srcH), clear)
 
   // The analysis, on a shrunk copy; the sheet's reading kept from an earlier run when it can be.
   const aScale = Math.min(1, ANALYSIS_SIDE / Math.max(srcW, srcH))
@@ -468,7 +520,9 @@ async function prepare(
   const t4c = performance.now()
 
   let bitmap = workBitmap, width = workW, height = workH, pxPerMm = pxPerMmWork
-  const choices = [...analysis.choices]
+  const choices = fromAlpha
+    ? analysis.choices.map((c) => (c.setting === 'inkColour' ? { ...c, reason: `The drawing is light on a see-through background, so its shapes are read from the transparency. ${c.reason}` } : c))
+    : [...analysis.choices]
   const mm = (v: number) => v.toFixed(1)
   choices.push({
     setting: 'thickenToMm', automatic: false, value: settings.thickenToMm,

@@ -1,7 +1,7 @@
 import sharp from 'sharp'
 import { describe, expect, it } from 'vitest'
-import { PrepareError } from '../../../server/pipeline/errors'
-import { prepareBitmap } from '../../../server/pipeline/prepare'
+import { NotADrawingError, PrepareError } from '../../../server/pipeline/errors'
+import { CLEAR_SHARE, prepareBitmap, prepareDrawing } from '../../../server/pipeline/prepare'
 import { DEFAULT_SETTINGS, parseSettings } from '../../../shared/utils/settings'
 
 /** 200 × 100 white image with a black 40 × 40 square at the top left (x 10…49, y 10…49). */
@@ -132,5 +132,42 @@ describe('prepareBitmap', () => {
 
   it('refuses what is not an image', async () => {
     await expect(prepareBitmap(Buffer.from('not an image at all'), {}, 10)).rejects.toBeInstanceOf(PrepareError)
+  })
+})
+
+describe('a drawing on a see-through background', () => {
+  // A lettered badge (text, a disc with a hole, a stroke) drawn in `fill` on a transparent
+  // page, rendered by librsvg through sharp; `page` fills the background instead when given.
+  const badge = (fill: string, page?: string) => sharp(Buffer.from(`<svg xmlns="http://www.w3.org/2000/svg" width="600" height="400">${page ? `<rect width="600" height="400" fill="${page}"/>` : ''}
+    <g fill="${fill}"><text x="40" y="110" font-family="DejaVu Sans" font-weight="bold" font-size="80">R 17</text>
+    <path fill-rule="evenodd" d="M200 170a110 110 0 1 0 1 0zM200 230a50 50 0 1 0 1 0z"/><path d="M380 180l180 180" stroke="${fill}" stroke-width="12"/></g></svg>`)).png().toBuffer()
+  const inkReason = (p: Awaited<ReturnType<typeof prepareDrawing>>) => p.choices.find((c) => c.setting === 'inkColour')!.reason
+
+  it('reads a light drawing from its transparency, the same as the drawing in black', async () => {
+    const black = await prepareDrawing(await badge('#000'), {}, 120)
+    for (const light of [await badge('#fff'), await sharp(await badge('#f4f0e0')).greyscale().png().toBuffer()]) {
+      const meta = await sharp(light).metadata()
+      expect(meta.hasAlpha).toBe(true)
+      const got = await prepareDrawing(light, {}, 120)
+      expect([got.width, got.height]).toEqual([black.width, black.height])
+      let differ = 0
+      for (let i = 0; i < got.bitmap.length; i++) if (got.bitmap[i] !== black.bitmap[i]) differ++
+      // librsvg's edge coverage is the same in the alpha of both; at most a rounding at an edge differs.
+      expect(differ / got.bitmap.length).toBeLessThan(0.001)
+      expect(inkReason(got)).toMatch(/light on a see-through background/)
+    }
+    expect(inkReason(black)).not.toMatch(/see-through/)
+  })
+
+  it('leaves a light picture with little transparency to the usual reading', async () => {
+    // A white page with a transparent strip under CLEAR_SHARE of its area: blank paper, as before.
+    const w = 600, h = 400, strip = Math.floor(CLEAR_SHARE * 0.8 * w)
+    const raw = Buffer.alloc(w * h * 4, 255)
+    for (let y = 0; y < h; y++) for (let x = 0; x < strip; x++) raw[(y * w + x) * 4 + 3] = 0
+    const png = await sharp(raw, { raw: { width: w, height: h, channels: 4 } }).png().toBuffer()
+    await expect(prepareDrawing(png, {}, 120)).rejects.toBeInstanceOf(NotADrawingError)
+    // and a drawing on an opaque light page is read by its grey level, as before
+    const onPage = await prepareDrawing(await badge('#222', '#fffdf4'), {}, 120)
+    expect(inkReason(onPage)).not.toMatch(/see-through/)
   })
 })
