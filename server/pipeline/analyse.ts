@@ -60,6 +60,8 @@ export interface AnalysisInput {
   /** What the requested width measures: the whole frame, or the drawing's ink. */
   widthOf: 'frame' | 'drawing'
   widthMm: number
+  /** Pieces smaller than this at the decal's size are lost when weeding (the film's limit), mm²; 1 when not given. */
+  smallPieceMm2?: number
 }
 
 type DensityReader = ReturnType<typeof densityReader>
@@ -105,11 +107,13 @@ export interface DrawingFacts {
   midShare: number
   /** Otsu's separability η = σ_B² / σ_T² of the grey reading. */
   separability: number
-  /** Pieces of ink above the speck filter, and how many of them are smaller than 1 mm² at the decal's size. */
+  /** Pieces of ink above the speck filter, and how many of them are smaller than the film's weeding limit at the decal's size. */
   pieces: number
   smallPieces: number
-  /** Share of the ink area in pieces under 1 mm². */
+  /** Share of the ink area in pieces under the weeding limit. */
   smallInkShare: number
+  /** Share of all the ink in pieces under the speck filter at the decal's size: what the decal leaves out. */
+  speckInkShare: number
   /**
    * How much the paper's hue varies: the 75th percentile of the distance between the paper
    * pixels' channel ratios and the paper's own (0 for paper of one colour, however lit).
@@ -388,16 +392,16 @@ export function applyThreshold(
   return { bitmap: bm, level }
 }
 
-function pieceFacts(pieces: readonly Piece[], minArea: number, pxPerMm: number): { pieces: number, small: number, smallInkShare: number } {
-  const weedable = pxPerMm * pxPerMm // 1 mm² in pixels
-  let count = 0, small = 0, area = 0, smallArea = 0
+function pieceFacts(pieces: readonly Piece[], minArea: number, pxPerMm: number, smallPieceMm2: number): { pieces: number, small: number, smallInkShare: number, speckInkShare: number } {
+  const weedable = smallPieceMm2 * pxPerMm * pxPerMm // the weeding limit in pixels
+  let count = 0, small = 0, area = 0, smallArea = 0, speckArea = 0
   for (const p of pieces) {
-    if (p.area < minArea) continue
+    if (p.area < minArea) { speckArea += p.area; continue }
     count++
     area += p.area
     if (p.area < weedable) { small++; smallArea += p.area }
   }
-  return { pieces: count, small, smallInkShare: area ? smallArea / area : 0 }
+  return { pieces: count, small, smallInkShare: area ? smallArea / area : 0, speckInkShare: area + speckArea ? speckArea / (area + speckArea) : 0 }
 }
 
 /** Each pixel's bin of hueSpread's histogram (NO_HUE where too dark to have one), per image. */
@@ -698,7 +702,7 @@ export async function readSheet(input: AnalysisInput): Promise<SheetReading> {
  * method, the analysis frame cleaned up as the full one will be, the drawing's extent and the
  * facts for the checks that this is a drawing at all.
  */
-export function finishAnalysis(r: SheetReading, input: Pick<AnalysisInput, 'settings' | 'widthOf' | 'widthMm'>): Analysis {
+export function finishAnalysis(r: SheetReading, input: Pick<AnalysisInput, 'settings' | 'widthOf' | 'widthMm' | 'smallPieceMm2'>): Analysis {
   const s = input.settings
   const t0 = performance.now()
   const { width: w, height: h, grey, facts, frame } = r
@@ -729,7 +733,7 @@ export function finishAnalysis(r: SheetReading, input: Pick<AnalysisInput, 'sett
     if (!box || input.widthOf === 'frame') break
     pxPerMm = (box.x1 - box.x0 + 1) / input.widthMm
   }
-  const pf = pieceFacts(found.pieces, Math.max(1, s.speckFilterMm2 * pxPerMm * pxPerMm), pxPerMm)
+  const pf = pieceFacts(found.pieces, Math.max(1, s.speckFilterMm2 * pxPerMm * pxPerMm), pxPerMm, input.smallPieceMm2 ?? 1)
   const paperHueSpread = hueSpread(r.rgb, bitmap, r.paper, s.luma)
   const sx = w / frame.width, sy = h / frame.height
   const inkExtent = box ? { x0: box.x0 / sx, y0: box.y0 / sy, x1: (box.x1 + 1) / sx, y1: (box.y1 + 1) / sy } : null
@@ -739,7 +743,7 @@ export function finishAnalysis(r: SheetReading, input: Pick<AnalysisInput, 'sett
     threshold: threshold.value, ink: inkExtent, pxPerMm, choices,
     facts: {
       inkShare: inkPixels / n, contrastLevels: facts.paperLevel - facts.inkCore, meanGrey: facts.mean, midShare: facts.midShare, separability: facts.separability,
-      pieces: pf.pieces, smallPieces: pf.small, smallInkShare: pf.smallInkShare, paperHueSpread,
+      pieces: pf.pieces, smallPieces: pf.small, smallInkShare: pf.smallInkShare, speckInkShare: pf.speckInkShare, paperHueSpread,
     },
     timings: { ...r.timings, threshold: t1 - t0, pieces: performance.now() - t1 },
   }

@@ -288,7 +288,10 @@ const ALL_INK = 'Nearly the whole picture reads as ink, so there is no paper to 
  * is one hue (spread at most 0.03 in the set, the scene 0.5), and much of it lies between
  * ink and paper or reads as ink.
  */
-export function checkDrawing(a: Analysis, smallPieceMm2: number): void {
+/** Share of the ink that may sit in pieces under the speck filter (dust and grain) before the decal is refused: our rule of thumb. */
+export const SPECK_INK_LIMIT = 0.05
+
+export function checkDrawing(a: Analysis, smallPieceMm2: number, speckFilterMm2: number): void {
   const f = a.facts
   // Barely two grey levels apart: noise split in two, not ink on paper.
   if (f.contrastLevels < 16 && f.meanGrey < 100) {
@@ -300,6 +303,13 @@ export function checkDrawing(a: Analysis, smallPieceMm2: number): void {
   if (f.inkShare > 0.97) throw new NotADrawingError('all-ink', ALL_INK)
   if (f.paperHueSpread > 0.15 && (f.midShare > 0.03 || f.inkShare > 0.4)) {
     throw new NotADrawingError('scene', 'This looks like a photograph of a scene, not a drawing: there is no plain paper around clear ink (what would be paper comes in many colours). Draw the design on plain paper with a dark pen, and upload a photo or scan of that.')
+  }
+  // Dust and grain hold a sliver of the ink; more than that under the speck filter is the
+  // drawing itself, shrunk so far that the decal would leave part of it out (and be trimmed to the rest).
+  if (f.speckInkShare >= SPECK_INK_LIMIT) {
+    // A threshold set by hand can break strokes into crumbs: then it is the thing to change.
+    const remedy = a.threshold.mode === 'manual' ? 'Raise the threshold so the strokes hold together, make the decal larger, or lower the speck filter.' : 'Make the decal larger or lower the speck filter.'
+    throw new NotADrawingError('specks', `At this size ${Math.round(f.speckInkShare * 100)} % of the drawing's ink is in pieces smaller than the speck filter (${speckFilterMm2} mm²), which the decal would leave out. ${remedy}`)
   }
   if (f.pieces >= 12 && f.smallPieces > 0.6 * f.pieces) {
     throw new NotADrawingError('specks', `Most of the ${f.pieces} pieces would be smaller than ${smallPieceMm2} mm² at this size and would be lost when weeding. Make the decal larger, raise the speck filter, or upload a cleaner drawing with bolder strokes.`)
@@ -431,9 +441,9 @@ async function prepare(
     })
     if (key) keepReading(key, reading)
   }
-  const analysis = finishAnalysis(reading, { settings, widthOf, widthMm })
   const smallPieceMm2 = options.smallPieceMm2 ?? 1
-  if (widthOf === 'drawing') checkDrawing(analysis, smallPieceMm2)
+  const analysis = finishAnalysis(reading, { settings, widthOf, widthMm, smallPieceMm2 })
+  if (widthOf === 'drawing') checkDrawing(analysis, smallPieceMm2, settings.speckFilterMm2)
   const t2 = performance.now()
 
   // The working grid: a region of the frame (frame pixels) at `ws` working pixels per frame pixel.

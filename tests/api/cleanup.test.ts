@@ -194,6 +194,19 @@ describe('what cannot become a decal', () => {
     expect(small.body.message).toMatch(/at least 16 pixels on each side/)
     expect({ rows: await rowCounts(), keys: await allKeys() }).toEqual(before)
   })
+
+  it('reads a light drawing on a see-through background from its transparency, as the same drawing in black', async () => {
+    // Shapes in `fill` on a transparent page (librsvg through sharp), as a tablet exports them.
+    const clear = (fill: string) => sharp(Buffer.from(`<svg xmlns="http://www.w3.org/2000/svg" width="900" height="600"><g fill="${fill}">
+      <text x="60" y="170" font-family="DejaVu Sans" font-weight="bold" font-size="130">W 8</text>
+      <path fill-rule="evenodd" d="M600 150a160 160 0 1 0 1 0zM600 240a70 70 0 1 0 1 0z"/></g></svg>`)).png().toBuffer()
+    const light = await upload(await clear('#ffffff'), 'Chalk', 100)
+    const dark = await upload(await clear('#000000'), 'Ink', 100)
+    expect(choiceOf(light.revision.choices, 'inkColour').reason).toMatch(/^The drawing is light on a see-through background, so its shapes are read from the transparency\./)
+    expect(choiceOf(dark.revision.choices, 'inkColour').reason).not.toMatch(/see-through/)
+    for (const k of ['pieces', 'holes', 'widthMm', 'heightMm']) expect(light.revision.measurements[k], k).toEqual(dark.revision.measurements[k])
+    expect(light.revision.measurements.pieces).toBe(3) // W, 8 and the ring
+  })
 })
 
 describe('the tuning bench\'s preview and the revision it saves', () => {

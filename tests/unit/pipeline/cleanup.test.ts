@@ -91,10 +91,21 @@ describe('automatic is a setting like any other', () => {
   })
 })
 
+describe('a threshold set by hand that breaks the strokes into crumbs', () => {
+  it('is refused, and the sentence says to raise it', async () => {
+    // The pencil on blue grid paper at a manual threshold of 120: most of its ink falls apart
+    // into pieces under the speck filter (at 160 it holds together: see the next test).
+    const c = await gridBlue()
+    await expect(prepareDrawing(c.source, { threshold: { mode: 'manual', value: 120 } }, c.widthMm)).rejects.toMatchObject({
+      reason: 'specks', message: expect.stringMatching(/of the drawing's ink is in pieces smaller than the speck filter \(0\.5 mm²\), which the decal would leave out\. Raise the threshold so the strokes hold together/),
+    })
+  })
+})
+
 describe('previews of one source', () => {
   it('reuse the sheet\'s reading while only the threshold or the outline changes, with the same result', async () => {
     const c = await gridBlue()
-    const settings = [{}, { threshold: { mode: 'manual' as const, value: 120 } }, { cornerRounding: 0.4, speckFilterMm2: 2 }, { paperLines: 'keep' as const }]
+    const settings = [{}, { threshold: { mode: 'manual' as const, value: 160 } }, { cornerRounding: 0.4, speckFilterMm2: 2 }, { paperLines: 'keep' as const }]
     for (const [i, s] of settings.entries()) {
       const fresh = await prepareDrawing(c.source, s, c.widthMm)
       const kept = await prepareDrawing(c.source, s, c.widthMm, { sourceKey: 'grid' })

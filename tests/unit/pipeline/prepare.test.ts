@@ -1,7 +1,7 @@
 import sharp from 'sharp'
 import { describe, expect, it } from 'vitest'
 import { NotADrawingError, PrepareError } from '../../../server/pipeline/errors'
-import { CLEAR_SHARE, prepareBitmap, prepareDrawing } from '../../../server/pipeline/prepare'
+import { CLEAR_SHARE, prepareBitmap, prepareDrawing, SPECK_INK_LIMIT } from '../../../server/pipeline/prepare'
 import { DEFAULT_SETTINGS, parseSettings } from '../../../shared/utils/settings'
 
 /** 200 × 100 white image with a black 40 × 40 square at the top left (x 10…49, y 10…49). */
@@ -169,5 +169,35 @@ describe('a drawing on a see-through background', () => {
     // and a drawing on an opaque light page is read by its grey level, as before
     const onPage = await prepareDrawing(await badge('#222', '#fffdf4'), {}, 120)
     expect(inkReason(onPage)).not.toMatch(/see-through/)
+  })
+})
+
+describe('a drawing asked at a size where the speck filter would take part of it', () => {
+  // Five bars and, below them, a row of 40 dots of 1.3 mm across at 100 mm wide (1.3 mm² each,
+  // 9 % of the ink): above the default speck filter of 0.5 mm² at 100 mm, under it at 60 mm
+  // (0.35 mm²), where the decal would leave them out and be trimmed to the bars.
+  const dotted = async () => {
+    let dots = '', bars = ''
+    for (let i = 0; i < 40; i++) dots += `<circle cx="${42 + i * 22}" cy="300" r="5.5"/>`
+    for (let i = 0; i < 5; i++) bars += `<rect x="${40 + i * 200}" y="40" width="40" height="200"/>`
+    return sharp(Buffer.from(`<svg xmlns="http://www.w3.org/2000/svg" width="1000" height="400"><rect width="1000" height="400" fill="#fff"/>
+      <g fill="#000">${bars}${dots}</g></svg>`)).png().toBuffer()
+  }
+
+  it('is refused, saying how much of the ink would be left out, instead of being trimmed to what is left', async () => {
+    const source = await dotted()
+    const whole = await prepareDrawing(source, {}, 100)
+    expect(whole.heightMm).toBeGreaterThan(28) // the dots' row is inside the drawing (the bars alone: 23 mm)
+    const refused = prepareDrawing(source, {}, 60)
+    await expect(refused).rejects.toBeInstanceOf(NotADrawingError)
+    await expect(refused).rejects.toMatchObject({ reason: 'specks', message: expect.stringMatching(/^At this size \d+ % of the drawing's ink is in pieces smaller than the speck filter \(0\.5 mm²\), which the decal would leave out\./) })
+    const share = Number(String(await refused.catch((e: Error) => e.message)).match(/(\d+) %/)![1]) / 100
+    expect(share).toBeGreaterThanOrEqual(SPECK_INK_LIMIT)
+    // With the filter lowered the dots count, and the weeding check judges them by the film's
+    // limit: refused under the usual 1 mm², kept (with the drawing's whole height) where the
+    // film weeds pieces down to 0.2 mm².
+    await expect(prepareDrawing(source, { speckFilterMm2: 0.1 }, 60)).rejects.toThrow(/^Most of the 45 pieces would be smaller than 1 mm²/)
+    const kept = await prepareDrawing(source, { speckFilterMm2: 0.1 }, 60, { smallPieceMm2: 0.2 })
+    expect(kept.heightMm / 60).toBeCloseTo(whole.heightMm / 100, 2)
   })
 })
