@@ -18,6 +18,7 @@ import {
   hue, orthonormal, toHex, type PaperColour, type Rgb,
 } from './colour'
 import { inkBox, piecesOf, type Box, type Piece } from './components'
+import { squaredDistanceTransform } from './distance'
 import { fromSheet, sourceFrame, turnFrame, type Frame } from './frame'
 import { multiply, scaling, warpBilinear, type Pt } from './homography'
 import { paperEstimate } from './lighting'
@@ -377,6 +378,41 @@ function thresholdChoice(facts: ThresholdFacts, settings: PipelineSettings): { v
   }
 }
 
+/** Ink this far inside a shape (from its paper) is a shape's body, not a stroke's edge, mm. */
+export const SOLID_DEPTH_MM = 1
+/** Share of the bodies of shapes that, turned to paper, means a level hollows them out: our rule of thumb. */
+export const HOLLOWED_SHARE = 0.25
+
+/**
+ * Whether a level for every spot (Sauvola's) hollows out the solid shapes that one level finds:
+ * a window narrower than a filled area sees only ink, so its middle reads as paper. Shapes
+ * with bodies (ink more than SOLID_DEPTH_MM from their paper) hold at least 5 % of the ink,
+ * and at least HOLLOWED_SHARE of those bodies come out paper. Faint pencil lines have no
+ * bodies, and keep the adaptive level they need.
+ */
+function hollowsShapes(oneLevel: Uint8Array, adaptive: Uint8Array, w: number, h: number, pxPerMm: number): boolean {
+  const d2 = squaredDistanceTransform(oneLevel, w, h)
+  const depth = Math.max(2, SOLID_DEPTH_MM * pxPerMm)
+  const deep2 = depth * depth
+  let ink = 0, body = 0, lost = 0
+  for (let i = 0; i < oneLevel.length; i++) {
+    if (!oneLevel[i]) continue
+    ink++
+    if (d2[i]! < deep2) continue
+    body++
+    if (!adaptive[i]) lost++
+  }
+  return body >= 0.05 * ink && lost >= HOLLOWED_SHARE * body
+}
+
+/** The one-level choice for a faint drawing of solid shapes (see hollowsShapes). */
+function solidChoice(facts: ThresholdFacts): { value: Analysis['threshold'], reason: string } {
+  return {
+    value: { mode: 'otsu' },
+    reason: `The drawing is faint (its darkest strokes are only ${pct(facts.contrast)} darker than the paper) but its shapes are solid, which a threshold for every spot would hollow out: one threshold for the whole sheet (Otsu), level ${facts.otsu}.`,
+  }
+}
+
 /** Threshold a grey image by a pinned threshold setting (ink = 1), at pxPerMm for the adaptive window. */
 export function applyThreshold(
   grey: Uint8Array, w: number, h: number, t: Analysis['threshold'], pxPerMm: number, hist?: Uint32Array,
@@ -707,20 +743,28 @@ export function finishAnalysis(r: SheetReading, input: Pick<AnalysisInput, 'sett
   const t0 = performance.now()
   const { width: w, height: h, grey, facts, frame } = r
   const n = w * h
-  const threshold = thresholdChoice(facts, s)
-  const choices = [...r.choices, { setting: 'threshold', automatic: s.threshold.mode === 'auto', value: threshold.value, reason: threshold.reason } satisfies CleanUpChoice]
+  let threshold = thresholdChoice(facts, s)
 
   // The analysis frame cleaned up as the full one will be.
   let pxPerMm = w / input.widthMm
-  if (input.widthOf === 'drawing' && threshold.value.mode === 'adaptive') {
-    // A first look at the drawing's extent with one level, for the adaptive window's size.
-    const first = applyThreshold(grey, w, h, { mode: 'otsu' }, 1).bitmap
-    if (s.swapInkAndPaper) for (let i = 0; i < n; i++) first[i] = 1 - first[i]!
-    const box = inkBox(piecesOf(first, w, h), Math.max(2, 1e-5 * n))
-    pxPerMm = box ? (box.x1 - box.x0 + 1) / input.widthMm : w / input.widthMm
+  let oneLevel: Uint8Array | null = null
+  if (threshold.value.mode === 'adaptive') {
+    // A look with one level: for the drawing's extent (the adaptive window's size in pixels),
+    // and to see what the adaptive level does to the shapes.
+    oneLevel = applyThreshold(grey, w, h, { mode: 'otsu' }, 1).bitmap
+    if (s.swapInkAndPaper) for (let i = 0; i < n; i++) oneLevel[i] = 1 - oneLevel[i]!
+    if (input.widthOf === 'drawing') {
+      const box = inkBox(piecesOf(oneLevel, w, h), Math.max(2, 1e-5 * n))
+      pxPerMm = box ? (box.x1 - box.x0 + 1) / input.widthMm : w / input.widthMm
+    }
   }
-  const { bitmap } = applyThreshold(grey, w, h, threshold.value, pxPerMm)
+  let { bitmap } = applyThreshold(grey, w, h, threshold.value, pxPerMm)
   if (s.swapInkAndPaper) for (let i = 0; i < n; i++) bitmap[i] = 1 - bitmap[i]!
+  if (s.threshold.mode === 'auto' && oneLevel && hollowsShapes(oneLevel, bitmap, w, h, pxPerMm)) {
+    threshold = solidChoice(facts)
+    bitmap = oneLevel
+  }
+  const choices = [...r.choices, { setting: 'threshold', automatic: s.threshold.mode === 'auto', value: threshold.value, reason: threshold.reason } satisfies CleanUpChoice]
   if (r.removeLines) for (const f of r.lines) if (!f.dropped) removeLines(bitmap, w, h, f)
   const t1 = performance.now()
   let inkPixels = 0

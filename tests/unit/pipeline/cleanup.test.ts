@@ -91,6 +91,29 @@ describe('automatic is a setting like any other', () => {
   })
 })
 
+describe('a faint drawing of solid shapes (a washed-out photo)', () => {
+  // Mid-grey ink on light grey paper, 36 % darker: faint by the analysis' measure. A disc of
+  // radius 150 px and a 500 × 60 px bar, 900 px across at 90 mm: 10 px/mm, so the ink is
+  // π·15² + 50·6 = 1006.9 mm² (handbook geometry).
+  const shapes = (body: string) => svgDoc(1200, 800, `<rect width="1200" height="800" fill="#f2f2f2"/>${body}`)
+  const AREA_MM2 = Math.PI * 15 * 15 + 50 * 6
+
+  it('keeps its shapes filled with one level, where a level for every spot would hollow them out', async () => {
+    const source = await svgToPng(shapes('<g fill="#9a9a9a"><circle cx="300" cy="400" r="150"/><rect x="550" y="370" width="500" height="60"/></g>'))
+    const r = await runPipeline({ source, settings: {}, widthMm: 90, purpose: 'revision' })
+    const t = r.choices.find((c) => c.setting === 'threshold')!
+    expect(t).toMatchObject({ automatic: true, value: { mode: 'otsu' }, reason: expect.stringMatching(/^The drawing is faint .* but its shapes are solid, which a threshold for every spot would hollow out/) })
+    expect(Math.abs(r.measurements.inkAreaMm2 / AREA_MM2 - 1)).toBeLessThan(0.015)
+    expect([r.measurements.pieces, r.measurements.holes]).toEqual([2, 0])
+  })
+
+  it('still reads faint lines, which have no bodies to hollow, with a level for every spot', async () => {
+    const source = await svgToPng(shapes('<g fill="none" stroke="#9a9a9a" stroke-width="4"><circle cx="300" cy="400" r="150"/><path d="M550 400h500"/></g>'))
+    const r = await runPipeline({ source, settings: {}, widthMm: 90, purpose: 'revision' })
+    expect(r.choices.find((c) => c.setting === 'threshold')!.value).toMatchObject({ mode: 'adaptive' })
+  })
+})
+
 describe('a threshold set by hand that breaks the strokes into crumbs', () => {
   it('is refused, and the sentence says to raise it', async () => {
     // The pencil on blue grid paper at a manual threshold of 120: most of its ink falls apart
