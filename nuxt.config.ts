@@ -107,6 +107,9 @@ export default defineNuxtConfig({
   },
   nitro: {
     ...(process.env.DECALWRIGHT_OUTPUT_DIR ? { output: { dir: process.env.DECALWRIGHT_OUTPUT_DIR } } : {}),
+    // The server runs on the Node.js we pin (20), not an older one: its syntax (BigInt literals
+    // in the exact Otsu, optional chaining) is kept as written instead of lowered to ES2019.
+    esbuild: { options: { target: 'node20' } },
     // Native and CommonJS-heavy packages stay in node_modules rather than being bundled;
     // potrace and svgo are used only by the pipeline worker, so they are traced in by hand.
     externals: {
