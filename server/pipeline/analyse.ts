@@ -183,6 +183,11 @@ function lightingChoice(luma: Uint8Array, map: Uint8Array, w: number, h: number,
   const seen = drop >= UNEVEN_PAPER
     ? `The paper is ${pct(drop)} darker ${where === 'edges' ? 'towards the edges' : `at the ${where}`} than where it is brightest`
     : `The paper's brightness is even (within ${pct(drop)})`
+  if (settings.lightingEvening.mode === 'auto' && settings.swapInkAndPaper) {
+    // Evening divides by the brightest nearby level, taken for the paper: on a dark page that is
+    // the drawing itself, and the page around it would come out as a halo of ink.
+    return { choice: { on: false, strength }, reason: 'Ink and paper are swapped (a light drawing on a dark page): lighting evening, which takes the light part for the paper, is off.' }
+  }
   if (settings.lightingEvening.mode === 'auto') {
     const on = drop >= UNEVEN_PAPER
     return { choice: { on, strength }, reason: `${seen}: lighting evening ${on ? 'on' : 'off'}.` }
@@ -656,7 +661,7 @@ export interface SheetReading {
 
 /** The settings a SheetReading depends on (with the source and its crop), as a key. */
 export function readingKey(s: PipelineSettings): string {
-  return JSON.stringify([s.luma, s.corners, s.quarterTurns, s.fineAngleDeg, s.crop, s.lightingEvening, s.inkColour, s.dropoutColour, s.paperLines])
+  return JSON.stringify([s.luma, s.corners, s.quarterTurns, s.fineAngleDeg, s.crop, s.lightingEvening, s.inkColour, s.dropoutColour, s.paperLines, s.swapInkAndPaper])
 }
 
 export async function readSheet(input: AnalysisInput): Promise<SheetReading> {
@@ -764,11 +769,11 @@ export function finishAnalysis(r: SheetReading, input: Pick<AnalysisInput, 'sett
     threshold = solidChoice(facts)
     bitmap = oneLevel
   }
-  const choices = [...r.choices, { setting: 'threshold', automatic: s.threshold.mode === 'auto', value: threshold.value, reason: threshold.reason } satisfies CleanUpChoice]
   if (r.removeLines) for (const f of r.lines) if (!f.dropped) removeLines(bitmap, w, h, f)
   const t1 = performance.now()
   let inkPixels = 0
   for (let i = 0; i < n; i++) inkPixels += bitmap[i]!
+  const choices = [...r.choices, { setting: 'threshold', automatic: s.threshold.mode === 'auto', value: threshold.value, reason: threshold.reason } satisfies CleanUpChoice]
   const found = { pieces: piecesOf(bitmap, w, h) }
   let box: Box | null = null
   for (let round = 0; round < 2; round++) {

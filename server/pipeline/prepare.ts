@@ -183,6 +183,29 @@ function sourceReader(input: Buffer | Uint8Array, maxSourcePixels: number, crop:
   }
 }
 
+/** A dark page: more than half the picture, and nine tenths of a band 2 % wide along its edges, is darker than this (R′G′B′ mean). */
+export const DARK_PAGE_LEVEL = 100
+export const NEGATIVE_HINT = 'Most of the picture is dark, right up to its edges: if the drawing is light on a dark background, swap ink and paper, or the decal is cut from the background around it.'
+
+/**
+ * Whether the frame (R′G′B′) is mostly dark, edges and all: light shapes on a dark page, which
+ * read as their negative unless ink and paper are swapped. Said, not done: a filled plate with
+ * cut-out letters, photographed close, reads the same way and is meant so.
+ */
+function darkPage(rgb: Uint8Array, w: number, h: number): boolean {
+  const band = Math.max(1, Math.round(0.02 * Math.min(w, h)))
+  let dark = 0, all = 0, edgeDark = 0, edge = 0
+  for (let y = 0; y < h; y++) {
+    for (let x = 0; x < w; x++) {
+      const j = 3 * (y * w + x)
+      const d = rgb[j]! + rgb[j + 1]! + rgb[j + 2]! < 3 * DARK_PAGE_LEVEL ? 1 : 0
+      dark += d; all++
+      if (x < band || y < band || x >= w - band || y >= h - band) { edgeDark += d; edge++ }
+    }
+  }
+  return dark > 0.5 * all && edgeDark > 0.9 * edge
+}
+
 /** A see-through background: at least this share of the picture is more than half transparent. */
 export const CLEAR_SHARE = 0.05
 /** Light ink: half the opaque pixels are at least this luma, within an eighth of white (our rule of thumb). */
@@ -530,9 +553,12 @@ async function prepare(
   const t4c = performance.now()
 
   let bitmap = workBitmap, width = workW, height = workH, pxPerMm = pxPerMmWork
-  const choices = fromAlpha
-    ? analysis.choices.map((c) => (c.setting === 'inkColour' ? { ...c, reason: `The drawing is light on a see-through background, so its shapes are read from the transparency. ${c.reason}` } : c))
-    : [...analysis.choices]
+  const negative = !settings.swapInkAndPaper && darkPage(reading.rgb, reading.width, reading.height)
+  const choices = analysis.choices.map((c) => {
+    if (fromAlpha && c.setting === 'inkColour') return { ...c, reason: `The drawing is light on a see-through background, so its shapes are read from the transparency. ${c.reason}` }
+    if (negative && c.setting === 'threshold') return { ...c, reason: `${c.reason} ${NEGATIVE_HINT}` }
+    return c
+  })
   const mm = (v: number) => v.toFixed(1)
   choices.push({
     setting: 'thickenToMm', automatic: false, value: settings.thickenToMm,

@@ -114,6 +114,31 @@ describe('a faint drawing of solid shapes (a washed-out photo)', () => {
   })
 })
 
+describe('a light drawing on a dark page', () => {
+  // A light disc (radius 150 px) and bar (500 × 60 px) on a dark page: 900 px across at 100 mm,
+  // 9 px/mm, so π·(150/9)² + (500/9)·(60/9) mm² of ink (handbook geometry).
+  const page = (ink: string, paper: string) => svgToPng(svgDoc(1200, 800, `<rect width="1200" height="800" fill="${paper}"/><g fill="${ink}"><circle cx="300" cy="400" r="150"/><rect x="550" y="370" width="500" height="60"/></g>`))
+  const AREA_MM2 = Math.PI * (150 / 9) ** 2 + (500 / 9) * (60 / 9)
+  const reasonOf = (r: Awaited<ReturnType<typeof runPipeline>>, setting: string) => r.choices.find((c) => c.setting === setting)!.reason
+
+  it('says it may be light on dark, and with ink and paper swapped comes out as the shapes', async () => {
+    const source = await page('#eeeeee', '#151515')
+    const asIs = await runPipeline({ source, settings: {}, widthMm: 100, purpose: 'revision' })
+    expect(reasonOf(asIs, 'threshold')).toMatch(/Most of the picture is dark, right up to its edges: if the drawing is light on a dark background, swap ink and paper/)
+    const swapped = await runPipeline({ source, settings: { swapInkAndPaper: true }, widthMm: 100, purpose: 'revision' })
+    expect([swapped.measurements.pieces, swapped.measurements.holes]).toEqual([2, 0])
+    expect(Math.abs(swapped.measurements.inkAreaMm2 / AREA_MM2 - 1)).toBeLessThan(0.015)
+    expect(reasonOf(swapped, 'lightingEvening')).toMatch(/^Ink and paper are swapped .* lighting evening, which takes the light part for the paper, is off\.$/)
+    expect(reasonOf(swapped, 'threshold')).not.toMatch(/Most of the picture is dark/)
+  })
+
+  it('says nothing of the kind for dark shapes on a light page', async () => {
+    const r = await runPipeline({ source: await page('#151515', '#f5f5f0'), settings: {}, widthMm: 100, purpose: 'revision' })
+    expect(reasonOf(r, 'threshold')).not.toMatch(/Most of the picture is dark/)
+    expect(Math.abs(r.measurements.inkAreaMm2 / AREA_MM2 - 1)).toBeLessThan(0.015)
+  })
+})
+
 describe('a threshold set by hand that breaks the strokes into crumbs', () => {
   it('is refused, and the sentence says to raise it', async () => {
     // The pencil on blue grid paper at a manual threshold of 120: most of its ink falls apart
