@@ -301,6 +301,10 @@ function thickenToWidth(bitmap: Uint8Array, width: number, height: number, toMm:
 }
 
 const MIN_SIDE_PX = 8
+
+/** Share of the ink that may sit in pieces under the speck filter (dust and grain) before the decal is refused: our rule of thumb. */
+export const SPECK_INK_LIMIT = 0.05
+
 const ALL_INK = 'Nearly the whole picture reads as ink, so there is no paper to cut the shapes from. If the drawing is light on a dark background, swap ink and paper; if the photo is dark, take it again in better light.'
 
 /**
@@ -311,9 +315,6 @@ const ALL_INK = 'Nearly the whole picture reads as ink, so there is no paper to 
  * is one hue (spread at most 0.03 in the set, the scene 0.5), and much of it lies between
  * ink and paper or reads as ink.
  */
-/** Share of the ink that may sit in pieces under the speck filter (dust and grain) before the decal is refused: our rule of thumb. */
-export const SPECK_INK_LIMIT = 0.05
-
 export function checkDrawing(a: Analysis, smallPieceMm2: number, speckFilterMm2: number): void {
   const f = a.facts
   // Barely two grey levels apart: noise split in two, not ink on paper.
