@@ -85,7 +85,7 @@ export function checkEveryPage(title: string, check: (page: Page, shot: string) 
     }, 120_000)
 
     for (const role of ROLES) {
-      it(`every page a ${role} reaches at ${size.width} px`, async () => {
+      it(`every page ${/^[aeiou]/.test(role) ? 'an' : 'a'} ${role} reaches at ${size.width} px`, async () => {
         const page = await pageAt(size.width, size.height)
         await signInThroughForm(page, DEMO_ACCOUNTS[role].email, DEMO_PASSWORD)
         await page.waitForURL((u) => u.pathname !== '/sign-in')
