@@ -4,7 +4,7 @@
 // the speck filter), then, for each path, the optimal polygon, vertex adjustment, corner and
 // curve smoothing and curve joining. The second stage is the npm port's own (its private
 // method _processPath, potrace 2.1.8, pinned in package.json; trace.test.ts fails loudly if it
-// changes). The first is decompose.ts: the port's decomposition step for step, but with the
+// changes), with its inner functions made once per process (portStage). The first is decompose.ts: the port's decomposition step for step, but with the
 // outside of the image read as paper (the port read the pixel past the right edge as the next
 // row's first, making phantom slivers where ink touched the left edge), on a typed working
 // copy, with objects only for the paths kept.
@@ -35,6 +35,66 @@ interface PtInstance {
 type PtConstructor = new (options: Record<string, unknown>) => PtInstance
 
 const Potrace = (require('potrace') as { Potrace: PtConstructor }).Potrace
+
+type ProcessPath = (this: { _params: Record<string, unknown>, _pathlist: PortPath[] }) => void
+
+/** The port's helpers declared inside its curve-fitting functions; each takes all it uses as arguments. */
+const NESTED_HELPERS = ['penalty3', 'pointslope', 'opti_penalty']
+
+/** The declaration `function name(…) {…}` in src: its start and the index past its closing brace. */
+function declarationAt(src: string, name: string): { start: number, end: number } | null {
+  const start = src.indexOf(`function ${name}(`)
+  let i = start < 0 ? -1 : src.indexOf('{', start)
+  if (i < 0) return null
+  for (let depth = 0; i < src.length; i++) {
+    if (src[i] === '{') depth++
+    else if (src[i] === '}' && --depth === 0) return { start, end: i + 1 }
+  }
+  return null
+}
+
+/**
+ * The port's _processPath with its curve-fitting functions made once per process. The port
+ * declares them (and three helpers inside them) within _processPath, so every call made new
+ * closures; V8 keeps a closure's optimised code only while some closure of it lives, so after
+ * each full garbage collection (one or two per upload, from the image buffers) the next trace
+ * ran unoptimised while the compiler threads rebuilt the same code: 3–4× slower, with the
+ * second core busy compiling. Rebuilt here from the port's own source text, the functions
+ * hoisted into a scope made once (`self` set per call), in strict mode as the port is, against
+ * the port's own modules. trace.test.ts checks that it traces exactly as the port's method;
+ * null (and the port's method used) when the source does not have the expected shape.
+ */
+function processPathOnce(): ProcessPath | null {
+  const src = portProcessPath.toString()
+  const SELF = 'var self = this;', LOOP = 'for (var i = 0; i < this._pathlist.length; i++) {'
+  const head = src.indexOf(SELF), loop = src.lastIndexOf(LOOP)
+  if (!src.startsWith('function') || head < 0 || loop < head) return null
+  let decls = src.slice(head + SELF.length, loop)
+  const helpers: string[] = []
+  for (const name of NESTED_HELPERS) {
+    const at = declarationAt(decls, name)
+    if (!at) return null
+    helpers.push(decls.slice(at.start, at.end))
+    decls = decls.slice(0, at.start) + decls.slice(at.end)
+  }
+  const body = src.slice(loop, src.lastIndexOf('}'))
+  try {
+    const lib = (m: string) => require(`potrace/lib/${m}`) as unknown
+    const make = new Function('Curve', 'Opti', 'Point', 'Quad', 'Sum', 'utils',
+      `'use strict';\nvar self;\n${helpers.join('\n')}\n${decls}\nreturn function processPath() { self = this; ${body} }`)
+    return make(lib('types/Curve'), lib('types/Opti'), lib('types/Point'), lib('types/Quad'), lib('types/Sum'), lib('utils')) as ProcessPath
+  } catch {
+    return null
+  }
+}
+
+const portProcessPath = (Potrace as unknown as { prototype: { _processPath: ProcessPath } }).prototype._processPath
+
+/** The port's second stage as traceBitmap calls it: made once when it can be, else the port's own method (a property, so tests can watch it). */
+export const portStage: { processPath: ProcessPath, madeOnce: boolean } = (() => {
+  const once = typeof portProcessPath === 'function' ? processPathOnce() : null
+  return { processPath: once ?? portProcessPath, madeOnce: once !== null }
+})()
 
 export interface Point { x: number, y: number }
 export type Segment =
@@ -244,7 +304,7 @@ export function traceBitmap(
   const single = { _params: potrace._params, _pathlist: [] as PortPath[] }
   const smooth = (path: PortPath, index: number) => {
     single._pathlist[0] = path
-    potrace._processPath.call(single)
+    portStage.processPath.call(single)
     const curve = toCurve(path as PtPath, path.sign === '+' ? 1 : -1)
     nodeCount += curve.segments.length
     if (nodeCount > nodeCap) throw new TooComplexError(nodeCap, nodeCap)
