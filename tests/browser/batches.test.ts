@@ -7,6 +7,7 @@ import { existsSync, mkdirSync } from 'node:fs'
 import path from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
+import sharp from 'sharp'
 import { hashPassword } from '../../server/platform/passwords'
 import { ARTEFACTS, screenshot, setupBrowser, signInThroughForm, tabletPage } from '../support/browser'
 import { testDb } from '../support/db'
@@ -36,27 +37,29 @@ async function printed(page: Page, name: string, format: 'A4' | 'Letter', onPage
 }
 
 /**
- * Dark pixels of the on-screen sheet picture drawn at two widths. Lines drawn in millimetres
+ * Dark pixels of the on-screen sheet picture as the browser shows it at each width (the
+ * picture's box set to that width, then an element screenshot). Lines drawn in millimetres
  * (hair-lines) grow in length and width with the picture, so their ink grows with the square
  * of its size, and a 0.1 mm line on a 300 mm sheet shown 300 px wide is too faint to count;
- * lines of a fixed width in screen pixels grow only in length.
+ * lines of a fixed width in screen pixels grow only in length. Read off the page itself, not
+ * off a canvas the picture is drawn into: a canvas may draw an SVG picture from a raster made
+ * at another size (Chromium 150 does), which is not what a person sees.
  */
-function previewInk(page: Page, widths: number[]) {
-  return page.locator('[data-test="cut-sheet-image"]').evaluate(async (img: HTMLImageElement, ws: number[]) => {
-    await img.decode()
-    return ws.map((w) => {
-      const h = Math.round((w * img.naturalHeight) / img.naturalWidth)
-      const canvas = Object.assign(document.createElement('canvas'), { width: w, height: h })
-      const g = canvas.getContext('2d')!
-      g.fillStyle = 'white'
-      g.fillRect(0, 0, w, h)
-      g.drawImage(img, 0, 0, w, h)
-      const px = g.getImageData(0, 0, w, h).data
-      let dark = 0
-      for (let i = 0; i < px.length; i += 4) if (px[i]! + px[i + 1]! + px[i + 2]! < 3 * 128) dark++
-      return dark
-    })
-  }, widths)
+async function shownInk(page: Page, widths: number[]): Promise<number[]> {
+  const image = page.locator('[data-test="cut-sheet-image"]')
+  const out: number[] = []
+  for (const w of widths) {
+    await image.evaluate(async (img: HTMLImageElement, width: number) => {
+      img.parentElement!.style.width = `${width}px`
+      await new Promise<void>((done) => requestAnimationFrame(() => requestAnimationFrame(() => done())))
+    }, w)
+    const { data, info } = await sharp(await image.screenshot()).removeAlpha().raw().toBuffer({ resolveWithObject: true })
+    let dark = 0
+    for (let i = 0; i < data.length; i += info.channels) if (data[i]! + data[i + 1]! + data[i + 2]! < 3 * 128) dark++
+    out.push(dark)
+  }
+  await image.evaluate((img: HTMLImageElement) => { img.parentElement!.style.width = '' })
+  return out
 }
 
 /** What only the screen shows: the navigation, the footer, buttons and forms. */
@@ -149,7 +152,7 @@ describe('the operator\'s sheet', () => {
     const image = page.locator('[data-test="cut-sheet-image"]')
     await expect.poll(() => image.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth), { timeout: 30_000 }).toBeGreaterThan(0)
     await screenshot(page, 'job-two-sheets')
-    const [small, large] = await previewInk(page, [300, 900])
+    const [small, large] = await shownInk(page, [250, 750])
     expect(small).toBeGreaterThan(200)
     // Three times the width: about three times the ink for pixel-wide lines, nine for lines in mm.
     expect(large! / small!).toBeLessThan(4.5)
