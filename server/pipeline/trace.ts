@@ -60,10 +60,10 @@ function declarationAt(src: string, name: string): { start: number, end: number 
  * each full garbage collection (one or two per upload, from the image buffers) the next trace
  * ran unoptimised while the compiler threads rebuilt the same code: 3–4× slower, with the
  * second core busy compiling. Rebuilt here from the port's own source text, the functions
- * hoisted into a scope made once (`self` set for the call, and let go after it, so the last
- * path is not held), in strict mode as the port is, against
- * the port's own modules. trace.test.ts checks that it traces exactly as the port's method;
- * null (and the port's method used) when the source does not have the expected shape.
+ * hoisted into a scope made once (`self` set for the call and let go after it, so the last
+ * path is not held), in strict mode as the port is, against the port's own modules.
+ * trace.test.ts checks that it traces exactly as the port's method; null (and the port's
+ * method used) when the source does not have the expected shape.
  */
 function processPathOnce(): ProcessPath | null {
   const src = portProcessPath.toString()
