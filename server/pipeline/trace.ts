@@ -4,8 +4,9 @@
 // the speck filter), then, for each path, the optimal polygon, vertex adjustment, corner and
 // curve smoothing and curve joining. The second stage is the npm port's own (its private
 // method _processPath, potrace 2.1.8, pinned in package.json; trace.test.ts fails loudly if it
-// changes), with its inner functions made once per process (portStage). The first is decompose.ts: the port's decomposition step for step, but with the
-// outside of the image read as paper (the port read the pixel past the right edge as the next
+// changes), with its inner functions made once per process (portStage). The first is
+// decompose.ts: the port's decomposition step for step, but with the outside of the image read
+// as paper (the port read the pixel past the right edge as the next
 // row's first, making phantom slivers where ink touched the left edge), on a typed working
 // copy, with objects only for the paths kept.
 //

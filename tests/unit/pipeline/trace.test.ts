@@ -200,8 +200,9 @@ describe('the port\'s second stage, made once', () => {
   it('is used instead of the port\'s method, which makes its functions anew on every call', () => {
     // The port declares its curve-fitting functions inside _processPath. V8 keeps a closure's
     // optimised code only while a closure of it lives, so with the port's method every trace
-    // after a full garbage collection ran unoptimised (measured: 27 ms → 110 ms on the bench's
-    // 4 MP drawing, npm run bench). Made once, the functions and their code live on.
+    // after a full garbage collection ran unoptimised (measured with a forced full collection
+    // before each trace of the bench's 4 MP drawing: 81 ms against 32 ms made once; npm run bench
+    // prints the latter beside Debian potrace). Made once, the functions and their code live on.
     expect(portStage.madeOnce).toBe(true)
     expect(portStage.processPath).not.toBe(port._processPath)
     const spy = vi.spyOn(port, '_processPath')
