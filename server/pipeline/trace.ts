@@ -6,9 +6,9 @@
 // method _processPath, potrace 2.1.8, pinned in package.json; trace.test.ts fails loudly if it
 // changes), with its inner functions made once per process (portStage). The first is
 // decompose.ts: the port's decomposition step for step, but with the outside of the image read
-// as paper (the port read the pixel past the right edge as the next
-// row's first, making phantom slivers where ink touched the left edge), on a typed working
-// copy, with objects only for the paths kept.
+// as paper (the port read the pixel past the right edge as the next row's first, making phantom
+// slivers where ink touched the left edge), on a typed working copy, with objects only for the
+// paths kept.
 //
 // Each path is smoothed into curves as soon as it is found (very long ones last), so the node
 // cap stops a drawing while it is traced, and memory holds the working data of one path at a
