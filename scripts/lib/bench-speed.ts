@@ -4,7 +4,8 @@
 //    the floor of sharp decoding the same photo + Debian's potrace on the same prepared bitmap
 //    + svgo on potrace's SVG, at 1, 4 and 12 MP (target ≤ 1.8×): at upload defaults (every
 //    automatic step on, what a student gets) and with the analysis' choices pinned (the
-//    automatic steps a clean scan does not need, skipped);
+//    automatic steps a clean scan does not need, skipped); in a process with the pipeline
+//    threads' heap (server/pipeline/heap.ts);
 //  - the prepare stage ÷ sharp decoding and resizing the photo to the prepared size;
 //  - the trace stage ÷ Debian's potrace on a text page and on 2,000 dots (target ≤ 2×), and
 //    on the text page and the 4 MP upload's drawing after a full garbage collection;
@@ -25,6 +26,7 @@ import Piscina from 'piscina'
 import sharp from 'sharp'
 import { optimize } from 'svgo'
 import { cleanVector, SVGO_CONFIG } from '../../server/pipeline/clean'
+import { configurePipelineHeap, PIPELINE_HEAP_FLAGS } from '../../server/pipeline/heap'
 import { measureOutline } from '../../server/pipeline/measure'
 import { prepareDrawing } from '../../server/pipeline/prepare'
 import { PREVIEW_SOURCE_SIDE, runPipeline } from '../../server/pipeline/run'
@@ -86,10 +88,28 @@ function pbm(bitmap: Uint8Array, width: number, height: number): Buffer {
   return Buffer.concat([Buffer.from(`P4\n${width} ${height}\n`), bits])
 }
 
+type UploadFigure = { mp: number; ratio: number; pinnedRatio: number }
+
+/**
+ * uploadAgainstFloor in a process of its own whose heap is the pipeline threads' (heap.ts: V8
+ * reads the flags when it makes a heap, so they cannot be set for this thread now).
+ */
+function uploadInChild(runs: number): UploadFigure[] {
+  const child = spawnSync(process.execPath, [...PIPELINE_HEAP_FLAGS, '--import', 'tsx', fileURLToPath(import.meta.url), '--upload-child'],
+    { encoding: 'utf8', maxBuffer: 1 << 20, env: { ...process.env, BENCH_RUNS: String(runs) } })
+  const lines = child.stdout.trimEnd().split('\n')
+  if (child.status !== 0) {
+    console.log(`  Upload → the revision's files: the child process failed: ${child.stderr.trim().split('\n').slice(-3).join(' ')}`)
+    return []
+  }
+  console.log(lines.slice(0, -1).join('\n'))
+  return JSON.parse(lines.at(-1)!) as UploadFigure[]
+}
+
 /** Upload → revision files ÷ (decode + Debian potrace + svgo), interleaved run by run. */
-async function uploadAgainstFloor(runs: number): Promise<Array<{ mp: number; ratio: number; pinnedRatio: number }>> {
-  console.log(`  Upload → the revision's files ÷ the floor (sharp decode + Debian potrace + svgo on the same input), ${WIDTH_MM} mm, in this thread (target ≤ 1.8×):`)
-  const out: Array<{ mp: number; ratio: number; pinnedRatio: number }> = []
+async function uploadAgainstFloor(runs: number): Promise<UploadFigure[]> {
+  console.log(`  Upload → the revision's files ÷ the floor (sharp decode + Debian potrace + svgo on the same input), ${WIDTH_MM} mm, in one thread with the pipeline threads' heap (${PIPELINE_HEAP_FLAGS.join(' ')}; target ≤ 1.8×):`)
+  const out: UploadFigure[] = []
   const dir = mkdtempSync(path.join(os.tmpdir(), 'dw-bench-speed-'))
   try {
     for (const mp of [1, 4, 12]) {
@@ -139,6 +159,7 @@ async function memoryChild(files: string[]): Promise<void> {
   const dir = path.resolve('node_modules/.cache/decalwright-bench-speed')
   await buildPipelineWorker(dir)
   const n = os.availableParallelism()
+  configurePipelineHeap() // as the server's pool does
   const pool = new Piscina({ filename: path.join(dir, PIPELINE_WORKER_FILE), maxThreads: n, minThreads: n })
   const sources = files.map((f) => new Uint8Array(readFileSync(f)))
   globalThis.gc?.()
@@ -193,7 +214,7 @@ export async function benchSpeed(runs: number): Promise<void> {
     console.log('  Debian potrace is not installed (apt-get install potrace): the floors need it.')
     return
   }
-  const uploads = await uploadAgainstFloor(runs)
+  const uploads = uploadInChild(runs)
 
   console.log('  Trace stage ÷ Debian potrace on the same bitmap (incl. its process start and SVG output; target ≤ 2×):')
   const settings = { speckFilterMm2: 0.5, cornerRounding: 1, curveTolerance: 0.2 }
@@ -254,8 +275,10 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
   const runs = Number(process.env.BENCH_RUNS ?? 5)
   const work = process.argv[2] === '--memory'
     ? memoryChild(files)
-    : process.argv[2] === '--upload'
-      ? uploadAgainstFloor(runs).then(() => console.log(`  (load average ${os.loadavg()[0]!.toFixed(1)} on ${os.availableParallelism()} cores)`))
-      : benchSpeed(runs)
+    : process.argv[2] === '--upload-child'
+      ? uploadAgainstFloor(runs).then((figures) => console.log(JSON.stringify(figures)))
+      : process.argv[2] === '--upload'
+        ? Promise.resolve(uploadInChild(runs)).then(() => console.log(`  (load average ${os.loadavg()[0]!.toFixed(1)} on ${os.availableParallelism()} cores)`))
+        : benchSpeed(runs)
   work.catch((e) => { console.error(e); process.exit(1) })
 }

@@ -6,6 +6,7 @@ import { createError } from 'h3'
 import type { RunRequest, RunResult } from '../pipeline/run'
 import type { WorkerAnswer } from '../pipeline/worker'
 import type { ColourAnswer, ColourTask } from '../pipeline/colour/tasks'
+import { configurePipelineHeap } from '../pipeline/heap'
 
 const WORKER_FILE = 'pipeline-worker.mjs'
 let pool: Piscina | undefined
@@ -24,6 +25,7 @@ export function workerPath(file: string, env?: string): string {
 }
 
 function usePipelinePool(): Piscina {
+  if (!pool) configurePipelineHeap() // before its threads start
   pool ??= new Piscina({
     filename: workerPath(WORKER_FILE, process.env.DECALWRIGHT_PIPELINE_WORKER),
     // One thread per core: tracing is CPU-bound; more threads only share the same cores.
