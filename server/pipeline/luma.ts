@@ -18,6 +18,9 @@ export const LUMA: Readonly<Record<LumaStandard, LumaCoefficients>> = Object.fre
   bt709: Object.freeze({ name: 'ITU-R BT.709', r: 0.2126, g: 0.7152, b: 0.0722 }),
 })
 
+/** D with D × each coefficient a whole number (four decimals at most). */
+const WHOLE: Readonly<Record<LumaStandard, number>> = { bt601: 1000, bt709: 10000 }
+
 /** Luma of one gamma-encoded 8-bit pixel, unrounded (0…255). */
 export function luma(r: number, g: number, b: number, standard: LumaStandard): number {
   const k = LUMA[standard]
@@ -26,7 +29,7 @@ export function luma(r: number, g: number, b: number, standard: LumaStandard): n
 
 /**
  * Interleaved 8-bit pixels (1 = grey, 2 = grey + alpha, 3 = R′G′B′, 4 = R′G′B′A) to an 8-bit
- * grey buffer, one byte per pixel, rounded to the nearest level.
+ * grey buffer, one byte per pixel, rounded to the nearest level (a half up).
  *
  * Transparency is flattened onto white first, per channel on the encoded values:
  * c′ = c·α + 255·(1 − α) with α = A/255 (the usual "over a white page" composite of 8-bit
@@ -43,11 +46,18 @@ export function toGrey(
   if (data.length < n * channels) throw new RangeError(`Expected ${n * channels} bytes of pixel data, got ${data.length}.`)
   const out = new Uint8Array(n)
   const k = LUMA[standard]
-  // Lookup tables: each coefficient times each level, so the inner loop is three loads.
-  const tr = new Float64Array(256)
-  const tg = new Float64Array(256)
-  const tb = new Float64Array(256)
-  for (let v = 0; v < 256; v++) { tr[v] = k.r * v; tg[v] = k.g * v; tb[v] = k.b * v }
+  // Lookup tables: each coefficient times each level, so the inner loop is three loads. In
+  // whole numbers: the coefficients have at most four decimals, so D·Y′ is a whole number and
+  // rounds exactly (half up), where a sum of floating-point products can fall either side of a
+  // half (BT.601 on 0, 36, 12 gives 22.499999999999996 for 22.5).
+  const D = WHOLE[standard]
+  const ir = new Int32Array(256)
+  const ig = new Int32Array(256)
+  const ib = new Int32Array(256)
+  for (let v = 0; v < 256; v++) { ir[v] = Math.round(k.r * D) * v; ig[v] = Math.round(k.g * D) * v; ib[v] = Math.round(k.b * D) * v }
+  // floor(s / D) for whole s ≤ 256·D: the product is within 1e-12 of the quotient, whose
+  // fraction is a multiple of 1/D, so a nudge of 1e-9 makes truncation exact.
+  const inv = 1 / D, half = D / 2
 
   if (channels === 1) {
     out.set(data.subarray(0, n))
@@ -61,22 +71,19 @@ export function toGrey(
     return out
   }
   if (channels === 3) {
-    for (let i = 0, j = 0; i < n; i++, j += 3) {
-      const y = tr[data[j]!]! + tg[data[j + 1]!]! + tb[data[j + 2]!]!
-      out[i] = y >= 255 ? 255 : Math.round(y)
-    }
+    // The coefficients sum to 1, so the sum never exceeds 255·D.
+    for (let i = 0, j = 0; i < n; i++, j += 3) out[i] = ((ir[data[j]!]! + ig[data[j + 1]!]! + ib[data[j + 2]!]! + half) * inv + 1e-9) | 0
     return out
   }
   for (let i = 0, j = 0; i < n; i++, j += 4) {
     const a = data[j + 3]!
-    let y: number
     if (a === 255) {
-      y = tr[data[j]!]! + tg[data[j + 1]!]! + tb[data[j + 2]!]!
-    } else {
-      const f = a / 255
-      const w = 255 * (1 - f)
-      y = k.r * (data[j]! * f + w) + k.g * (data[j + 1]! * f + w) + k.b * (data[j + 2]! * f + w)
+      out[i] = ((ir[data[j]!]! + ig[data[j + 1]!]! + ib[data[j + 2]!]! + half) * inv + 1e-9) | 0
+      continue
     }
+    const f = a / 255
+    const w = 255 * (1 - f)
+    const y = k.r * (data[j]! * f + w) + k.g * (data[j + 1]! * f + w) + k.b * (data[j + 2]! * f + w)
     out[i] = y >= 255 ? 255 : Math.round(y)
   }
   return out

@@ -33,6 +33,25 @@ describe('luma', () => {
     })
   }
 
+  it('rounds all 16.7 million colours as the published formulas do, a half up, in both standards', () => {
+    // Reference in whole numbers from the published coefficients: 1000·Y′ = 299 R′ + 587 G′ +
+    // 114 B′ (BT.601) and 10000·Y′ = 2126 R′ + 7152 G′ + 722 B′ (BT.709), rounded by integer division.
+    const rgb = new Uint8Array(3 << 24)
+    for (let i = 0, j = 0; i < 1 << 24; i++, j += 3) { rgb[j] = i >> 16; rgb[j + 1] = (i >> 8) & 255; rgb[j + 2] = i & 255 }
+    for (const [std, d, k] of [['bt601', 1000, [299, 587, 114]], ['bt709', 10000, [2126, 7152, 722]]] as const) {
+      const grey = toGrey(rgb, 4096, 4096, 3, std)
+      let wrong = 0, first = -1
+      for (let i = 0; i < 1 << 24; i++) {
+        const s = k[0] * (i >> 16) + k[1] * ((i >> 8) & 255) + k[2] * (i & 255)
+        if (grey[i] !== (s + d / 2 - ((s + d / 2) % d)) / d) { wrong++; if (first < 0) first = i }
+      }
+      expect(wrong, `${std}: first at ${first >> 16}, ${(first >> 8) & 255}, ${first & 255}`).toBe(0)
+    }
+    // A tie that a sum of floating-point products misses: 0.587·36 + 0.114·12 is 22.5 exactly.
+    expect([...toGrey(new Uint8Array([0, 36, 12]), 1, 1, 3, 'bt601')]).toEqual([23])
+    expect([...toGrey(new Uint8Array([0, 36, 12, 255]), 1, 1, 4, 'bt601')]).toEqual([23])
+  })
+
   it('gives the textbook values for pure primaries', () => {
     // 255 × coefficient, rounded: BT.601 red 76.245, green 149.685, blue 29.07
     expect([...toGrey(new Uint8Array([255, 0, 0, 0, 255, 0, 0, 0, 255]), 3, 1, 3, 'bt601')]).toEqual([76, 150, 29])
