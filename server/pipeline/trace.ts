@@ -61,8 +61,12 @@ function declarationAt(src: string, name: string): { start: number, end: number 
  * each full garbage collection (one or two per upload, from the image buffers) the next trace
  * ran unoptimised while the compiler threads rebuilt the same code: 3–4× slower, with the
  * second core busy compiling. Rebuilt here from the port's own source text, the functions
- * hoisted into a scope made once (`self` set for the call and let go after it, so the last
- * path is not held), in strict mode as the port is, against the port's own modules.
+ * hoisted into a scope made once, in strict mode as the port is, against the port's own
+ * modules. `self` is set for each call and kept until the next: the last path's objects keep
+ * alive the object shapes the compiled code was built for. Let go, a full collection took
+ * those shapes and their code with them, and the next trace again ran cold (the 4 MP bench
+ * drawing after a forced collection: 35–130 ms, against 27–50 ms kept). The cost is one
+ * path's objects per thread between traces.
  * trace.test.ts checks that it traces exactly as the port's method; null (and the port's
  * method used) when the source does not have the expected shape.
  */
@@ -83,7 +87,7 @@ function processPathOnce(): ProcessPath | null {
   try {
     const lib = (m: string) => require(`potrace/lib/${m}`) as unknown
     const make = new Function('Curve', 'Opti', 'Point', 'Quad', 'Sum', 'utils',
-      `'use strict';\nvar self;\n${helpers.join('\n')}\n${decls}\nreturn function processPath() { self = this; try { ${body} } finally { self = undefined } }`)
+      `'use strict';\nvar self;\n${helpers.join('\n')}\n${decls}\nreturn function processPath() { self = this; ${body} }`)
     return make(lib('types/Curve'), lib('types/Opti'), lib('types/Point'), lib('types/Quad'), lib('types/Sum'), lib('utils')) as ProcessPath
   } catch {
     return null
