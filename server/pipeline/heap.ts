@@ -3,7 +3,8 @@
 // first limit V8 sets from a small live heap: a pipeline thread then ran a full collection
 // every few megabytes of such objects, one or two per 4 MP upload at some 20 ms each. A larger
 // first limit lets those objects die young; the image buffers, held outside the heap, still
-// bring collections of their own as they come and go (measured in scripts/lib/bench-speed.ts).
+// bring collections of their own as they come and go. Counted with --trace-gc, 45 uploads at
+// 4 MP in one thread: 62–83 full collections before, 15–17 after (README, Speed and memory).
 import v8 from 'node:v8'
 
 /** The old generation's first limit in a pipeline thread, MB (V8's --initial-old-space-size). */
