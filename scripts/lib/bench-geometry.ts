@@ -8,7 +8,7 @@
 //  - the measurements of a revision (measureOutline: geometry, fidelity, narrowest stroke) ÷ one
 //    plain pass over the prepared bitmap's pixels, at 12 MP and on a silhouette and a pencil
 //    drawing at 400 mm (target ≤ 100 ms at 12 MP).
-import { execFileSync, spawnSync } from 'node:child_process'
+import { spawnSync } from 'node:child_process'
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import os from 'node:os'
 import path from 'node:path'
@@ -19,6 +19,7 @@ import { TooComplexError } from '../../server/pipeline/errors'
 import { measureOutline } from '../../server/pipeline/measure'
 import { prepareBitmap } from '../../server/pipeline/prepare'
 import { traceBitmap, traceParameters, type TraceInput } from '../../server/pipeline/trace'
+import { besideShell } from './beside'
 
 const POTRACE = '/usr/bin/potrace'
 const SETTINGS = { speckFilterMm2: 0.5, cornerRounding: 1, curveTolerance: 0.2 } // the upload defaults
@@ -122,16 +123,18 @@ function toPbm(b: TraceInput): Buffer {
 
 /**
  * Debian's potrace on the bitmap with our parameters, including process start and SVG output:
- * a function that runs it once, and one that removes its files.
+ * a function that runs it once (from the shell beside the bench: beside.ts), and one that
+ * removes its files.
  */
 export function potraceRunner(b: TraceInput): { run: () => void; done: () => void } {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'dw-bench-geometry-'))
   const pbm = path.join(dir, 'in.pbm')
   writeFileSync(pbm, toPbm(b))
   const p = traceParameters(SETTINGS, b.pxPerMm)
+  const beside = besideShell()
   return {
-    run: () => { execFileSync(POTRACE, ['-s', '-t', String(p.turdSize), '-a', String(p.alphaMax), '-O', String(p.optTolerance), '-o', path.join(dir, 'out.svg'), pbm]) },
-    done: () => rmSync(dir, { recursive: true, force: true }),
+    run: () => beside.run(POTRACE, ['-s', '-t', String(p.turdSize), '-a', String(p.alphaMax), '-O', String(p.optTolerance), '-o', path.join(dir, 'out.svg'), pbm]),
+    done: () => { beside.close(); rmSync(dir, { recursive: true, force: true }) },
   }
 }
 

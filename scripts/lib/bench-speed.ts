@@ -15,7 +15,7 @@
 //  - the tuning bench's preview, the source loaded (target ≤ 150 ms median).
 // Run alone with `npx tsx --tsconfig tsconfig.tools.json scripts/lib/bench-speed.ts`; the upload
 // figure alone with `… bench-speed.ts --upload` (about a minute with BENCH_RUNS=5).
-import { execFileSync, spawnSync } from 'node:child_process'
+import { spawnSync } from 'node:child_process'
 import v8 from 'node:v8'
 import vm from 'node:vm'
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
@@ -33,6 +33,7 @@ import { PREVIEW_SOURCE_SIDE, runPipeline } from '../../server/pipeline/run'
 import { traceBitmap, traceParameters } from '../../server/pipeline/trace'
 import type { WorkerAnswer } from '../../server/pipeline/worker'
 import { dots, potraceRunner, sideBySide, textPage } from './bench-geometry'
+import { besideShell } from './beside'
 import { buildPipelineWorker, PIPELINE_WORKER_FILE } from './pipeline-worker-build'
 
 const POTRACE = '/usr/bin/potrace'
@@ -111,6 +112,9 @@ async function uploadAgainstFloor(runs: number): Promise<UploadFigure[]> {
   console.log(`  Upload → the revision's files ÷ the floor (sharp decode + Debian potrace + svgo on the same input), ${WIDTH_MM} mm, in one thread with the pipeline threads' heap (${PIPELINE_HEAP_FLAGS.join(' ')}; target ≤ 1.8×):`)
   const out: UploadFigure[] = []
   const dir = mkdtempSync(path.join(os.tmpdir(), 'dw-bench-speed-'))
+  // Potrace runs from a shell beside this process: a fork here would charge the next run of
+  // ours with a page fault on every page it writes (beside.ts).
+  const beside = besideShell()
   try {
     for (const mp of [1, 4, 12]) {
       const photo = await drawingPhoto(mp)
@@ -122,7 +126,7 @@ async function uploadAgainstFloor(runs: number): Promise<UploadFigure[]> {
       const p = traceParameters(prepared.settings, prepared.pxPerMm)
       const floor = async () => {
         await sharp(photo).raw().toBuffer()
-        execFileSync(POTRACE, ['-s', '-t', String(p.turdSize), '-a', String(p.alphaMax), '-O', String(p.optTolerance), '-o', output, input])
+        beside.run(POTRACE, ['-s', '-t', String(p.turdSize), '-a', String(p.alphaMax), '-O', String(p.optTolerance), '-o', output, input])
         optimize(readFileSync(output, 'utf8'), SVGO_CONFIG)
       }
       const ours: number[] = [], pins: number[] = [], floors: number[] = [], ratios: number[] = [], pinRatios: number[] = []
@@ -149,6 +153,7 @@ async function uploadAgainstFloor(runs: number): Promise<UploadFigure[]> {
         + `  (prepared ${prepared.width}×${prepared.height} px, ${first.measurements.nodes} nodes; prepare stage ${fmt(middle(prep))} = ${(middle(prep) / middle(prepFloor)).toFixed(2)}× sharp decode-and-resize)`)
     }
   } finally {
+    beside.close()
     rmSync(dir, { recursive: true, force: true })
   }
   return out
