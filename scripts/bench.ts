@@ -2,7 +2,6 @@
 // Synthetic phone photos (a drawing under uneven light, noise, JPEG) of 1, 4 and 12 MP at
 // 150 mm; per-stage medians; the preview; the event loop's longest pause while 4 revisions run
 // at once in the worker pool; peak memory; and our outline stage against Debian's potrace.
-import { execFileSync } from 'node:child_process'
 import { mkdtempSync, writeFileSync, existsSync } from 'node:fs'
 import os from 'node:os'
 import path from 'node:path'
@@ -12,6 +11,7 @@ import Piscina from 'piscina'
 import { runPipeline, PREVIEW_SOURCE_SIDE, type RunRequest } from '../server/pipeline/run'
 import { prepareBitmap } from '../server/pipeline/prepare'
 import { traceBitmap } from '../server/pipeline/trace'
+import { besideShell } from './lib/beside'
 import { buildPipelineWorker, PIPELINE_WORKER_FILE } from './lib/pipeline-worker-build'
 import type { WorkerAnswer } from '../server/pipeline/worker'
 import { benchBrowserRoundTrip } from './lib/bench-browser'
@@ -105,11 +105,13 @@ async function main() {
     const p = prepared.settings
     const turd = Math.round(p.speckFilterMm2 * prepared.pxPerMm ** 2)
     const theirs: number[] = []
+    const beside = besideShell() // not forked from this process: see scripts/lib/beside.ts
     for (let i = 0; i < RUNS; i++) {
       const t0 = performance.now()
-      execFileSync('/usr/bin/potrace', ['-s', '-t', String(turd), '-a', String(p.cornerRounding), '-O', String(p.curveTolerance), '-o', path.join(dir, 'out.svg'), pbm])
+      beside.run('/usr/bin/potrace', ['-s', '-t', String(turd), '-a', String(p.cornerRounding), '-O', String(p.curveTolerance), '-o', path.join(dir, 'out.svg'), pbm])
       theirs.push(performance.now() - t0)
     }
+    beside.close()
     console.log(`  Debian potrace (C, incl. process start and SVG writing): ${ms(median(theirs))}`)
     console.log(`  ratio ours ÷ Debian:       ${(median(ours) / median(theirs)).toFixed(2)}× (target ≤ 2×)`)
   } else {
