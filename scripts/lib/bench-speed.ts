@@ -107,9 +107,24 @@ function uploadInChild(runs: number): UploadFigure[] {
   return JSON.parse(lines.at(-1)!) as UploadFigure[]
 }
 
+/**
+ * Where the time goes, drawn: one character per 4 ms, each part in its own letter (its name's
+ * first), and a bar at the target (1.8 × the floor) so the gap shows at a glance.
+ */
+function partBars(label: string, names: string[], medians: Record<string, number>, targetMs: number): string {
+  const CELL_MS = 4
+  let bar = ''
+  for (const name of names) bar += name[0]!.repeat(Math.max(1, Math.round(medians[name]! / CELL_MS)))
+  const mark = Math.round(targetMs / CELL_MS)
+  const drawn = bar.length > mark ? `${bar.slice(0, mark)}|${bar.slice(mark)}` : `${bar.padEnd(mark)}|`
+  const total = names.reduce((sum, n) => sum + medians[n]!, 0)
+  return `         ${label.padEnd(6)}${drawn}  ${total.toFixed(0)} ms: ${names.map((n) => `${n} ${medians[n]!.toFixed(0)}`).join(' · ')}`
+}
+
 /** Upload → revision files ÷ (decode + Debian potrace + svgo), interleaved run by run. */
 async function uploadAgainstFloor(runs: number): Promise<UploadFigure[]> {
   console.log(`  Upload → the revision's files ÷ the floor (sharp decode + Debian potrace + svgo on the same input), ${WIDTH_MM} mm, in one thread with the pipeline threads' heap (${PIPELINE_HEAP_FLAGS.join(' ')}; target ≤ 1.8×):`)
+  console.log('    under each size, the medians of the parts drawn, 4 ms a character, | at the target (1.8 × the floor):')
   const out: UploadFigure[] = []
   const dir = mkdtempSync(path.join(os.tmpdir(), 'dw-bench-speed-'))
   // Potrace runs from a shell beside this process: a fork here would charge the next run of
@@ -124,10 +139,16 @@ async function uploadAgainstFloor(runs: number): Promise<UploadFigure[]> {
       const input = path.join(dir, 'in.pbm'), output = path.join(dir, 'out.svg')
       writeFileSync(input, pbm(prepared.bitmap, prepared.width, prepared.height))
       const p = traceParameters(prepared.settings, prepared.pxPerMm)
+      const parts: Record<string, number[]> = {}
+      const part = (name: string, ms: number) => (parts[name] ??= []).push(ms)
       const floor = async () => {
+        const t0 = performance.now()
         await sharp(photo).raw().toBuffer()
+        const t1 = performance.now()
         beside.run(POTRACE, ['-s', '-t', String(p.turdSize), '-a', String(p.alphaMax), '-O', String(p.optTolerance), '-o', output, input])
+        const t2 = performance.now()
         optimize(readFileSync(output, 'utf8'), SVGO_CONFIG)
+        part('decode', t1 - t0); part('Debian potrace', t2 - t1); part('svgo', performance.now() - t2)
       }
       const ours: number[] = [], pins: number[] = [], floors: number[] = [], ratios: number[] = [], pinRatios: number[] = []
       const prep: number[] = [], prepFloor: number[] = []
@@ -143,6 +164,7 @@ async function uploadAgainstFloor(runs: number): Promise<UploadFigure[]> {
         ]
         for (let k = 0; k < turns.length; k++) await turns[(i + k) % turns.length]!()
         prep.push(r!.timings.prepareMs)
+        part('prepare', r!.timings.prepareMs); part('trace', r!.timings.traceMs); part('clean', r!.timings.cleanMs); part('measure', r!.timings.measureMs)
         prepFloor.push(await clock(() => sharp(photo).autoOrient().resize({ width: prepared.width }).raw().toBuffer()))
         ours.push(a); pins.push(b); floors.push(f); ratios.push(a / f); pinRatios.push(b / f)
       }
@@ -151,6 +173,9 @@ async function uploadAgainstFloor(runs: number): Promise<UploadFigure[]> {
       console.log(`    ${String(mp).padStart(2)} MP: upload defaults ${fmt(middle(ours))}  ${ratio.toFixed(2)}× ${verdict(ratio <= 1.8)};`
         + ` choices pinned ${fmt(middle(pins))}  ${pinnedRatio.toFixed(2)}× ${verdict(pinnedRatio <= 1.8)};  floor ${fmt(middle(floors))}`
         + `  (prepared ${prepared.width}×${prepared.height} px, ${first.measurements.nodes} nodes; prepare stage ${fmt(middle(prep))} = ${(middle(prep) / middle(prepFloor)).toFixed(2)}× sharp decode-and-resize)`)
+      const medians = Object.fromEntries(Object.entries(parts).map(([k, v]) => [k, middle(v)]))
+      console.log(partBars('floor', ['decode', 'Debian potrace', 'svgo'], medians, middle(floors) * 1.8))
+      console.log(partBars('ours', ['prepare', 'trace', 'clean', 'measure'], medians, middle(floors) * 1.8))
     }
   } finally {
     beside.close()
