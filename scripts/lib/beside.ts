@@ -26,22 +26,30 @@ const quote = (s: string) => `'${s.replaceAll('\'', `'\\''`)}'`
 export function besideShell(): Beside {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'dw-beside-'))
   const ask = path.join(dir, 'ask'), answer = path.join(dir, 'answer')
-  const shell: ChildProcess = spawn('/bin/sh', ['-c', `mkfifo "$1" "$2" && exec 3<"$1" 4>"$2" && while IFS= read -r line <&3; do sh -c "$line" >/dev/null 2>&1 </dev/null; echo "$?" >&4; done`, 'beside', ask, answer],
+  const shell: ChildProcess = spawn('/bin/sh', ['-c', `mkfifo "$1" "$2" && exec 3<"$1" 4>"$2" && while IFS= read -r line <&3; do eval "$line" >/dev/null 2>&1 </dev/null; echo "$?" >&4; done`, 'beside', ask, answer],
     { stdio: 'ignore' })
   let failed: Error | null = null
   shell.on('error', (e) => { failed = e })
-  // The shell makes the FIFOs; opening one blocks until the other end is open, so wait for them.
+  // The shell makes the FIFOs and opens its ends; wait for that without blocking on a shell
+  // that never gets there: no O_CREAT (it must be the shell's FIFO), and O_NONBLOCK, with which
+  // opening a FIFO to write fails (ENXIO) until its reader has it open.
   const until = Date.now() + 5000
-  let askFd = -1, answerFd = -1
+  let askFd = -1
   while (askFd < 0) {
     try {
-      askFd = openSync(ask, constants.O_WRONLY) // no O_CREAT: the shell makes it a FIFO
+      askFd = openSync(ask, constants.O_WRONLY | constants.O_NONBLOCK)
     } catch (e) {
-      if ((e as NodeJS.ErrnoException).code !== 'ENOENT' || Date.now() > until || failed) throw failed ?? e
+      const code = (e as NodeJS.ErrnoException).code
+      if ((code !== 'ENOENT' && code !== 'ENXIO') || Date.now() > until || failed) {
+        shell.kill()
+        rmSync(dir, { recursive: true, force: true })
+        throw failed ?? new Error(`The shell beside the bench did not start (${code}).`, { cause: e })
+      }
       Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, 5)
     }
   }
-  answerFd = openSync(answer, constants.O_RDONLY)
+  // The shell opens the answer FIFO right after the ask FIFO, so this wait is short.
+  const answerFd = openSync(answer, constants.O_RDONLY)
   const buf = Buffer.alloc(64)
   return {
     run(file, args) {
