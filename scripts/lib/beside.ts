@@ -3,7 +3,8 @@
 //
 // Why: Node starts a child by fork() (libuv, on Linux), which marks every writable page of the
 // bench's process copy-on-write. The first write to each page afterwards faults, even once the
-// child has exec'd. Measured on this machine with a 1 MP upload run just after an
+// child has exec'd (the mechanism as remembered, not looked up; the counts below are
+// measured). Measured on this machine with a 1 MP upload run just after an
 // execFileSync(potrace): 11,067 minor faults a run against 1,476 without, and 336 ms against
 // 203. The server's pipeline threads never fork, so the bench must not charge them for it.
 import { spawn, type ChildProcess } from 'node:child_process'
