@@ -17,8 +17,8 @@
 // 256 pixels on the short side (shrinking averages, which also calms noise before the
 // max-filter, which would otherwise pick the brightest noise) and enlarged back bilinearly.
 //
-// The filters run on the image extended by one window on every side, repeating its edge
-// pixels, so a vignette's fall-off towards the border survives the closing.
+// The closing reads the image as extended without end by repeating its edge pixels, so a
+// vignette's fall-off towards the border survives it (closingOfRepeated).
 //
 // Sizes: the window side is windowFraction (default 0.5) of the image's short side, so a
 // solid ink area up to about half the short side across is bridged; the blur's standard
@@ -166,6 +166,26 @@ function oddAtLeast1(v: number): number {
   return r % 2 === 1 ? r : r + 1
 }
 
+/**
+ * Greyscale closing (max-filter, then min-filter, size × size) of the image extended without
+ * end by repeating its edge pixels, read on the image itself. The min-filter near the border
+ * then uses windows that reach outside the image, so brightness that falls steadily towards
+ * an edge (a vignette) comes through the closing as it is, instead of being replaced by the
+ * brighter paper further in.
+ *
+ * A margin of half a window (r) is enough: the min-filter reads the max-filter at most r
+ * outside, and the max-filter's window there, cut at the margin's end, still holds the edge
+ * pixel that every repeated pixel beyond the margin copies.
+ */
+export function closingOfRepeated(img: Uint8Array, width: number, height: number, size: number): Uint8Array {
+  const pad = (size - 1) / 2
+  const pw = width + 2 * pad, ph = height + 2 * pad
+  let padded = padByRepeating(img, width, height, pad)
+  padded = squareExtremumFilter(padded, pw, ph, size, true)
+  padded = squareExtremumFilter(padded, pw, ph, size, false)
+  return crop(padded, pw, pad, width, height)
+}
+
 /** Estimate of the bare paper's brightness under the ink, same size as the input. */
 export async function paperEstimate(
   grey: Uint8Array, width: number, height: number,
@@ -179,18 +199,10 @@ export async function paperEstimate(
   const small = await resizeGrey(grey, width, height, sw, sh)
   const size = oddAtLeast1(windowFraction * Math.min(sw, sh))
   let est = small
-  if (method !== 'blur') {
-    // Filter the image extended by one window on each side (edge pixels repeated), so the
-    // min-filter near the border can use windows that reach outside the image: brightness
-    // that falls steadily towards an edge (a vignette) then comes through the closing as it
-    // is, instead of being replaced by the brighter paper further in.
-    const pad = size
-    const pw = sw + 2 * pad, ph = sh + 2 * pad
-    let padded = padByRepeating(est, sw, sh, pad)
-    padded = squareExtremumFilter(padded, pw, ph, size, true)
-    if (method === 'closing') padded = squareExtremumFilter(padded, pw, ph, size, false)
-    est = crop(padded, pw, pad, sw, sh)
-  }
+  if (method === 'closing') est = closingOfRepeated(est, sw, sh, size)
+  // A max-filter alone gives the same on the image with or without the repeated pixels: a
+  // window cut at the image's edge still holds the edge pixel they copy.
+  else if (method === 'max') est = squareExtremumFilter(est, sw, sh, size, true)
   est = await blurGrey(est, sw, sh, size / 4)
   // The estimate is smooth: bilinear enlargement loses nothing and is quick.
   return sw === width && sh === height ? est : scaleBilinear(est, sw, sh, scaling(sw / width, sh / height), width, height)

@@ -1,6 +1,6 @@
 import sharp from 'sharp'
 import { describe, expect, it } from 'vitest'
-import { evenLighting, paperEstimate, squareExtremumFilter } from '../../../server/pipeline/lighting'
+import { closingOfRepeated, evenLighting, paperEstimate, squareExtremumFilter } from '../../../server/pipeline/lighting'
 import { toGrey } from '../../../server/pipeline/luma'
 import { histogram, otsuThreshold } from '../../../server/pipeline/otsu'
 import { prepareBitmap } from '../../../server/pipeline/prepare'
@@ -24,6 +24,35 @@ describe('square max and min filters (van Herk / Gil-Werman)', () => {
               }
             }
             expect(got[y * w + x]).toBe(v)
+          }
+        }
+      }
+    }
+  })
+})
+
+describe('closing of the image extended by its edge pixels', () => {
+  // The definition, scanned pixel by pixel: the image extended without end by repeating its
+  // edge pixels (clamped coordinates), its max-filter over the whole plane, then the
+  // min-filter of that, read on the image. No margin, no clipping: every window is whole.
+  it('equals a brute-force scan of the extended image, whatever the margin the filters work on', () => {
+    const rnd = mulberry32(21)
+    for (const [w, h] of [[23, 17], [9, 31], [1, 12], [40, 3]] as const) {
+      const img = new Uint8Array(w * h).map(() => Math.floor(rnd() * 256))
+      const at = (x: number, y: number) => img[Math.min(h - 1, Math.max(0, y)) * w + Math.min(w - 1, Math.max(0, x))]!
+      for (const size of [1, 3, 5, 11, 25]) {
+        const r = (size - 1) / 2
+        const max = (x: number, y: number) => {
+          let v = 0
+          for (let yy = y - r; yy <= y + r; yy++) for (let xx = x - r; xx <= x + r; xx++) v = Math.max(v, at(xx, yy))
+          return v
+        }
+        const got = closingOfRepeated(img, w, h, size)
+        for (let y = 0; y < h; y++) {
+          for (let x = 0; x < w; x++) {
+            let v = 255
+            for (let yy = y - r; yy <= y + r; yy++) for (let xx = x - r; xx <= x + r; xx++) v = Math.min(v, max(xx, yy))
+            expect(got[y * w + x], `${w} × ${h}, window ${size}, at (${x}, ${y})`).toBe(v)
           }
         }
       }
