@@ -384,8 +384,15 @@ function evenInPlace(grey: Uint8Array, w: number, h: number, paperMap: Uint8Arra
   return hist
 }
 
-/** Sources up to this many pixels are decoded whole while the analysis runs (36 MB at 12 MP). */
-export const DECODE_BESIDE_MAX_PIXELS = 16_000_000
+/**
+ * Sources up to this many pixels are decoded whole while the analysis runs (30 MB of R′G′B′).
+ * Larger copies lie above glibc's largest mmap threshold (32 MiB on 64-bit, mallopt(3)), so
+ * each is mapped afresh and faults on every page it writes, which on this machine cost about
+ * 10 µs a page: a 12 MP copy (36 MB, some 9,000 faults) took longer than the analysis it ran
+ * beside. Timed turn about in one process, 12 MP came out 8–16 % faster read after the
+ * analysis instead, 8 and 10 MP alike either way, 4 MP faster decoded beside.
+ */
+export const DECODE_BESIDE_MAX_PIXELS = 10_000_000
 
 /**
  * Whether the source is decoded whole once and kept for the reads that would decode it whole
